@@ -1,0 +1,5 @@
+"""Allow ``python -m ranker``."""
+
+from .cli import main
+
+raise SystemExit(main())

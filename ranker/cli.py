@@ -1,0 +1,262 @@
+"""Command line: arguments -> API -> exit codes; nothing else.
+
+Exit codes: 0 success; 2 the input is at fault (each message names
+``Sheet!Cell`` or the file and how to fix it); 1 an internal error (one
+line, plus where the full log was written).
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+import tempfile
+import time
+import traceback
+from pathlib import Path
+
+from . import __version__
+from .errors import InputError
+
+EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
+
+
+def _parser() -> argparse.ArgumentParser:
+    p = argparse.ArgumentParser(
+        prog="ranker",
+        description="Rank freight corridors for heavy-duty electric truck charging, "
+        "stress-test the order, and write a results workbook and a justification sheet.",
+        epilog="Planning-level estimates only; confirm grid capacity with the utility; design "
+        "and installation follow local codes and licensed engineers.",
+    )
+    p.add_argument("--version", action="version", version=f"ranker {__version__}")
+    sub = p.add_subparsers(dest="command", required=True, metavar="COMMAND")
+
+    t = sub.add_parser("template", help="write the blank input workbook")
+    t.add_argument("path", type=Path, metavar="PATH.xlsx")
+
+    d = sub.add_parser("demo", help="write the invented demo scenario and run it")
+    d.add_argument("--out", type=Path, default=Path("."), metavar="DIR")
+
+    c = sub.add_parser("check", help="validate an input workbook; print every problem")
+    c.add_argument("input", type=Path, metavar="INPUT.xlsx")
+
+    r = sub.add_parser("run", help="rank the corridors and write the outputs")
+    r.add_argument("input", type=Path, metavar="INPUT.xlsx")
+    r.add_argument(
+        "--out",
+        type=Path,
+        default=None,
+        metavar="DIR",
+        help="output folder (default: the input's folder)",
+    )
+    r.add_argument(
+        "--weights",
+        default=None,
+        metavar="SET",
+        help="weight set by name (default: the first set)",
+    )
+    r.add_argument(
+        "--weight",
+        action="append",
+        default=[],
+        metavar="KEY=VALUE",
+        help="override one criterion's weight for this run (repeatable)",
+    )
+    r.add_argument(
+        "--samples",
+        type=int,
+        default=None,
+        metavar="N",
+        help="Monte Carlo samples (default 10000; 0 turns it off)",
+    )
+    r.add_argument("--seed", type=int, default=None, metavar="N", help="random seed")
+    r.add_argument("--json", action="store_true", help="print the JSON summary on stdout only")
+    r.add_argument("--quiet", action="store_true", help="print nothing but errors")
+    r.add_argument(
+        "--watch", action="store_true", help="re-run whenever the input is saved (Ctrl-C ends)"
+    )
+    return p
+
+
+def _err(*lines: str) -> None:
+    for line in lines:
+        print(line, file=sys.stderr)
+
+
+def parse_overrides(pairs: list[str]) -> dict[str, float]:
+    """Parse ``KEY=VALUE`` pairs of ``--weight``; raise InputError when malformed."""
+    out: dict[str, float] = {}
+    for pair in pairs:
+        key, sep, value = pair.partition("=")
+        try:
+            if not sep or not key.strip():
+                raise ValueError
+            out[key.strip().lower()] = float(value.strip().rstrip("%")) / (
+                100.0 if value.strip().endswith("%") else 1.0
+            )
+        except ValueError:
+            raise InputError.one(
+                "--weight",
+                f"{pair!r} is not KEY=VALUE",
+                "write for example --weight capital_cost=30",
+            ) from None
+    return out
+
+
+class Progress:
+    """A plain progress bar on standard error."""
+
+    def __init__(self, enabled: bool):
+        self.enabled = enabled and sys.stderr.isatty()
+        self.last = 0.0
+
+    def __call__(self, done: int, total: int) -> None:
+        if not self.enabled or total <= 0:
+            return
+        now = time.monotonic()
+        if done < total and now - self.last < 0.1:
+            return
+        self.last = now
+        width = 30
+        filled = int(width * done / total)
+        sys.stderr.write(f"\rrobustness [{'#' * filled}{'.' * (width - filled)}] {done}/{total}")
+        if done >= total:
+            sys.stderr.write("\n")
+        sys.stderr.flush()
+
+
+def cmd_template(args) -> int:
+    from .workbook.template import write_template
+
+    path: Path = args.path
+    if path.suffix.lower() != ".xlsx":
+        raise InputError.one(
+            str(path), "the template must be an .xlsx file", "name it like inputs.xlsx"
+        )
+    if path.exists():
+        raise InputError.one(str(path), "a file of this name exists", "choose a new file name")
+    write_template(path)
+    print(f"Wrote the input template to {path}. Fill it in, then run: ranker check {path}")
+    return EXIT_OK
+
+
+def cmd_check(args) -> int:
+    from .pipeline import check_workbook
+
+    summary = check_workbook(args.input)
+    print(f"{args.input}: no problems found. {summary}")
+    return EXIT_OK
+
+
+def run_once(args, overrides: dict[str, float]) -> dict:
+    """Run the main job once; return the JSON summary."""
+    from . import rank_workbook, write_outputs
+    from .pipeline import DEFAULT_SAMPLES, DEFAULT_SEED
+
+    samples = DEFAULT_SAMPLES if args.samples is None else args.samples
+    seed = DEFAULT_SEED if args.seed is None else args.seed
+    progress = Progress(not (args.quiet or args.json) and samples >= 2000)
+    result = rank_workbook(
+        args.input,
+        weights=args.weights,
+        weight_overrides=overrides,
+        samples=samples,
+        seed=seed,
+        progress=progress,
+    )
+    write_outputs(result, args.out)
+    return result.to_json()
+
+
+def print_ranking(summary: dict, stream=None) -> None:
+    """Print the ranked order and where the outputs are."""
+    stream = stream or sys.stdout
+    method = summary["primary_method"]
+    print(f"Ranking by {method}, weight set '{summary['weight_set']}':", file=stream)
+    for row in summary["ranking"]:
+        first = row.get("rank_acceptability") or []
+        sure = f"  first in {first[0]:.0%} of samples" if first else ""
+        print(
+            f"  {row['rank']:>3}. {row['name']} ({row['corridor_id']})  "
+            f"score {row['scores'][method]:.3f}{sure}",
+            file=stream,
+        )
+    for e in summary["excluded"]:
+        print(
+            f"  excluded: {e['corridor_id']} ({e['criterion']} {e['value']:.4g} "
+            f"against limit {e['limit']:.4g})",
+            file=stream,
+        )
+    for w in summary["warnings"]:
+        print(f"warning: {w}", file=sys.stderr)
+    print(f"Results workbook: {summary['outputs']['workbook']}", file=stream)
+    print(f"Justification sheet: {summary['outputs']['html']}", file=stream)
+
+
+def cmd_run(args) -> int:
+    overrides = parse_overrides(args.weight)
+    if args.watch:
+        from .watch import watch
+
+        return watch(args, overrides, run_once)
+    summary = run_once(args, overrides)
+    if args.json:
+        json.dump(summary, sys.stdout, indent=2)
+        sys.stdout.write("\n")
+    elif not args.quiet:
+        print_ranking(summary)
+    return EXIT_OK
+
+
+def cmd_demo(args) -> int:
+    from .demo import write_demo
+
+    out: Path = args.out
+    out.mkdir(parents=True, exist_ok=True)
+    path = write_demo(out)
+    run_args = argparse.Namespace(
+        input=path,
+        out=out,
+        weights=None,
+        weight=[],
+        samples=None,
+        seed=None,
+        json=False,
+        quiet=False,
+        watch=False,
+    )
+    summary = run_once(run_args, {})
+    print_ranking(summary)
+    print(f"Demo input workbook: {path}")
+    return EXIT_OK
+
+
+COMMANDS = {"template": cmd_template, "check": cmd_check, "run": cmd_run, "demo": cmd_demo}
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the command line; return the exit code."""
+    args = _parser().parse_args(argv)
+    try:
+        return COMMANDS[args.command](args)
+    except InputError as exc:
+        _err(*(str(p) for p in exc.problems))
+        _err(f"{len(exc.problems)} problem(s) found; nothing was written.")
+        return EXIT_INPUT
+    except KeyboardInterrupt:
+        _err("Stopped.")
+        return 130
+    except Exception as exc:  # the one place every other failure is caught
+        log = Path(tempfile.gettempdir()) / f"ranker-error-{int(time.time())}.log"
+        try:
+            log.write_text(traceback.format_exc(), encoding="utf-8")
+            where = f"full log in {log}"
+        except OSError:
+            where = "no log could be written"
+        _err(f"ranker: internal error: {type(exc).__name__}: {exc} ({where})")
+        return EXIT_INTERNAL
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

@@ -1,0 +1,507 @@
+"""The whole job, stage by stage: read, derive, weigh, screen, score, stress, plan.
+
+Data flows one way: workbook -> typed tables -> criteria matrix -> scores ->
+stress results -> plan. Reports are written from the :class:`Result` by
+:mod:`ranker.report`; nothing here touches a file but the input it reads.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from . import __version__
+from .assumptions import resolve
+from .errors import InputError, Problem, Problems
+from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
+
+#: Seed used when none is given, so two runs of one input give identical outputs.
+DEFAULT_SEED = 20261201
+#: Monte Carlo samples when none are given.
+DEFAULT_SAMPLES = 10_000
+
+
+@dataclass
+class Result:
+    """Everything one run found; the report writers read only this.
+
+    Attributes
+    ----------
+    inputs : Inputs
+        The typed tables read from the workbook.
+    assumptions : dict
+        Every assumption key with the value used (defaults filled in).
+    weight_set : str
+        Name of the weight set used.
+    weights : dict of str to float
+        Weights used, normalised to sum 1, after ``--weight`` overrides [-].
+    overrides : dict of str to float
+        ``--weight KEY=VALUE`` overrides as given (points before renormalising).
+    weight_sets : list
+        Every weight set (:class:`ranker.score.weights.ResolvedWeights`).
+    criteria : list of CriterionSpec
+        The included criteria, in sheet order.
+    matrix : DataFrame
+        Corridors (all, excluded ones too) by included criteria, in each
+        criterion's own unit.
+    provenance : dict of str to str
+        Criterion to ``"derived"`` or ``"given"``.
+    derivation : Derivation or None
+        Intermediate numbers of the derived criteria.
+    excluded : list of dict
+        Corridors screened out, with the rule they failed.
+    scores : Scores
+        Scores and ranks of every method on the kept corridors.
+    robustness : Robustness or None
+        Stress-test results (None when fewer than two corridors are kept).
+    futures : dict or None
+        Ranks under each scenario of the ``Scenarios`` sheet.
+    plan : Plan or None
+        Phased build plan when a ``Budget`` sheet is given.
+    warnings : list of str
+        Every warning of every stage.
+    samples, seed : int
+        Monte Carlo settings used.
+    started : str
+        Start time, ISO 8601 in UTC.
+    """
+
+    inputs: Inputs
+    assumptions: dict
+    weight_set: str
+    weights: dict[str, float]
+    overrides: dict[str, float]
+    weight_sets: list
+    criteria: list[CriterionSpec]
+    matrix: pd.DataFrame
+    provenance: dict[str, str]
+    derivation: object | None
+    excluded: list[dict]
+    scores: object
+    robustness: object | None
+    futures: dict | None
+    plan: object | None
+    warnings: list[str]
+    samples: int
+    seed: int
+    started: str
+    tool_version: str = __version__
+    outputs: dict[str, str] = field(default_factory=dict)
+
+    @property
+    def primary_method(self) -> str:
+        """Key of the method that decides rank."""
+        return str(self.assumptions["primary_method"])
+
+    @property
+    def ranking(self) -> pd.DataFrame:
+        """Kept corridors sorted by rank: rank, name, then one score column per method."""
+        s = self.scores
+        table = pd.DataFrame(
+            {"rank": s.rank, "name": self.inputs.corridors.loc[s.rank.index, "name"]}
+        )
+        for method in s.scores.columns:
+            table[f"score_{method}"] = s.scores[method]
+            table[f"rank_{method}"] = s.ranks[method]
+        table.index.name = "corridor_id"
+        order = np.lexsort((np.arange(len(table)), table["rank"].to_numpy()))
+        return table.iloc[order]
+
+    def to_json(self) -> dict:
+        """Return the JSON summary of the contract (plus added fields)."""
+        from .report.summary import summary_json
+
+        return summary_json(self)
+
+
+def rank_workbook(
+    path: str | Path,
+    *,
+    weights: str | None = None,
+    weight_overrides: Mapping[str, float] | None = None,
+    samples: int = DEFAULT_SAMPLES,
+    seed: int = DEFAULT_SEED,
+    progress: Callable[[int, int], None] | None = None,
+) -> Result:
+    """Rank the corridors of one input workbook, as ``ranker run`` does.
+
+    Parameters
+    ----------
+    path : str or Path
+        The filled-in input workbook (``.xlsx``).
+    weights : str, optional
+        Name of the weight set to use; default the first set.
+    weight_overrides : mapping, optional
+        Criterion key to weight points replacing that criterion's points in
+        the chosen set before renormalising (``--weight KEY=VALUE``).
+    samples : int
+        Monte Carlo samples for rank acceptability; 0 turns it off.
+    seed : int
+        Seed of the random stream.
+    progress : callable, optional
+        Called as ``progress(done, total)`` during the Monte Carlo.
+
+    Returns
+    -------
+    Result
+
+    Raises
+    ------
+    InputError
+        When the workbook or an option is at fault; every problem is listed.
+    """
+    from .workbook.read import read_workbook
+
+    started = _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
+    inputs = read_workbook(Path(path))
+    return rank_inputs(
+        inputs,
+        weights=weights,
+        weight_overrides=weight_overrides,
+        samples=samples,
+        seed=seed,
+        progress=progress,
+        started=started,
+    )
+
+
+def rank_inputs(
+    inputs: Inputs,
+    *,
+    weights: str | None = None,
+    weight_overrides: Mapping[str, float] | None = None,
+    samples: int = DEFAULT_SAMPLES,
+    seed: int = DEFAULT_SEED,
+    progress: Callable[[int, int], None] | None = None,
+    started: str | None = None,
+) -> Result:
+    """Rank already-read inputs; see :func:`rank_workbook`."""
+    from .score import score_matrix
+    from .score.screen import screen
+    from .score.weights import resolve_weight_sets
+
+    if samples < 0:
+        raise InputError.one("--samples", f"{samples} is negative", "give 0 or more samples")
+    started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
+    warnings = list(inputs.warnings)
+    assumptions = resolve(inputs.assumptions)
+    included = inputs.included
+    if not included:
+        raise InputError.one(
+            CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
+        )
+    matrix, provenance, derivation = build_matrix(inputs, assumptions)
+    if derivation is not None:
+        warnings.extend(derivation.warnings)
+
+    sets = resolve_weight_sets(inputs, matrix, assumptions)
+    for s in sets:
+        warnings.extend(s.warnings)
+    chosen = choose_weight_set(sets, weights)
+    used, overrides = apply_overrides(chosen, weight_overrides, included)
+
+    kept, excluded = screen(matrix, included, inputs)
+    scores = score_matrix(matrix.loc[kept], included, used, assumptions)
+    warnings.extend(scores.warnings)
+
+    robustness = None
+    if len(kept) >= 2:
+        robustness = _stress(
+            matrix.loc[kept],
+            included,
+            scores,
+            used,
+            sets,
+            assumptions,
+            inputs,
+            samples,
+            seed,
+            progress,
+        )
+        warnings.extend(robustness.warnings)
+    else:
+        warnings.append("Only one corridor remains after screening; robustness analysis skipped.")
+
+    futures = None
+    if inputs.scenarios is not None and len(inputs.scenarios):
+        futures = _futures(inputs, used, scores, weights)
+        warnings.extend(futures.get("warnings", []))
+
+    plan = None
+    if inputs.budget is not None and len(inputs.budget):
+        plan = _plan(inputs, assumptions, matrix.loc[kept], scores, derivation, robustness)
+        warnings.extend(plan.warnings)
+
+    return Result(
+        inputs=inputs,
+        assumptions=assumptions,
+        weight_set=chosen.name,
+        weights=used,
+        overrides=overrides,
+        weight_sets=sets,
+        criteria=included,
+        matrix=matrix,
+        provenance=provenance,
+        derivation=derivation,
+        excluded=excluded,
+        scores=scores,
+        robustness=robustness,
+        futures=futures,
+        plan=plan,
+        warnings=_unique(warnings),
+        samples=samples,
+        seed=seed,
+        started=started,
+    )
+
+
+def check_workbook(path: str | Path) -> str:
+    """Validate a workbook as ``ranker check`` does; return a one-line summary.
+
+    Reads every sheet, checks the assumptions, derives the built-in criteria
+    (which checks their raw inputs), resolves every weight set and applies
+    the screening rules, without scoring.
+
+    Raises
+    ------
+    InputError
+        Every problem found.
+    """
+    from .score.screen import screen
+    from .score.weights import resolve_weight_sets
+    from .workbook.read import read_workbook
+
+    inputs = read_workbook(Path(path))
+    assumptions = resolve(inputs.assumptions)
+    if not inputs.included:
+        raise InputError.one(
+            CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
+        )
+    matrix, provenance, derivation = build_matrix(inputs, assumptions)
+    sets = resolve_weight_sets(inputs, matrix, assumptions)
+    kept, excluded = screen(matrix, inputs.included, inputs)
+    derived = sum(1 for v in provenance.values() if v == "derived")
+    warnings = list(inputs.warnings) + (derivation.warnings if derivation is not None else [])
+    text = (
+        f"{len(inputs.corridors)} corridors ({len(excluded and {e['corridor_id'] for e in excluded})} "
+        f"screened out), {len(inputs.included)} criteria ({derived} derived), "
+        f"{len(sets)} weight sets: {', '.join(s.name for s in sets)}."
+    )
+    if warnings:
+        text += "\n" + "\n".join(f"warning: {w}" for w in _unique(warnings))
+    return text
+
+
+def build_matrix(inputs: Inputs, assumptions: dict, *, quiet_given: bool = False):
+    """Assemble the criteria matrix: given columns, then derived built-ins.
+
+    Returns
+    -------
+    matrix : DataFrame
+        Corridors by included criteria, in each criterion's unit.
+    provenance : dict of str to str
+        ``"given"`` or ``"derived"`` per criterion.
+    derivation : Derivation or None
+    """
+    from .derive import BUILT_IN, derive_criteria
+
+    corridors = inputs.corridors
+    problems = Problems()
+    provenance: dict[str, str] = {}
+    given: dict[str, pd.Series] = {}
+    to_derive: list[str] = []
+    for spec in inputs.included:
+        if spec.key in corridors.columns:
+            column = pd.to_numeric(corridors[spec.key], errors="coerce")
+            for cid in column.index[column.isna()]:
+                problems.add(
+                    inputs.where(CORRIDORS, spec.key, cid),
+                    f"criterion {spec.key} is empty for corridor {cid}",
+                    "type a number, or set include to no for this criterion on Criteria",
+                )
+            given[spec.key] = column
+            provenance[spec.key] = "given"
+        elif spec.key in BUILT_IN:
+            to_derive.append(spec.key)
+            provenance[spec.key] = "derived"
+        else:
+            problems.add(
+                inputs.where(CRITERIA, "criterion", spec.key),
+                f"criterion {spec.key} is neither a Corridors column nor a built-in criterion",
+                "add a numeric column of that name to Corridors, or use one of "
+                + ", ".join(BUILT_IN),
+            )
+    problems.raise_if_any()
+    derivation = derive_criteria(inputs, assumptions, to_derive) if to_derive else None
+    columns = {}
+    for spec in inputs.included:
+        columns[spec.key] = given[spec.key] if spec.key in given else derivation.values[spec.key]
+    matrix = pd.DataFrame(columns, index=corridors.index).astype(float)
+    return matrix, provenance, derivation
+
+
+def choose_weight_set(sets: list, name: str | None):
+    """Return the weight set named ``name`` (default: the first board set)."""
+    board = [s for s in sets if not s.reference_only]
+    if name is None:
+        return board[0] if board else sets[0]
+    for s in sets:
+        if s.name == name:
+            return s
+    raise InputError.one(
+        "--weights",
+        f"no weight set named {name!r}",
+        "use one of " + ", ".join(s.name for s in sets),
+    )
+
+
+def apply_overrides(
+    chosen,
+    overrides: Mapping[str, float] | None,
+    included: list[CriterionSpec],
+) -> tuple[dict[str, float], dict[str, float]]:
+    """Replace some criteria's weights in the chosen set and renormalise it to sum 1.
+
+    For a set of points (the ``weight`` columns) an override is in the same
+    points the planner typed: ``--weight capital_cost=40`` replaces capital
+    cost's points by 40. For sets made otherwise (rank order, pairwise,
+    objective) it replaces the normalised weight. Either way the set is then
+    divided by its sum.
+    """
+    if not overrides:
+        return dict(chosen.weights), {}
+    base = dict(chosen.given) if chosen.how == "points" else dict(chosen.weights)
+    keys = [c.key for c in included]
+    problems = Problems()
+    for key, value in overrides.items():
+        if key not in keys:
+            problems.add(
+                "--weight", f"{key} is not an included criterion", "use one of " + ", ".join(keys)
+            )
+        elif not np.isfinite(value) or value < 0:
+            problems.add(
+                "--weight", f"{key}={value} is not a weight", "give a number of 0 or more"
+            )
+    problems.raise_if_any()
+    base.update({k: float(v) for k, v in overrides.items()})
+    total = sum(base.get(k, 0.0) for k in keys)
+    if total <= 0:
+        raise InputError.one(
+            "--weight", "every weight of the set is zero", "give at least one weight above 0"
+        )
+    return {k: base.get(k, 0.0) / total for k in keys}, dict(overrides)
+
+
+def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, seed, progress):
+    from .score import METHODS
+    from .stress import stress_test
+
+    method = METHODS[str(assumptions["primary_method"])]
+    options = method_options(method, assumptions)
+    keep = [c.key for c in included if c.key in scores.weights]
+    uncertainty = {c.key: c.uncertainty_pct for c in included if c.uncertainty_pct}
+    board_sets = {s.name: {k: s.weights[k] for k in keep} for s in sets if not s.reference_only}
+    return stress_test(
+        matrix[keep],
+        {k: scores.weights[k] for k in keep},
+        {c.key: c.is_benefit for c in included if c.key in keep},
+        kernel=method.kernel,
+        higher_is_better=method.higher_is_better,
+        kernel_options=options,
+        samples=samples,
+        seed=seed,
+        sampling=str(assumptions["weight_sampling"]),
+        concentration=float(assumptions["weight_concentration"]),
+        uncertainty_pct={k: v for k, v in uncertainty.items() if k in keep} or None,
+        weight_sets=board_sets if len(board_sets) > 1 else None,
+        labels={c.key: c.label for c in included},
+        names=inputs.corridors["name"].astype(str).to_dict(),
+        progress=progress,
+    )
+
+
+def method_options(method, assumptions: dict) -> dict:
+    """Return the keyword options a method's kernel takes from the assumptions."""
+    if method.normalization_key:
+        return {"normalization": str(assumptions[method.normalization_key])}
+    if method.key == "vikor":
+        return {"v": float(assumptions["vikor_v"])}
+    return {}
+
+
+def _futures(inputs: Inputs, used, scores, weights_name):
+    from .score import score_matrix
+    from .score.screen import screen
+    from .stress import futures
+
+    scenarios: dict[str, dict] = {}
+    for _, row in inputs.scenarios.iterrows():
+        scenarios.setdefault(str(row["scenario"]), {})[str(row["key"])] = row["value"]
+
+    def rerank(overrides: dict) -> pd.Series:
+        assumptions = resolve(inputs.assumptions, overrides)
+        matrix, _, _ = build_matrix(inputs, assumptions)
+        kept, _ = screen(matrix, inputs.included, inputs)
+        return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
+
+    return futures(scenarios, rerank, scores.rank)
+
+
+def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
+    from .plan import build_plan
+
+    if "capital_cost" in matrix.columns:
+        capital = matrix["capital_cost"]
+    elif "capital_cost" in inputs.corridors.columns:
+        capital = inputs.corridors.loc[matrix.index, "capital_cost"].astype(float)
+    else:
+        raise InputError.one(
+            "Budget",
+            "a build plan needs each corridor's capital cost",
+            "include capital_cost on Criteria (derived or as a Corridors column), or remove the Budget sheet",
+        )
+    primary = str(assumptions["primary_method"])
+    score = scores.scores[primary]
+    if primary == "vikor":
+        score = 1.0 - score  # VIKOR's Q is lower-is-better; the plan wants more is better
+    truck_miles = None
+    if derivation is not None and "electric_trucks_per_day" in derivation.sizing.columns:
+        sizing = derivation.sizing.loc[matrix.index]
+        truck_miles = (
+            sizing["electric_trucks_per_day"]
+            * inputs.corridors.loc[matrix.index, "length_mi"]
+            * 365.0
+        )
+    connects = inputs.corridors["connects"] if "connects" in inputs.corridors.columns else None
+    endpoints = assumptions.get("coverage_endpoints") or None
+    sample_scores = getattr(robustness, "sample_scores", None) if robustness else None
+    return build_plan(
+        capital,
+        score,
+        scores.rank,
+        inputs.budget,
+        carry_over=bool(assumptions["budget_carry_over"]),
+        allow_split=bool(assumptions["allow_split"]),
+        objective=str(assumptions["plan_objective"]),
+        truck_miles=truck_miles,
+        discount_rate=float(assumptions["discount_rate"]),
+        connects=connects.loc[matrix.index] if connects is not None else None,
+        endpoints=list(endpoints) if endpoints else None,
+        sample_scores=sample_scores,
+        names=inputs.corridors["name"].astype(str).to_dict(),
+    )
+
+
+def _unique(items: list[str]) -> list[str]:
+    seen: dict[str, None] = {}
+    for item in items:
+        seen.setdefault(str(item), None)
+    return list(seen)
+
+
+__all__ = ["Result", "rank_workbook", "rank_inputs", "Problem", "InputError"]

@@ -1,0 +1,172 @@
+"""The justification sheet: one self-contained, printable HTML file."""
+
+from __future__ import annotations
+
+from importlib import resources
+from pathlib import Path
+
+import jinja2
+
+from ..assumptions import ASSUMPTIONS
+from ..files import HTML_MARKER
+from . import charts, narrative
+from .sheets import criterion_unit
+from .workbook import CAUTION
+
+
+def template_folder():
+    """Return the folder holding the HTML template and its stylesheet.
+
+    The installed package carries it as ``ranker.templates``; a source
+    checkout on ``sys.path`` without installing has it at ``templates/``.
+    """
+    try:
+        return resources.files("ranker.templates")
+    except ModuleNotFoundError:
+        return Path(__file__).resolve().parents[2] / "templates"
+
+
+def _environment() -> jinja2.Environment:
+    folder = template_folder()
+    loader = jinja2.FunctionLoader(lambda name: (folder / name).read_text(encoding="utf-8"))
+    return jinja2.Environment(loader=loader, autoescape=True, undefined=jinja2.StrictUndefined)
+
+
+def _cards(result) -> list[dict]:
+    d = result.derivation
+    rob = result.robustness
+    tips = rob.tipping_points if rob is not None else []
+    cards = []
+    for cid, row in result.ranking.iterrows():
+        strong, weak = narrative.strongest_weakest(result, cid)
+        facts = []
+        if d is not None and cid in d.sizing.index:
+            s = d.sizing.loc[cid]
+            for key, label in (
+                ("ports", "charging ports"),
+                ("stations", "charging sites"),
+                ("capital_cost_usd", "capital cost [USD]"),
+                ("peak_load_mw", "new peak load [MW]"),
+                ("grid_headroom_mw", "grid headroom [MW]"),
+                ("revenue_npv_usd", "charging margin NPV [USD]"),
+                ("governing_rule", "ports set by"),
+            ):
+                if key in s.index:
+                    facts.append(
+                        (label, narrative.fmt(s[key]) if key != "governing_rule" else s[key])
+                    )
+        changes = [
+            t["sentence"] for t in tips if cid in (t.get("corridor_id"), t.get("other_id"))
+        ][:4]
+        cards.append(
+            {
+                "id": cid,
+                "name": row["name"],
+                "rank": int(row["rank"]),
+                "score": float(row[f"score_{result.primary_method}"]),
+                "first": float(rob.first_rank.get(cid, 0.0))
+                if rob is not None and len(rob.first_rank)
+                else None,
+                "strong": strong,
+                "weak": weak,
+                "facts": facts,
+                "changes": changes,
+            }
+        )
+    return cards
+
+
+def build_html(result) -> str:
+    """Return the justification sheet for ``result`` as HTML text."""
+    charts.reset_ids()
+    ranking = result.ranking
+    labels = [f"{r['rank']}. {r['name']}" for _, r in ranking.iterrows()]
+    crit_labels = {c.key: c.label for c in result.criteria}
+    s = result.scores
+    rob = result.robustness
+    figures = {
+        "scores": charts.score_bars(
+            labels,
+            ranking[f"score_{result.primary_method}"].to_numpy(),
+            method=result.primary_method,
+        ),
+        "contributions": charts.contribution_bars(
+            s.contributions.loc[ranking.index], labels, crit_labels
+        ),
+        "acceptability": (
+            charts.acceptability_heatmap(rob.acceptability.loc[ranking.index], labels)
+            if rob is not None and len(rob.acceptability)
+            else ""
+        ),
+        "tipping": charts.tipping_chart(rob.tipping_points, crit_labels)
+        if rob is not None
+        else "",
+    }
+    given = set(result.inputs.assumptions)
+    assumptions = [
+        {
+            "key": k,
+            "value": _text(result.assumptions[k]),
+            "unit": a.unit,
+            "note": a.note,
+            "set_by": "workbook" if k in given else "default",
+        }
+        for k, a in ASSUMPTIONS.items()
+        if k in result.assumptions
+    ]
+    rows = []
+    for cid, r in ranking.iterrows():
+        rows.append(
+            {
+                "rank": int(r["rank"]),
+                "id": cid,
+                "name": r["name"],
+                "scores": [float(r[f"score_{m}"]) for m in s.scores.columns],
+                "ranks": [int(r[f"rank_{m}"]) for m in s.scores.columns],
+                "first": (
+                    float(rob.first_rank.get(cid, 0.0))
+                    if rob is not None and len(rob.first_rank)
+                    else None
+                ),
+            }
+        )
+    context = {
+        "marker": HTML_MARKER,
+        "r": result,
+        "rows": rows,
+        "methods": list(s.scores.columns),
+        "recommendation": narrative.recommendation(result),
+        "agreement": narrative.agreement_sentence(result),
+        "reversal": narrative.reversal_sentences(result),
+        "figures": figures,
+        "cards": _cards(result),
+        "criteria": [
+            {
+                "key": c.key,
+                "label": c.label,
+                "direction": c.direction,
+                "unit": criterion_unit(c.key),
+                "source": result.provenance.get(c.key, "given"),
+                "weight": result.weights.get(c.key, 0.0),
+            }
+            for c in result.criteria
+        ],
+        "weight_sets": result.weight_sets,
+        "assumptions": assumptions,
+        "caution": CAUTION,
+        "excluded": result.excluded,
+        "closeness": (
+            rob.closeness.to_dict(orient="records")
+            if rob is not None and len(rob.closeness)
+            else []
+        ),
+    }
+    return _environment().get_template("sheet.html.j2").render(**context)
+
+
+def _text(value):
+    if isinstance(value, tuple):
+        return ", ".join(value)
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    return value

@@ -1,0 +1,123 @@
+"""Sentences for the justification sheet, each generated from the numbers.
+
+No sentence claims what the numbers do not show: certainty words follow the
+first-rank acceptability, agreement words follow Kendall's tau.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+
+def certainty_word(share: float) -> str:
+    """Describe a first-rank acceptability in words (thresholds: common practice)."""
+    if share >= 0.9:
+        return "very likely"
+    if share >= 0.7:
+        return "likely"
+    if share >= 0.5:
+        return "more likely than not"
+    return "not clearly"
+
+
+def recommendation(result) -> list[str]:
+    """Return the two-sentence recommendation for the decision summary."""
+    ranking = result.ranking
+    names = ranking["name"].astype(str).tolist()
+    top = names[0]
+    first = ranking.index[0]
+    s1 = f"Fund {top} first"
+    if len(names) > 1:
+        s1 += f", then {names[1]}" + (f" and {names[2]}" if len(names) > 2 else "")
+    s1 += f", by {result.primary_method} with the '{result.weight_set}' weights."
+    rob = result.robustness
+    if rob is not None and len(rob.first_rank):
+        share = float(rob.first_rank.get(first, 0.0))
+        s2 = (
+            f"{top} ranks first in {share:.0%} of {rob.samples:,} weight samples around these "
+            f"weights, so it is {certainty_word(share)} the best choice"
+        )
+        others = rob.first_rank.drop(first, errors="ignore")
+        if len(others) and others.max() > 0.05:
+            rival = others.idxmax()
+            s2 += (
+                f"; {result.inputs.corridors.at[rival, 'name']} is its nearest rival "
+                f"({others.max():.0%})."
+            )
+        else:
+            s2 += "."
+    else:
+        s2 = "No Monte Carlo analysis was run, so how sure the order is was not measured."
+    return [s1, s2]
+
+
+def agreement_sentence(result) -> str:
+    """Say how far the methods agree, from Kendall's tau with the primary method."""
+    s = result.scores
+    tau = s.agreement.get("kendall")
+    methods = list(s.scores.columns)
+    if tau is None or len(methods) < 2:
+        return "Only one method was run."
+    p = result.primary_method
+    parts = []
+    for m in methods:
+        if m == p:
+            continue
+        t = float(tau.at[p, m]) if m in tau.columns and p in tau.index else float("nan")
+        same_top = s.ranks[m].idxmin() == s.rank.idxmin()
+        parts.append(
+            f"{m} (Kendall's tau {t:.2f}; {'same' if same_top else 'a different'} first corridor)"
+        )
+    return f"Against {p}: " + "; ".join(parts) + "."
+
+
+def strongest_weakest(result, cid) -> tuple[str, str]:
+    """Name a corridor's strongest and weakest criteria, in words and numbers."""
+    norm = result.scores.contributions
+    if cid not in norm.index or not len(norm.columns):
+        return "", ""
+    weights = pd.Series(result.scores.weights)
+    # Position on each criterion between the worst (0) and best (1) corridor.
+    share = norm.loc[cid] / weights.reindex(norm.columns).replace(0, np.nan)
+    share = share.dropna()
+    if share.empty:
+        return "", ""
+    labels = {c.key: c.label for c in result.criteria}
+
+    def describe(key: str) -> str:
+        value = result.matrix.at[cid, key]
+        return f"{labels.get(key, key)} ({fmt(value)}; {share[key]:.0%} of the way from worst to best)"
+
+    return describe(share.idxmax()), describe(share.idxmin())
+
+
+def fmt(value) -> str:
+    """Format a number for a sentence: thousands separators, 3 significant digits."""
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        return str(value)
+    if not np.isfinite(v):
+        return "n/a"
+    if abs(v) >= 1e6:
+        return f"{v / 1e6:,.1f} million"
+    if abs(v) >= 1000:
+        return f"{v:,.0f}"
+    if abs(v) >= 10:
+        return f"{v:.1f}"
+    return f"{v:.3g}"
+
+
+def reversal_sentences(result) -> list[str]:
+    """Plain-word results of the rank-reversal checks."""
+    rob = result.robustness
+    if rob is None:
+        return []
+    out = []
+    for c in rob.rank_reversal:
+        sentence = c.get("sentence") or (
+            f"{c.get('check')}: {'passed' if c.get('passed') else 'failed'}."
+        )
+        out.append(sentence)
+    return out

@@ -1,0 +1,352 @@
+"""One function per result sheet of the results workbook.
+
+To add a sheet, write ``def my_sheet(writer, result)`` here and append it to
+:data:`WRITERS`; it is then written after the others on every run.
+"""
+
+from __future__ import annotations
+
+import pandas as pd
+
+from ..assumptions import ASSUMPTIONS
+from ..derive import BUILT_IN
+from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
+
+#: Units of the built-in criteria, for headers.
+CRITERION_UNITS = {
+    "policy_readiness": "[0-100]",
+    "capital_cost": "[USD]",
+    "charging_revenue": "[USD]",
+    "grid_headroom": "[-]",
+    "terrain_penalty": "[-]",
+}
+
+
+def criterion_unit(key: str) -> str:
+    """Return the unit of a criterion for headers ("" where unknown)."""
+    return CRITERION_UNITS.get(key, "")
+
+
+def ranking_sheet(writer, result) -> None:
+    """Rank, corridor, scores and ranks per method, first-rank acceptability, flags."""
+    ws = writer.sheet("Ranking", "Corridor ranking", CAUTION)
+    table = result.ranking.copy()
+    rob = result.robustness
+    if rob is not None and len(rob.first_rank):
+        table["first_rank_acceptability"] = rob.first_rank.reindex(table.index)
+    flags = {cid: [] for cid in table.index}
+    for group in result.scores.ties:
+        for cid in group:
+            flags[cid].append("tied")
+    if rob is not None and len(rob.closeness) and "practically_tied" in rob.closeness:
+        for _, row in rob.closeness.iterrows():
+            if row.get("practically_tied"):
+                for cid in (row.get("upper"), row.get("lower")):
+                    if cid in flags:
+                        flags[cid].append("practically tied with neighbour")
+    table["flags"] = [", ".join(dict.fromkeys(flags[c])) for c in table.index]
+    units = {c: "[-]" for c in table.columns if c.startswith("score_")}
+    units["first_rank_acceptability"] = "[-]"
+    formats = {c: "0.000" for c in units}
+    top, left, bottom, right = writer.table(
+        ws, table, units=units, formats=formats, index_label="corridor_id"
+    )
+    primary = f"score_{result.primary_method}"
+    col = left + list(table.reset_index().columns).index(primary)
+    bar_chart(
+        ws,
+        title=f"Score by corridor ({result.primary_method})",
+        y_title="score [-]",
+        cats=(left + 1, top + 1, left + 1, bottom),
+        data=(col, top, col, bottom),
+        anchor=f"{_letter(right + 2)}{top}",
+    )
+
+
+def criteria_sheet(writer, result) -> None:
+    """Criteria matrix with units and a derived/given mark; excluded corridors listed."""
+    ws = writer.sheet("Criteria matrix", "Criteria by corridor, in each criterion's unit")
+    m = result.matrix.copy()
+    m.insert(0, "name", result.inputs.corridors.loc[m.index, "name"])
+    excluded = {e["corridor_id"] for e in result.excluded}
+    m["status"] = ["excluded" if c in excluded else "scored" for c in m.index]
+    units = {c.key: criterion_unit(c.key) for c in result.criteria if criterion_unit(c.key)}
+    notes = {
+        c.key: f"{c.label}; {c.direction}; {result.provenance.get(c.key, 'given')}"
+        for c in result.criteria
+    }
+    top, left, bottom, right = writer.table(
+        ws, m, units=units, notes=notes, index_label="corridor_id"
+    )
+    row = bottom + 2
+    put(ws, row, 1, "criterion").font = HEADER_FONT
+    for j, h in enumerate(["label", "direction", "source", "unit"]):
+        put(ws, row, 2 + j, h).font = HEADER_FONT
+    for i, c in enumerate(result.criteria, start=1):
+        for j, v in enumerate(
+            [c.key, c.label, c.direction, result.provenance.get(c.key), criterion_unit(c.key)]
+        ):
+            put(ws, row + i, 1 + j, v)
+    if result.excluded:
+        row += len(result.criteria) + 2
+        put(ws, row, 1, "Excluded before scoring").font = HEADER_FONT
+        ex = pd.DataFrame(result.excluded)
+        writer.table(ws, ex, top=row + 1, name="excluded")
+
+
+def normalised_sheet(writer, result) -> None:
+    """Normalised and weighted matrices of the primary method, and contributions."""
+    ws = writer.sheet("Normalised", f"Normalised and weighted matrices ({result.primary_method})")
+    s = result.scores
+    _, _, bottom, _ = writer.table(ws, s.normalized, index_label="corridor_id", name="normalised")
+    put(ws, bottom + 2, 1, "Weighted (normalised x weight)").font = HEADER_FONT
+    _, _, bottom, _ = writer.table(
+        ws, s.weighted, top=bottom + 3, index_label="corridor_id", name="weighted"
+    )
+    put(
+        ws,
+        bottom + 2,
+        1,
+        "Weighted-sum contribution of each criterion (adds up to the weighted-sum score)",
+    ).font = HEADER_FONT
+    contrib = s.contributions.loc[result.ranking.index]
+    top, left, bottom2, right = writer.table(
+        ws, contrib, top=bottom + 3, index_label="corridor_id", name="contributions"
+    )
+    if len(contrib.columns):
+        bar_chart(
+            ws,
+            title="Weighted contribution of each criterion",
+            y_title="score [-]",
+            cats=(left, top + 1, left, bottom2),
+            data=(left + 1, top, right, bottom2),
+            anchor=f"{_letter(right + 2)}{top}",
+            stacked=True,
+        )
+
+
+def weights_sheet(writer, result) -> None:
+    """Every weight set, how it was obtained, overrides and consistency."""
+    ws = writer.sheet("Weights used", f"Weights: set '{result.weight_set}' used in this run")
+    keys = [c.key for c in result.criteria]
+    frame = pd.DataFrame(index=pd.Index(keys, name="criterion"))
+    frame["label"] = [c.label for c in result.criteria]
+    frame["used [-]"] = [result.weights.get(k, 0.0) for k in keys]
+    for w in result.weight_sets:
+        frame[f"{w.name} [-]"] = [w.weights.get(k, float("nan")) for k in keys]
+        if w.how == "points" or "rank" in w.how:
+            frame[f"{w.name} (as typed)"] = [w.given.get(k, float("nan")) for k in keys]
+    _, _, bottom, _ = writer.table(
+        ws,
+        frame,
+        index_label="criterion",
+        formats={c: "0.000" for c in frame.columns if "[-]" in c},
+    )
+    row = bottom + 2
+    put(ws, row, 1, "set").font = HEADER_FONT
+    for j, h in enumerate(["how obtained", "reference only", "consistency"]):
+        put(ws, row, 2 + j, h).font = HEADER_FONT
+    for i, w in enumerate(result.weight_sets, start=1):
+        cons = ""
+        if w.consistency:
+            c = w.consistency
+            cons = f"lambda_max {c.get('lambda_max', 0):.4f}, CI {c.get('ci', 0):.4f}, CR {c.get('cr', 0):.4f}"
+            if c.get("suggestion"):
+                cons += f"; {c['suggestion']}"
+        for j, v in enumerate([w.name, w.how, "yes" if w.reference_only else "no", cons]):
+            put(ws, row + i, 1 + j, v)
+    if result.overrides:
+        row += len(result.weight_sets) + 2
+        put(ws, row, 1, "Overrides on the command line (--weight)").font = HEADER_FONT
+        for i, (k, v) in enumerate(result.overrides.items(), start=1):
+            put(ws, row + i, 1, k)
+            put(ws, row + i, 2, v)
+
+
+def methods_sheet(writer, result) -> None:
+    """Scores and ranks per method and the agreement between methods."""
+    s = result.scores
+    ws = writer.sheet("Methods", "Scores and ranks by method, and how far the methods agree")
+    frame = pd.concat([s.scores.add_prefix("score_"), s.ranks.add_prefix("rank_")], axis=1)
+    frame = frame.loc[result.ranking.index]
+    _, _, bottom, _ = writer.table(ws, frame, index_label="corridor_id", name="method_scores")
+    for label, key in (
+        ("Kendall's tau between methods' orders", "kendall"),
+        ("Spearman's rho between methods' orders", "spearman"),
+    ):
+        if key in s.agreement and len(s.agreement[key]):
+            put(ws, bottom + 2, 1, label).font = HEADER_FONT
+            _, _, bottom, _ = writer.table(
+                ws, s.agreement[key], top=bottom + 3, index_label="method", name=key
+            )
+    movers = s.agreement.get("movers", [])
+    put(
+        ws, bottom + 2, 1, "Corridors that move more than one place between methods"
+    ).font = HEADER_FONT
+    if movers:
+        writer.table(ws, pd.DataFrame(movers), top=bottom + 3, name="movers")
+    else:
+        put(ws, bottom + 3, 1, "none")
+
+
+def sizing_sheet(writer, result) -> None:
+    """Derivation detail: sizing, energy and cost parts per corridor; adoption path."""
+    d = result.derivation
+    if d is None:
+        return
+    ws = writer.sheet("Sizing", "How the derived criteria were computed, corridor by corridor")
+    sizing = d.sizing.copy()
+    sizing.insert(0, "name", result.inputs.corridors.loc[sizing.index, "name"])
+    writer.table(
+        ws, sizing, units=d.units, notes=d.notes, index_label="corridor_id", name="sizing"
+    )
+    if d.adoption is not None and len(d.adoption):
+        ws2 = writer.sheet("Adoption path", "Electric share of heavy trucks, year by year")
+        writer.table(
+            ws2,
+            d.adoption.set_index("year") if "year" in d.adoption else d.adoption,
+            units=d.units,
+            notes=d.notes,
+            index_label="year",
+            name="adoption",
+        )
+
+
+def robustness_sheet(writer, result) -> None:
+    """Acceptability matrix (colour scale), tipping points, rank-reversal results."""
+    rob = result.robustness
+    if rob is None:
+        return
+    ws = writer.sheet(
+        "Robustness", f"How sure is the order? ({rob.samples} weight samples, seed {rob.seed})"
+    )
+    row = 4
+    if len(rob.acceptability):
+        acc = rob.acceptability.loc[result.ranking.index]
+        top, left, bottom, right = writer.table(
+            ws,
+            acc,
+            index_label="corridor_id",
+            name="acceptability",
+            formats={c: "0%" for c in acc.columns},
+        )
+        colour_scale(ws, f"{_letter(left + 1)}{top + 1}:{_letter(right)}{bottom}")
+        row = bottom + 2
+    else:
+        put(ws, row, 1, "Monte Carlo turned off (--samples 0).")
+        row += 2
+    put(ws, row, 1, "Weight tipping points").font = HEADER_FONT
+    tips = pd.DataFrame(rob.tipping_points)
+    if len(tips):
+        _, _, row, _ = writer.table(ws, tips, top=row + 1, name="tipping")
+    else:
+        put(ws, row + 1, 1, "No weight change within 0..1 alters the order.")
+        row += 1
+    row += 2
+    put(ws, row, 1, "Rank-reversal checks").font = HEADER_FONT
+    checks = pd.DataFrame(
+        [
+            {"check": c.get("check"), "passed": c.get("passed"), "result": c.get("sentence", "")}
+            for c in rob.rank_reversal
+        ]
+    )
+    if len(checks):
+        _, _, row, _ = writer.table(ws, checks, top=row + 1, name="reversal")
+        for r in range(row - len(checks) + 1, row + 1):
+            if ws.cell(row=r, column=2).value == "no":
+                for cc in range(1, 4):
+                    ws.cell(row=r, column=cc).fill = WARN_FILL
+
+
+def plan_sheet(writer, result) -> None:
+    """Phased build plan: year by corridor, spend, remaining budget."""
+    plan = result.plan
+    if plan is None:
+        return
+    ws = writer.sheet(
+        "Phasing", f"Build plan under the Budget sheet (objective: {plan.objective})"
+    )
+    _, _, bottom, _ = writer.table(
+        ws, plan.budget.set_index("year"), index_label="year", name="plan_budget"
+    )
+    put(ws, bottom + 2, 1, "Spend by year and corridor").font = HEADER_FONT
+    _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
+    for i, sentence in enumerate(plan.differences, start=bottom + 2):
+        put(ws, i, 1, sentence)
+
+
+def run_info_sheet(writer, result) -> None:
+    """Version, input SHA-256, seed, samples, timestamp, assumptions, every warning."""
+    ws = writer.sheet("Run info", "Run information")
+    info = [
+        ("tool", f"ranker {result.tool_version}"),
+        ("input file", result.inputs.path.name),
+        ("input SHA-256", result.inputs.sha256),
+        ("run started (UTC)", result.started),
+        ("weight set", result.weight_set),
+        (
+            "weight overrides",
+            ", ".join(f"{k}={v:g}" for k, v in result.overrides.items()) or "none",
+        ),
+        ("primary method", result.primary_method),
+        ("methods", ", ".join(result.scores.scores.columns)),
+        ("Monte Carlo samples", result.samples),
+        ("seed", result.seed),
+        ("caution", CAUTION),
+    ]
+    for i, (k, v) in enumerate(info, start=4):
+        put(ws, i, 1, k).font = HEADER_FONT
+        put(ws, i, 2, v)
+    row = 4 + len(info) + 1
+    put(ws, row, 1, "Warnings").font = HEADER_FONT
+    for i, w in enumerate(result.warnings or ["none"], start=row + 1):
+        put(ws, i, 1, w)
+    row = row + 2 + max(1, len(result.warnings))
+    put(ws, row, 1, "Assumptions used").font = HEADER_FONT
+    given = set(result.inputs.assumptions)
+    table = pd.DataFrame(
+        [
+            {
+                "key": k,
+                "value": _text(result.assumptions[k]),
+                "unit": a.unit,
+                "set by": "workbook" if k in given else "default",
+                "note": a.note,
+            }
+            for k, a in ASSUMPTIONS.items()
+            if k in result.assumptions
+        ]
+    )
+    writer.table(ws, table, top=row + 1, name="assumptions_used")
+    ws.column_dimensions["A"].width = 26
+    ws.column_dimensions["B"].width = 70
+
+
+def _text(value) -> object:
+    if isinstance(value, tuple):
+        return ", ".join(value)
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    return value
+
+
+def _letter(col: int) -> str:
+    from openpyxl.utils import get_column_letter
+
+    return get_column_letter(col)
+
+
+#: Result sheets in the order they are written.
+WRITERS = [
+    ranking_sheet,
+    criteria_sheet,
+    normalised_sheet,
+    weights_sheet,
+    methods_sheet,
+    sizing_sheet,
+    robustness_sheet,
+    plan_sheet,
+    run_info_sheet,
+]
+
+__all__ = ["WRITERS", "BUILT_IN", "criterion_unit"]

@@ -1,0 +1,107 @@
+"""The JSON summary of the contract, built from a Result."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pandas as pd
+
+
+def clean(value):
+    """Return ``value`` as plain JSON types (NaN and infinity become None)."""
+    if isinstance(value, dict):
+        return {str(k): clean(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [clean(v) for v in value]
+    if isinstance(value, (pd.Series,)):
+        return clean(value.to_dict())
+    if isinstance(value, pd.DataFrame):
+        return clean(value.to_dict(orient="records"))
+    if isinstance(value, np.ndarray):
+        return clean(value.tolist())
+    if isinstance(value, (np.bool_, bool)):
+        return bool(value)
+    if isinstance(value, (np.integer,)):
+        return int(value)
+    if isinstance(value, (float, np.floating)):
+        f = float(value)
+        return f if math.isfinite(f) else None
+    return value
+
+
+def summary_json(result) -> dict:
+    """Return the JSON summary of ``result`` (every contract field, plus more)."""
+    s = result.scores
+    rob = result.robustness
+    acceptability = rob.acceptability if rob is not None and len(rob.acceptability) else None
+    ranking = []
+    for cid, row in result.ranking.iterrows():
+        entry = {
+            "corridor_id": str(cid),
+            "name": str(row["name"]),
+            "rank": int(row["rank"]),
+            "scores": {m: float(s.scores.at[cid, m]) for m in s.scores.columns},
+            "ranks": {m: int(s.ranks.at[cid, m]) for m in s.ranks.columns},
+            "criteria": {k: float(result.matrix.at[cid, k]) for k in result.matrix.columns},
+        }
+        if acceptability is not None:
+            entry["rank_acceptability"] = [float(x) for x in acceptability.loc[cid].to_numpy()]
+        else:
+            entry["rank_acceptability"] = []
+        ranking.append(entry)
+    robustness = {"samples": result.samples}
+    if rob is not None:
+        robustness.update(rob.to_json())
+        robustness["samples"] = result.samples
+    else:
+        robustness.update({"rank_reversal": [], "tipping_points": []})
+    out = {
+        "tool_version": result.tool_version,
+        "input_sha256": result.inputs.sha256,
+        "input_file": result.inputs.path.name,
+        "weight_set": result.weight_set,
+        "weights": {k: float(v) for k, v in result.weights.items()},
+        "weight_overrides": dict(result.overrides),
+        "primary_method": result.primary_method,
+        "methods": list(s.scores.columns),
+        "seed": result.seed,
+        "ranking": ranking,
+        "criteria": {
+            c.key: {
+                "label": c.label,
+                "direction": c.direction,
+                "source": result.provenance.get(c.key, "given"),
+            }
+            for c in result.criteria
+        },
+        "weights_sets": [
+            {
+                "name": w.name,
+                "how": w.how,
+                "reference_only": bool(w.reference_only),
+                "weights": w.weights,
+                "consistency": w.consistency,
+            }
+            for w in result.weight_sets
+        ],
+        "robustness": robustness,
+        "rank_acceptability": (
+            {str(cid): [float(x) for x in row] for cid, row in acceptability.iterrows()}
+            if acceptability is not None
+            else {}
+        ),
+        "excluded": result.excluded,
+        "agreement": {
+            "kendall": s.agreement["kendall"].to_dict() if "kendall" in s.agreement else {},
+            "spearman": s.agreement["spearman"].to_dict() if "spearman" in s.agreement else {},
+            "movers": s.agreement.get("movers", []),
+        },
+        "ties": s.ties,
+        "futures": result.futures,
+        "plan": result.plan.to_json() if result.plan is not None else None,
+        "warnings": list(result.warnings),
+        "started": result.started,
+        "outputs": dict(result.outputs),
+    }
+    return clean(out)

@@ -1,0 +1,267 @@
+"""The filled-in results workbook: the input's sheets kept, result sheets added.
+
+Result sheets are named in the workbook's custom property ``ranker-sheets``;
+when the output workbook is itself run again, those sheets are replaced, not
+duplicated, so "adjust weights and re-run" works on either file.
+"""
+
+from __future__ import annotations
+
+import io
+from collections.abc import Sequence
+
+import numpy as np
+import pandas as pd
+from openpyxl import load_workbook
+from openpyxl.chart import BarChart, Reference
+from openpyxl.comments import Comment
+from openpyxl.formatting.rule import ColorScaleRule
+from openpyxl.packaging.custom import StringProperty
+from openpyxl.styles import Alignment, Font, PatternFill
+from openpyxl.utils import get_column_letter
+from openpyxl.worksheet.table import Table, TableStyleInfo
+
+from ..files import MARKER
+
+SHEETS_PROPERTY = "ranker-sheets"
+TAB_COLOUR = "1F4E79"
+TITLE_FONT = Font(bold=True, size=12, color="1F4E79")
+HEADER_FONT = Font(bold=True)
+NOTE_FONT = Font(italic=True, color="595959")
+CAUTION = (
+    "Planning-level estimates only. Confirm grid capacity with the utility; design and "
+    "installation follow local codes and licensed engineers."
+)
+#: Text starting with one of these would be read by a spreadsheet as a formula.
+_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+
+
+def safe_value(value):
+    """Return a cell value that a spreadsheet will never run as a formula."""
+    if isinstance(value, (np.integer,)):
+        return int(value)
+    if isinstance(value, (np.floating, float)):
+        f = float(value)
+        return f if np.isfinite(f) else None
+    if isinstance(value, (np.bool_, bool)):
+        return "yes" if value else "no"
+    if value is None or isinstance(value, (int,)):
+        return value
+    if isinstance(value, (pd.Timestamp,)):
+        return str(value)
+    return str(value)
+
+
+def put(ws, row: int, col: int, value, number_format: str | None = None):
+    """Write one cell; text that looks like a formula stays text."""
+    cell = ws.cell(row=row, column=col)
+    value = safe_value(value)
+    cell.value = value
+    if isinstance(value, str) and value.startswith(_FORMULA_START):
+        cell.data_type = "s"
+    if number_format and isinstance(value, (int, float)):
+        cell.number_format = number_format
+    return cell
+
+
+class SheetWriter:
+    """Add result sheets to a workbook, each with a title, table and print setup."""
+
+    def __init__(self, wb, version: str, stamp: str):
+        self.wb = wb
+        self.version = version
+        self.stamp = stamp
+        self.names: list[str] = []
+
+    def sheet(self, name: str, title: str, note: str = ""):
+        """Create a result sheet with its title rows; return it."""
+        ws = self.wb.create_sheet(self._free_name(name))
+        ws.sheet_properties.tabColor = TAB_COLOUR
+        put(ws, 1, 1, title).font = TITLE_FONT
+        put(
+            ws,
+            2,
+            1,
+            f"Written by ranker {self.version} on {self.stamp}; re-run to refresh. "
+            + (note or ""),
+        ).font = NOTE_FONT
+        ws.page_setup.fitToWidth = 1
+        ws.page_setup.fitToHeight = 0
+        ws.sheet_properties.pageSetUpPr.fitToPage = True
+        ws.print_options.gridLines = False
+        self.names.append(ws.title)
+        return ws
+
+    def _free_name(self, name: str) -> str:
+        taken = set(self.wb.sheetnames)
+        candidate, n = name[:31], 2
+        while candidate in taken:
+            candidate = f"{name[:27]} ({n})"
+            n += 1
+        return candidate
+
+    def table(
+        self,
+        ws,
+        frame: pd.DataFrame,
+        *,
+        top: int = 4,
+        left: int = 1,
+        units: dict[str, str] | None = None,
+        formats: dict[str, str] | None = None,
+        notes: dict[str, str] | None = None,
+        name: str | None = None,
+        index_label: str | None = None,
+    ) -> tuple[int, int, int, int]:
+        """Write ``frame`` (with its index as the first column) as an Excel table.
+
+        Returns the (top, left, bottom, right) of the range written.
+        """
+        units = units or {}
+        formats = formats or {}
+        notes = notes or {}
+        data = frame.reset_index() if index_label is not None or frame.index.name else frame
+        if index_label is not None:
+            data = data.rename(columns={data.columns[0]: index_label})
+        headers = [str(c) for c in data.columns]
+        for j, h in enumerate(headers):
+            label = f"{h} {units[h]}" if h in units else h
+            cell = put(ws, top, left + j, label)
+            cell.font = HEADER_FONT
+            cell.alignment = Alignment(wrap_text=True, vertical="top")
+            if h in notes:
+                cell.comment = Comment(notes[h], "ranker")
+        values = data.to_numpy(dtype=object)
+        for i, row in enumerate(values):
+            for j, v in enumerate(row):
+                put(ws, top + 1 + i, left + j, v, formats.get(headers[j], _default_format(v)))
+        bottom = top + max(1, len(values))
+        right = left + len(headers) - 1
+        for j, h in enumerate(headers):
+            width = max(len(h) + (len(units.get(h, "")) + 1 if h in units else 0), 10)
+            longest = max((len(str(v)) for v in values[:, j]), default=0) if len(values) else 0
+            ws.column_dimensions[get_column_letter(left + j)].width = min(
+                max(width * 0.9, longest + 2), 48
+            )
+        if len(values):
+            ref = f"{get_column_letter(left)}{top}:{get_column_letter(right)}{bottom}"
+            table_name = _table_name(name or ws.title, self.wb)
+            # Table headers must be unique text.
+            seen: set[str] = set()
+            for j in range(len(headers)):
+                cell = ws.cell(row=top, column=left + j)
+                text = str(cell.value) if cell.value is not None else f"column {j + 1}"
+                while text in seen:
+                    text += " "
+                seen.add(text)
+                cell.value = text
+            tab = Table(displayName=table_name, ref=ref)
+            tab.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
+            ws.add_table(tab)
+        ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
+        if len(headers) > 7:
+            ws.page_setup.orientation = "landscape"
+        return top, left, bottom, right
+
+
+def _default_format(value) -> str | None:
+    if isinstance(value, float):
+        return "0.000" if abs(value) < 10 else "#,##0"
+    return None
+
+
+def _table_name(base: str, wb) -> str:
+    stem = "".join(ch if ch.isalnum() else "_" for ch in base) or "t"
+    if not stem[0].isalpha():
+        stem = "t_" + stem
+    existing = {t for ws in wb.worksheets for t in ws.tables}
+    name, n = stem[:200], 2
+    while name in existing:
+        name = f"{stem[:195]}_{n}"
+        n += 1
+    return name
+
+
+def previous_result_sheets(wb) -> list[str]:
+    """Return the names of the result sheets an earlier run wrote into ``wb``."""
+    for prop in wb.custom_doc_props.props:
+        if prop.name == SHEETS_PROPERTY:
+            return [n for n in str(prop.value).split("\n") if n]
+    return []
+
+
+def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
+    """Return the bytes of the results workbook for ``result``."""
+    from . import sheets
+
+    wb = load_workbook(result.inputs.path, data_only=False, keep_vba=False, keep_links=False)
+    for name in previous_result_sheets(wb):
+        if name in wb.sheetnames:
+            del wb[name]
+    writer = SheetWriter(wb, result.tool_version, result.started)
+    for write in sheets.WRITERS + list(extra_writers):
+        write(writer, result)
+    props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]
+    wb.custom_doc_props.props = props
+    wb.custom_doc_props.append(StringProperty(name=MARKER, value=result.tool_version))
+    wb.custom_doc_props.append(StringProperty(name=SHEETS_PROPERTY, value="\n".join(writer.names)))
+    wb.active = wb.sheetnames.index(writer.names[0])
+    for ws in wb.worksheets:
+        ws.sheet_view.tabSelected = ws.title == writer.names[0]
+    buf = io.BytesIO()
+    wb.save(buf)
+    return buf.getvalue()
+
+
+def bar_chart(
+    ws,
+    *,
+    title: str,
+    y_title: str,
+    cats: tuple,
+    data: tuple,
+    anchor: str,
+    stacked: bool = False,
+    height: float = 9.0,
+    width: float = 18.0,
+):
+    """Add a native Excel bar chart of columns ``data`` against rows ``cats``.
+
+    ``cats`` and ``data`` are (min_col, min_row, max_col, max_row) with the
+    series titles in the first row of ``data``.
+    """
+    chart = BarChart()
+    chart.type = "bar"
+    chart.title = title
+    chart.y_axis.title = y_title
+    chart.height, chart.width = height, width
+    if stacked:
+        chart.grouping = "stacked"
+        chart.overlap = 100
+    c0, r0, c1, r1 = data
+    chart.add_data(
+        Reference(ws, min_col=c0, min_row=r0, max_col=c1, max_row=r1), titles_from_data=True
+    )
+    k0, q0, k1, q1 = cats
+    chart.set_categories(Reference(ws, min_col=k0, min_row=q0, max_col=k1, max_row=q1))
+    chart.x_axis.scaling.orientation = "maxMin"  # rank 1 at the top
+    ws.add_chart(chart, anchor)
+    return chart
+
+
+def colour_scale(ws, ref: str) -> None:
+    """Shade a range white (0) to dark blue (1), readable in grey print too."""
+    ws.conditional_formatting.add(
+        ref,
+        ColorScaleRule(
+            start_type="num",
+            start_value=0,
+            start_color="FFFFFF",
+            end_type="num",
+            end_value=1,
+            end_color="2166AC",
+        ),
+    )
+
+
+WARN_FILL = PatternFill("solid", fgColor="FCE4D6")

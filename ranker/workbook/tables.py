@@ -1,0 +1,176 @@
+"""Typed tables: what the reader hands to every later stage.
+
+Strings from the workbook are parsed once, in the reader; from here on only
+typed values flow. Lengths are held in miles and climbs in feet whichever
+twin the planner typed (``length_km`` becomes ``length_mi``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import pandas as pd
+
+#: Names of the contract's sheets, as the reader and the template spell them.
+CORRIDORS = "Corridors"
+JURISDICTIONS = "Jurisdictions"
+CORRIDOR_MILES = "Corridor miles"
+ASSUMPTIONS = "Assumptions"
+CRITERIA = "Criteria"
+ADOPTION = "Adoption"
+PAIRWISE = "Pairwise"
+BUDGET = "Budget"
+SCENARIOS = "Scenarios"
+
+
+@dataclass(frozen=True)
+class CriterionSpec:
+    """One row of the ``Criteria`` sheet.
+
+    Attributes
+    ----------
+    key : str
+        Criterion key, lower case (``capital_cost``).
+    label : str
+        Label for people (defaults to the key).
+    direction : str
+        ``"benefit"`` (more is better) or ``"cost"`` (less is better).
+    include : bool
+        Whether the criterion takes part in this run.
+    uncertainty_pct : float or None
+        Plus-or-minus spread of the criterion's values for the robustness
+        analysis [%], for example ``10.0`` for +-10 %.
+    at_least, at_most : float or None
+        Must-meet limits in the criterion's own unit.
+    row : int
+        Row of the ``Criteria`` sheet it came from (for messages).
+    """
+
+    key: str
+    label: str
+    direction: str
+    include: bool = True
+    uncertainty_pct: float | None = None
+    at_least: float | None = None
+    at_most: float | None = None
+    row: int = 0
+
+    @property
+    def is_benefit(self) -> bool:
+        """True where more is better."""
+        return self.direction == "benefit"
+
+
+@dataclass(frozen=True)
+class WeightSet:
+    """One weight column of the ``Criteria`` sheet, as typed.
+
+    Attributes
+    ----------
+    name : str
+        Set name: ``default`` for the header ``weight``, ``NAME`` for
+        ``weight:NAME`` (and for ``weight:NAME:rank``).
+    values : dict of str to float
+        Criterion key to the number typed (points, or a rank where
+        ``kind == "rank"``). Excluded criteria are absent.
+    column : str
+        Column letter on the ``Criteria`` sheet (for messages).
+    kind : str
+        ``"points"`` (any non-negative numbers) or ``"rank"`` (1 = most
+        important).
+    """
+
+    name: str
+    values: dict[str, float]
+    column: str = ""
+    kind: str = "points"
+
+
+@dataclass
+class Inputs:
+    """Everything the workbook says, typed and checked.
+
+    Attributes
+    ----------
+    path : Path
+        The workbook read.
+    sha256 : str
+        SHA-256 of the file's bytes, hex.
+    corridors : DataFrame
+        Index ``corridor_id`` (str). Columns: ``name`` and every numeric
+        column of the sheet, under canonical imperial keys (``length_mi``,
+        ``climb_ft``, ``descent_ft``) whichever twin was typed.
+    criteria : list of CriterionSpec
+        Rows of ``Criteria`` in sheet order (included or not).
+    weight_sets : list of WeightSet
+        In sheet order; the first is the default set.
+    assumptions : dict
+        Only the keys the planner set on ``Assumptions``, typed.
+    jurisdictions : DataFrame or None
+        Index ``jurisdiction``; columns ``name``, ``readiness`` [0-100].
+    corridor_miles : DataFrame or None
+        Columns ``corridor_id``, ``jurisdiction``, ``miles`` [mi].
+    adoption : DataFrame or None
+        Columns ``year`` (int), ``electric_share`` [-] (0-1).
+    pairwise : DataFrame or None
+        Square, index and columns the criterion keys, as typed (NaN where
+        blank).
+    budget : DataFrame or None
+        Columns ``year`` (int), ``capital_usd`` [USD].
+    scenarios : DataFrame or None
+        Columns ``scenario``, ``key``, ``value`` (typed like the assumption).
+    columns : dict
+        Sheet name to {field key: column letter}, for messages.
+    rows : dict
+        Sheet name to {row key (corridor id, criterion, assumption key,
+        jurisdiction; or row position for list sheets): worksheet row}.
+    sheet_names : list of str
+        Every sheet of the workbook in order, ours and the planner's.
+    warnings : list of str
+        Doubtful but legal input; these reach the outputs.
+    """
+
+    path: Path
+    sha256: str
+    corridors: pd.DataFrame
+    criteria: list[CriterionSpec]
+    weight_sets: list[WeightSet]
+    assumptions: dict[str, object] = field(default_factory=dict)
+    jurisdictions: pd.DataFrame | None = None
+    corridor_miles: pd.DataFrame | None = None
+    adoption: pd.DataFrame | None = None
+    pairwise: pd.DataFrame | None = None
+    budget: pd.DataFrame | None = None
+    scenarios: pd.DataFrame | None = None
+    columns: dict[str, dict[str, str]] = field(default_factory=dict)
+    rows: dict[str, dict[object, int]] = field(default_factory=dict)
+    sheet_names: list[str] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+
+    @property
+    def included(self) -> list[CriterionSpec]:
+        """The criteria taking part in this run, in sheet order."""
+        return [c for c in self.criteria if c.include]
+
+    def where(self, sheet: str, field_key: str | None = None, row_key: object = None) -> str:
+        """Name a place for a message: ``Sheet!D7``, ``Sheet!D`` or ``Sheet``.
+
+        Parameters
+        ----------
+        sheet : str
+            Sheet name.
+        field_key : str, optional
+            Field key; its column letter is used where known.
+        row_key : object, optional
+            Row key (corridor id, criterion, ...); its row is used where known.
+        """
+        col = self.columns.get(sheet, {}).get(field_key, "") if field_key else ""
+        row = self.rows.get(sheet, {}).get(row_key) if row_key is not None else None
+        if col and row:
+            return f"{sheet}!{col}{row}"
+        if col:
+            return f"{sheet}!{col}:{col}"
+        if row:
+            return f"{sheet}!{row}:{row}"
+        return sheet
