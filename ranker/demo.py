@@ -282,7 +282,7 @@ SCENARIO_ROWS = [
 ]
 
 
-def _fill(ws, rows: list[dict]) -> None:
+def fill_sheet(ws, rows: list[dict]) -> None:
     """Replace a sheet's data rows; add header cells for keys the sheet lacks."""
     headers = {}
     for cell in ws[1]:
@@ -310,7 +310,7 @@ def build_demo_bytes() -> bytes:
         blank = Path(tmp) / "blank.xlsx"
         write_template(blank)
         wb = load_workbook(blank)
-    _fill(
+    fill_sheet(
         wb[JURISDICTIONS],
         [{"jurisdiction": c, "name": n, "readiness": r} for c, n, r in JURISDICTION_ROWS],
     )
@@ -329,9 +329,9 @@ def build_demo_bytes() -> bytes:
             }
         )
         miles.extend({"corridor_id": cid, "jurisdiction": j, "miles": m} for j, m in by.items())
-    _fill(wb[CORRIDORS], corridors)
-    _fill(wb[CORRIDOR_MILES], miles)
-    _fill(
+    fill_sheet(wb[CORRIDORS], corridors)
+    fill_sheet(wb[CORRIDOR_MILES], miles)
+    fill_sheet(
         wb[CRITERIA],
         [
             {
@@ -363,8 +363,8 @@ def build_demo_bytes() -> bytes:
     for i, k in enumerate(keys):
         for other, v in PAIRWISE_ROWS.get(k, {}).items():
             pw.cell(row=i + 2, column=keys.index(other) + 2, value=v)
-    _fill(wb[BUDGET], [{"year": y, "capital_usd": c} for y, c in BUDGET_ROWS])
-    _fill(wb[SCENARIOS], [{"scenario": s, "key": k, "value": v} for s, k, v in SCENARIO_ROWS])
+    fill_sheet(wb[BUDGET], [{"year": y, "capital_usd": c} for y, c in BUDGET_ROWS])
+    fill_sheet(wb[SCENARIOS], [{"scenario": s, "key": k, "value": v} for s, k, v in SCENARIO_ROWS])
     wb.custom_doc_props.append(StringProperty(name=MARKER, value="demo input"))
     buf = io.BytesIO()
     wb.save(buf)

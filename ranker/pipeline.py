@@ -92,6 +92,7 @@ class Result:
     started: str
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
+    changes: list[str] = field(default_factory=list)
 
     @property
     def primary_method(self) -> str:

@@ -15,6 +15,20 @@ def output_paths(input_path: Path, out_dir: Path | None = None, *, stem: str | N
     return folder / f"{stem}-ranked.xlsx", folder / f"{stem}-ranked.html"
 
 
+def changes_since(previous_xlsx: Path, result) -> list[str]:
+    """Compare ``result`` with the run that wrote ``previous_xlsx`` (if any)."""
+    from ..changes import compare
+    from ..files import written_by_ranker
+    from .workbook import compact_state, read_state
+
+    if not previous_xlsx.exists() or not written_by_ranker(previous_xlsx):
+        return []
+    previous = read_state(previous_xlsx)
+    if previous is None:
+        return []
+    return compare(previous, compact_state(result.to_json()))
+
+
 def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None = None) -> dict:
     """Write ``<stem>-ranked.xlsx`` and ``<stem>-ranked.html`` atomically.
 
@@ -51,6 +65,7 @@ def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None
     check_replaceable(xlsx)
     check_replaceable(html)
     result.outputs = {"workbook": str(xlsx), "html": str(html)}
+    result.changes = changes_since(xlsx, result)
     files = {xlsx: build_workbook(result), html: build_html(result).encode("utf-8")}
     write_all_atomic(files)
     return dict(result.outputs)

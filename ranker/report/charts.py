@@ -80,7 +80,7 @@ def score_bars(labels: list[str], scores: np.ndarray, *, method: str) -> str:
     ax.set_yticks(y, labels)
     ax.invert_yaxis()
     ax.set_xlabel(f"{method} score [-] (higher is better)")
-    for yi, s in zip(y, scores):
+    for yi, s in zip(y, scores, strict=True):
         ax.text(s, yi, f" {s:.3f}", va="center", fontsize=8)
     ax.set_xlim(0, max(1e-9, float(np.nanmax(scores))) * 1.15)
     return _svg(fig)
@@ -150,7 +150,7 @@ def tipping_chart(tips: list[dict], criterion_labels: dict[str, str]) -> str:
     rows = sorted(rows, key=lambda t: abs(t["weight_at"] - t["current_weight"]))[:8]
     fig, ax = plt.subplots(figsize=(7.0, _height(len(rows))))
     y = np.arange(len(rows))
-    for yi, t in zip(y, rows):
+    for yi, t in zip(y, rows, strict=True):
         ax.plot([t["current_weight"], t["weight_at"]], [yi, yi], color="#999999", lw=1.5)
         ax.plot(t["current_weight"], yi, "o", color=OKABE_ITO[0])
         ax.plot(t["weight_at"], yi, "D", color=OKABE_ITO[5])

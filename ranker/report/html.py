@@ -155,13 +155,23 @@ def build_html(result) -> str:
         "assumptions": assumptions,
         "caution": CAUTION,
         "excluded": result.excluded,
-        "closeness": (
-            rob.closeness.to_dict(orient="records")
-            if rob is not None and len(rob.closeness)
-            else []
-        ),
+        "closeness": _closeness(result),
     }
     return _environment().get_template("sheet.html.j2").render(**context)
+
+
+def _closeness(result) -> list[dict]:
+    """Adjacent pairs with names, for the "practically tied" note."""
+    rob = result.robustness
+    if rob is None or not len(rob.closeness):
+        return []
+    names = result.inputs.corridors["name"].astype(str)
+    rows = []
+    for rec in rob.closeness.to_dict(orient="records"):
+        rec["upper_name"] = names.get(rec["corridor_id"], rec["corridor_id"])
+        rec["lower_name"] = names.get(rec["next_id"], rec["next_id"])
+        rows.append(rec)
+    return rows
 
 
 def _text(value):

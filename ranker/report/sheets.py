@@ -41,7 +41,7 @@ def ranking_sheet(writer, result) -> None:
     if rob is not None and len(rob.closeness) and "practically_tied" in rob.closeness:
         for _, row in rob.closeness.iterrows():
             if row.get("practically_tied"):
-                for cid in (row.get("upper"), row.get("lower")):
+                for cid in (row.get("corridor_id"), row.get("next_id")):
                     if cid in flags:
                         flags[cid].append("practically tied with neighbour")
     table["flags"] = [", ".join(dict.fromkeys(flags[c])) for c in table.index]
@@ -298,6 +298,11 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 1, k).font = HEADER_FONT
         put(ws, i, 2, v)
     row = 4 + len(info) + 1
+    put(ws, row, 1, "Changes since the last run").font = HEADER_FONT
+    changes = result.changes or ["no earlier results workbook to compare with"]
+    for i, line in enumerate(changes, start=row + 1):
+        put(ws, i, 1, line)
+    row += len(changes) + 2
     put(ws, row, 1, "Warnings").font = HEADER_FONT
     for i, w in enumerate(result.warnings or ["none"], start=row + 1):
         put(ws, i, 1, w)

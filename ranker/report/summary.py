@@ -102,6 +102,7 @@ def summary_json(result) -> dict:
         "plan": result.plan.to_json() if result.plan is not None else None,
         "warnings": list(result.warnings),
         "started": result.started,
+        "changes_since_last_run": list(result.changes),
         "outputs": dict(result.outputs),
     }
     return clean(out)

@@ -105,7 +105,7 @@ class SheetWriter:
         ws,
         frame: pd.DataFrame,
         *,
-        top: int = 4,
+        top: int = 3,
         left: int = 1,
         units: dict[str, str] | None = None,
         formats: dict[str, str] | None = None,
@@ -190,17 +190,65 @@ def previous_result_sheets(wb) -> list[str]:
     return []
 
 
+STATE_SHEET = "ranker_state"
+_CHUNK = 30_000  # characters per cell, under Excel's 32,767
+
+
+def compact_state(summary: dict) -> dict:
+    """Keep what a later run needs to say what changed: weights, ranks, values."""
+    return {
+        "weight_set": summary.get("weight_set"),
+        "weights": summary.get("weights", {}),
+        "ranking": [
+            {k: r.get(k) for k in ("corridor_id", "name", "rank", "criteria")}
+            for r in summary.get("ranking", [])
+        ],
+    }
+
+
+def read_state(path) -> dict | None:
+    """Return the state a previous run stored in its results workbook, or None."""
+    import json
+
+    try:
+        wb = load_workbook(path, read_only=True)
+    except Exception:  # an unreadable previous output just means no comparison
+        return None
+    try:
+        if STATE_SHEET not in wb.sheetnames:
+            return None
+        text = "".join(str(r[0]) for r in wb[STATE_SHEET].iter_rows(values_only=True) if r[0])
+        return json.loads(text)
+    except (ValueError, TypeError):
+        return None
+    finally:
+        wb.close()
+
+
+def _write_state(wb, state: dict) -> None:
+    import json
+
+    ws = wb.create_sheet(STATE_SHEET)
+    ws.sheet_state = "veryHidden"
+    text = json.dumps(state, separators=(",", ":"))
+    for i in range(0, max(1, len(text)), _CHUNK):
+        ws.cell(row=i // _CHUNK + 1, column=1).value = text[i : i + _CHUNK]
+        ws.cell(row=i // _CHUNK + 1, column=1).data_type = "s"
+
+
 def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     """Return the bytes of the results workbook for ``result``."""
     from . import sheets
 
     wb = load_workbook(result.inputs.path, data_only=False, keep_vba=False, keep_links=False)
-    for name in previous_result_sheets(wb):
+    for name in previous_result_sheets(wb) + [STATE_SHEET]:
         if name in wb.sheetnames:
             del wb[name]
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
+    _write_state(wb, compact_state(result.to_json()))
+    writer.names.append(STATE_SHEET)
     props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]
     wb.custom_doc_props.props = props
     wb.custom_doc_props.append(StringProperty(name=MARKER, value=result.tool_version))

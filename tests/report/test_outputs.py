@@ -1,0 +1,168 @@
+"""The results workbook and the justification sheet, on the demo scenario.
+
+Golden checks: the sheet's ranked table equals the JSON ranking, every corridor
+has a card, every included criterion appears in the charts' legends, every
+result sheet and chart is there, and user text is never markup or formula.
+"""
+
+from __future__ import annotations
+
+import re
+import shutil
+import subprocess
+
+import pytest
+from openpyxl import load_workbook
+
+import ranker
+from ranker.demo import write_demo
+
+RESULT_SHEETS = [
+    "Ranking",
+    "Criteria matrix",
+    "Normalised",
+    "Weights used",
+    "Methods",
+    "Sizing",
+    "Adoption path",
+    "Robustness",
+    "Phasing",
+    "Run info",
+]
+
+
+@pytest.fixture(scope="module")
+def demo_run(tmp_path_factory):
+    out = tmp_path_factory.mktemp("demo")
+    path = write_demo(out)
+    result = ranker.rank_workbook(path, samples=2000, seed=11)
+    paths = ranker.write_outputs(result, out)
+    return result, paths
+
+
+def test_every_result_sheet_and_chart(demo_run):
+    result, paths = demo_run
+    wb = load_workbook(paths["workbook"])
+    for name in RESULT_SHEETS:
+        assert name in wb.sheetnames, name
+    # every input sheet is kept, before the result sheets
+    for name in result.inputs.sheet_names:
+        assert name in wb.sheetnames
+    assert wb.sheetnames.index("Ranking") > max(
+        wb.sheetnames.index(n) for n in result.inputs.sheet_names
+    )
+    assert len(wb["Ranking"]._charts) == 1
+    assert len(wb["Normalised"]._charts) == 1
+    for name in RESULT_SHEETS:
+        ws = wb[name]
+        assert ws.freeze_panes is not None or name == "Run info"
+        assert ws.tables, f"{name} has no Excel table"
+    assert wb["ranker_state"].sheet_state == "veryHidden"
+
+
+def test_workbook_ranking_equals_json(demo_run):
+    result, paths = demo_run
+    summary = result.to_json()
+    wb = load_workbook(paths["workbook"], read_only=True)
+    rows = [r for r in wb["Ranking"].iter_rows(min_row=4, values_only=True) if r[0]]
+    assert [(r[0], r[1]) for r in rows] == [
+        (x["corridor_id"], x["rank"]) for x in summary["ranking"]
+    ]
+
+
+def test_html_golden(demo_run):
+    result, paths = demo_run
+    html = open(paths["html"], encoding="utf-8").read()
+    summary = result.to_json()
+    table = html.split('<table class="ranked">')[1].split("</table>")[0]
+    names = re.findall(r"<tr><td class=\"num\">(\d+)</td><td>([^<]+) <span", table)
+    assert [(int(r), n) for r, n in names] == [(x["rank"], x["name"]) for x in summary["ranking"]]
+    assert html.count('<article class="card">') == len(summary["ranking"])
+    for c in result.criteria:
+        assert c.label in html.split('id="charts"')[1].split('id="corridors"')[0], c.label
+    for words in (
+        "Planning-level estimates only",
+        "Confirm grid capacity",
+        "licensed engineers",
+        result.inputs.sha256,
+        "Approved by",
+    ):
+        assert words in html
+    assert "http://" not in html.replace("http://www.w3.org", "") and "https://" not in html
+
+
+def test_hostile_names_stay_text(tmp_path, workbooks):
+    rows = [dict(r) for r in workbooks.corridors]
+    rows[0]["name"] = "<img src=x onerror=alert(1)>"
+    rows[1]["name"] = '=HYPERLINK("http://x","y")'
+    path = workbooks.make(tmp_path / "hostile.xlsx", corridors=rows)
+    result = ranker.rank_workbook(path, samples=0)
+    paths = ranker.write_outputs(result, tmp_path)
+    html = open(paths["html"], encoding="utf-8").read()
+    assert "<img src=x" not in html
+    assert "&lt;img src=x onerror=alert(1)&gt;" in html
+    wb = load_workbook(paths["workbook"])
+    values = [
+        c
+        for row in wb["Ranking"].iter_rows()
+        for c in row
+        if c.value and "HYPERLINK" in str(c.value)
+    ]
+    assert values and all(c.data_type == "s" for c in values)
+
+
+CHROMIUM = shutil.which("chromium") or shutil.which("chromium-browser")
+FLAGS = [
+    "--headless",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+    "--host-resolver-rules=MAP * ~NOTFOUND",
+]
+
+
+def _chromium(tmp_path, *args, timeout=90):
+    profile = tmp_path / "profile"
+    return subprocess.run(
+        [CHROMIUM, *FLAGS, f"--user-data-dir={profile}", "--enable-logging=stderr", *args],
+        capture_output=True,
+        text=True,
+        timeout=timeout,
+    )
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(CHROMIUM is None, reason="Debian's chromium is not installed")
+def test_chromium_renders_and_prints(demo_run, tmp_path):
+    import matplotlib.image as mpimg
+
+    _, paths = demo_run
+    url = "file://" + paths["html"]
+    shot = tmp_path / "shot.png"
+    run = _chromium(tmp_path, f"--screenshot={shot}", "--window-size=1280,2400", url)
+    assert shot.exists(), run.stderr[-2000:]
+    pixels = mpimg.imread(shot)
+    assert pixels.std() > 0.05  # not blank
+    assert "Uncaught" not in run.stderr
+    pdf = tmp_path / "sheet.pdf"
+    _chromium(tmp_path, f"--print-to-pdf={pdf}", "--no-pdf-header-footer", url)
+    pages = len(re.findall(rb"/Type\s*/Page[^s]", pdf.read_bytes()))
+    assert pages >= 2
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(CHROMIUM is None, reason="Debian's chromium is not installed")
+def test_chromium_hostile_name_triggers_nothing(tmp_path, workbooks):
+    rows = [dict(r) for r in workbooks.corridors]
+    rows[0]["name"] = "<img src=x onerror=alert(1)>"
+    path = workbooks.make(tmp_path / "hostile.xlsx", corridors=rows)
+    result = ranker.rank_workbook(path, samples=0)
+    paths = ranker.write_outputs(result, tmp_path)
+    run = _chromium(tmp_path, "--dump-dom", "file://" + paths["html"])
+    assert "<img" not in run.stdout
+    assert "&lt;img src=x onerror=alert(1)&gt;" in run.stdout
+    assert "alert" not in run.stderr.replace("onerror=alert(1)", "")

@@ -1,0 +1,135 @@
+"""The command line: exit codes, --json, overrides, refusal to replace foreign files."""
+
+from __future__ import annotations
+
+import hashlib
+import json
+
+import pytest
+from openpyxl import load_workbook
+
+from ranker.cli import main, parse_overrides
+from ranker.errors import InputError
+
+
+def _sha(path):
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def test_run_json_matches_workbook_ranking(direct_workbook, capsys):
+    """The JSON's ranking equals the Ranking sheet of the results workbook."""
+    before = _sha(direct_workbook)
+    code = main(["run", str(direct_workbook), "--json", "--samples", "500"])
+    out = capsys.readouterr().out
+    assert code == 0
+    summary = json.loads(out)  # standard output holds the JSON and nothing else
+    for key in (
+        "tool_version",
+        "input_sha256",
+        "weight_set",
+        "weights",
+        "primary_method",
+        "ranking",
+        "robustness",
+        "excluded",
+        "warnings",
+        "outputs",
+    ):
+        assert key in summary
+    assert summary["input_sha256"] == before
+    assert abs(sum(summary["weights"].values()) - 1) < 1e-12
+    ranks = [r["rank"] for r in summary["ranking"]]
+    assert ranks == sorted(ranks)
+    for row in summary["ranking"]:
+        assert abs(sum(row["rank_acceptability"]) - 1) < 1e-9
+    wb = load_workbook(summary["outputs"]["workbook"], read_only=True)
+    rows = list(wb["Ranking"].iter_rows(min_row=4, values_only=True))
+    sheet = [(r[0], r[1]) for r in rows if r[0] is not None]
+    assert sheet == [(r["corridor_id"], r["rank"]) for r in summary["ranking"]]
+    assert _sha(direct_workbook) == before  # the input is never modified
+
+
+def test_weight_override_is_renormalised_and_recorded(direct_workbook, capsys):
+    code = main(
+        ["run", str(direct_workbook), "--json", "--samples", "0", "--weight", "cost_musd=80"]
+    )
+    summary = json.loads(capsys.readouterr().out)
+    assert code == 0
+    # points 80, 40, 20 -> 80/140, 40/140, 20/140 (common practice: renormalise to sum 1)
+    assert summary["weights"]["cost_musd"] == pytest.approx(80 / 140)
+    assert summary["weights"]["risk"] == pytest.approx(20 / 140)
+    assert summary["weight_overrides"] == {"cost_musd": 80.0}
+
+
+def test_weight_set_by_name(direct_workbook, capsys):
+    code = main(["run", str(direct_workbook), "--json", "--samples", "0", "--weights", "growth"])
+    summary = json.loads(capsys.readouterr().out)
+    assert code == 0 and summary["weight_set"] == "growth"
+    assert summary["weights"]["freight_share"] == pytest.approx(0.7)
+
+
+def test_unknown_weight_set_is_input_error(direct_workbook, capsys):
+    code = main(["run", str(direct_workbook), "--weights", "nosuch", "--samples", "0"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "--weights: no weight set named 'nosuch'" in err and "default" in err
+    assert "Traceback" not in err
+
+
+def test_refuses_to_replace_foreign_file(direct_workbook, capsys):
+    foreign = direct_workbook.with_name("direct-ranked.html")
+    foreign.write_text("<p>someone's notes</p>")
+    code = main(["run", str(direct_workbook), "--samples", "0", "--quiet"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert "was not written by ranker" in err
+    assert foreign.read_text() == "<p>someone's notes</p>"
+    assert not direct_workbook.with_name("direct-ranked.xlsx").exists()
+
+
+def test_rerun_replaces_own_outputs(direct_workbook, capsys):
+    assert main(["run", str(direct_workbook), "--samples", "0", "--quiet"]) == 0
+    assert main(["run", str(direct_workbook), "--samples", "0", "--quiet"]) == 0
+    out = direct_workbook.with_name("direct-ranked.xlsx")
+    # re-running the output workbook replaces its result sheets, never duplicates them
+    assert main(["run", str(out), "--samples", "0", "--quiet"]) == 0
+    again = load_workbook(direct_workbook.with_name("direct-ranked-ranked.xlsx"))
+    assert again.sheetnames.count("Ranking") == 1
+    assert not any(name.startswith("Ranking (") for name in again.sheetnames)
+
+
+def test_missing_input_file(tmp_path, capsys):
+    code = main(["check", str(tmp_path / "nothing.xlsx")])
+    assert code == 2
+    assert "nothing.xlsx" in capsys.readouterr().err
+
+
+def test_check_ok(direct_workbook, capsys):
+    assert main(["check", str(direct_workbook)]) == 0
+    assert "no problems found" in capsys.readouterr().out
+
+
+def test_template_refuses_existing(tmp_path, capsys):
+    path = tmp_path / "t.xlsx"
+    assert main(["template", str(path)]) == 0
+    assert main(["template", str(path)]) == 2
+
+
+def test_parse_overrides():
+    assert parse_overrides(["a=1", "B = 2.5"]) == {"a": 1.0, "b": 2.5}
+    assert parse_overrides(["a=40%"]) == {"a": 0.4}
+    with pytest.raises(InputError, match="--weight: 'a' is not KEY=VALUE"):
+        parse_overrides(["a"])
+
+
+def test_internal_error_is_one_line_with_log(direct_workbook, capsys, monkeypatch):
+    import ranker.cli as cli
+
+    def boom(args, overrides):
+        raise RuntimeError("unexpected")
+
+    monkeypatch.setattr(cli, "run_once", boom)
+    code = main(["run", str(direct_workbook)])
+    err = capsys.readouterr().err
+    assert code == 1
+    assert err.count("\n") == 1 and "full log in" in err
