@@ -58,6 +58,7 @@ def _svg(fig) -> str:
     _plt().close(fig)
     text = buf.getvalue()
     text = text[text.index("<svg") :]
+    text = re.sub(r"<metadata>.*?</metadata>", "", text, flags=re.S)
     # Prefix ids so several inline SVGs on one page never share one.
     _COUNTER[0] += 1
     p = f"c{_COUNTER[0]}-"

@@ -11,6 +11,7 @@ from ..assumptions import ASSUMPTIONS
 from ..files import HTML_MARKER
 from . import charts, narrative
 from .sheets import criterion_unit
+from .summary import has_samples
 from .workbook import CAUTION
 
 
@@ -64,9 +65,7 @@ def _cards(result) -> list[dict]:
                 "name": row["name"],
                 "rank": int(row["rank"]),
                 "score": float(row[f"score_{result.primary_method}"]),
-                "first": float(rob.first_rank.get(cid, 0.0))
-                if rob is not None and len(rob.first_rank)
-                else None,
+                "first": float(rob.first_rank.get(cid, 0.0)) if has_samples(rob) else None,
                 "strong": strong,
                 "weak": weak,
                 "facts": facts,
@@ -95,7 +94,7 @@ def build_html(result) -> str:
         ),
         "acceptability": (
             charts.acceptability_heatmap(rob.acceptability.loc[ranking.index], labels)
-            if rob is not None and len(rob.acceptability)
+            if has_samples(rob)
             else ""
         ),
         "tipping": charts.tipping_chart(rob.tipping_points, crit_labels)
@@ -123,11 +122,7 @@ def build_html(result) -> str:
                 "name": r["name"],
                 "scores": [float(r[f"score_{m}"]) for m in s.scores.columns],
                 "ranks": [int(r[f"rank_{m}"]) for m in s.scores.columns],
-                "first": (
-                    float(rob.first_rank.get(cid, 0.0))
-                    if rob is not None and len(rob.first_rank)
-                    else None
-                ),
+                "first": (float(rob.first_rank.get(cid, 0.0)) if has_samples(rob) else None),
             }
         )
     context = {

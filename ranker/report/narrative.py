@@ -9,6 +9,8 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from .summary import has_samples
+
 
 def certainty_word(share: float) -> str:
     """Describe a first-rank acceptability in words (thresholds: common practice)."""
@@ -32,7 +34,7 @@ def recommendation(result) -> list[str]:
         s1 += f", then {names[1]}" + (f" and {names[2]}" if len(names) > 2 else "")
     s1 += f", by {result.primary_method} with the '{result.weight_set}' weights."
     rob = result.robustness
-    if rob is not None and len(rob.first_rank):
+    if has_samples(rob):
         share = float(rob.first_rank.get(first, 0.0))
         s2 = (
             f"{top} ranks first in {share:.0%} of {rob.samples:,} weight samples around these "

@@ -10,6 +10,7 @@ import pandas as pd
 
 from ..assumptions import ASSUMPTIONS
 from ..derive import BUILT_IN
+from .summary import has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
 #: Units of the built-in criteria, for headers.
@@ -32,7 +33,7 @@ def ranking_sheet(writer, result) -> None:
     ws = writer.sheet("Ranking", "Corridor ranking", CAUTION)
     table = result.ranking.copy()
     rob = result.robustness
-    if rob is not None and len(rob.first_rank):
+    if has_samples(rob):
         table["first_rank_acceptability"] = rob.first_rank.reindex(table.index)
     flags = {cid: [] for cid in table.index}
     for group in result.scores.ties:
@@ -221,7 +222,7 @@ def robustness_sheet(writer, result) -> None:
         "Robustness", f"How sure is the order? ({rob.samples} weight samples, seed {rob.seed})"
     )
     row = 4
-    if len(rob.acceptability):
+    if has_samples(rob):
         acc = rob.acceptability.loc[result.ranking.index]
         top, left, bottom, right = writer.table(
             ws,

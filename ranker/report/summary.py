@@ -30,11 +30,16 @@ def clean(value):
     return value
 
 
+def has_samples(robustness) -> bool:
+    """True where a Monte Carlo analysis ran (samples > 0)."""
+    return robustness is not None and robustness.acceptability.size > 0
+
+
 def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
     s = result.scores
     rob = result.robustness
-    acceptability = rob.acceptability if rob is not None and len(rob.acceptability) else None
+    acceptability = rob.acceptability if has_samples(rob) else None
     ranking = []
     for cid, row in result.ranking.iterrows():
         entry = {
