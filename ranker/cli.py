@@ -152,7 +152,7 @@ def cmd_check(args) -> int:
 def run_once(args, overrides: dict[str, float]) -> dict:
     """Run the main job once; return the JSON summary."""
     from . import rank_workbook, write_outputs
-    from .pipeline import DEFAULT_SAMPLES, DEFAULT_SEED
+    from .result import DEFAULT_SAMPLES, DEFAULT_SEED
 
     samples = DEFAULT_SAMPLES if args.samples is None else args.samples
     seed = DEFAULT_SEED if args.seed is None else args.seed

@@ -8,116 +8,16 @@ stress results -> plan. Reports are written from the :class:`Result` by
 from __future__ import annotations
 
 import datetime as _dt
+import math
 from collections.abc import Callable, Mapping
-from dataclasses import dataclass, field
 from pathlib import Path
 
-import numpy as np
 import pandas as pd
 
-from . import __version__
 from .assumptions import resolve
 from .errors import InputError, Problem, Problems
+from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
-
-#: Seed used when none is given, so two runs of one input give identical outputs.
-DEFAULT_SEED = 20261201
-#: Monte Carlo samples when none are given.
-DEFAULT_SAMPLES = 10_000
-
-
-@dataclass
-class Result:
-    """Everything one run found; the report writers read only this.
-
-    Attributes
-    ----------
-    inputs : Inputs
-        The typed tables read from the workbook.
-    assumptions : dict
-        Every assumption key with the value used (defaults filled in).
-    weight_set : str
-        Name of the weight set used.
-    weights : dict of str to float
-        Weights used, normalised to sum 1, after ``--weight`` overrides [-].
-    overrides : dict of str to float
-        ``--weight KEY=VALUE`` overrides as given (points before renormalising).
-    weight_sets : list
-        Every weight set (:class:`ranker.score.weights.ResolvedWeights`).
-    criteria : list of CriterionSpec
-        The included criteria, in sheet order.
-    matrix : DataFrame
-        Corridors (all, excluded ones too) by included criteria, in each
-        criterion's own unit.
-    provenance : dict of str to str
-        Criterion to ``"derived"`` or ``"given"``.
-    derivation : Derivation or None
-        Intermediate numbers of the derived criteria.
-    excluded : list of dict
-        Corridors screened out, with the rule they failed.
-    scores : Scores
-        Scores and ranks of every method on the kept corridors.
-    robustness : Robustness or None
-        Stress-test results (None when fewer than two corridors are kept).
-    futures : dict or None
-        Ranks under each scenario of the ``Scenarios`` sheet.
-    plan : Plan or None
-        Phased build plan when a ``Budget`` sheet is given.
-    warnings : list of str
-        Every warning of every stage.
-    samples, seed : int
-        Monte Carlo settings used.
-    started : str
-        Start time, ISO 8601 in UTC.
-    """
-
-    inputs: Inputs
-    assumptions: dict
-    weight_set: str
-    weights: dict[str, float]
-    overrides: dict[str, float]
-    weight_sets: list
-    criteria: list[CriterionSpec]
-    matrix: pd.DataFrame
-    provenance: dict[str, str]
-    derivation: object | None
-    excluded: list[dict]
-    scores: object
-    robustness: object | None
-    futures: dict | None
-    plan: object | None
-    warnings: list[str]
-    samples: int
-    seed: int
-    started: str
-    tool_version: str = __version__
-    outputs: dict[str, str] = field(default_factory=dict)
-    changes: list[str] = field(default_factory=list)
-
-    @property
-    def primary_method(self) -> str:
-        """Key of the method that decides rank."""
-        return str(self.assumptions["primary_method"])
-
-    @property
-    def ranking(self) -> pd.DataFrame:
-        """Kept corridors sorted by rank: rank, name, then one score column per method."""
-        s = self.scores
-        table = pd.DataFrame(
-            {"rank": s.rank, "name": self.inputs.corridors.loc[s.rank.index, "name"]}
-        )
-        for method in s.scores.columns:
-            table[f"score_{method}"] = s.scores[method]
-            table[f"rank_{method}"] = s.ranks[method]
-        table.index.name = "corridor_id"
-        order = np.lexsort((np.arange(len(table)), table["rank"].to_numpy()))
-        return table.iloc[order]
-
-    def to_json(self) -> dict:
-        """Return the JSON summary of the contract (plus added fields)."""
-        from .report.summary import summary_json
-
-        return summary_json(self)
 
 
 def rank_workbook(
@@ -200,13 +100,14 @@ def rank_inputs(
     if derivation is not None:
         warnings.extend(derivation.warnings)
 
-    sets = resolve_weight_sets(inputs, matrix, assumptions)
+    kept, excluded = screen(matrix, included, inputs)
+    # Objective (entropy, CRITIC) sets describe the corridors actually scored.
+    sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
     for s in sets:
         warnings.extend(s.warnings)
     chosen = choose_weight_set(sets, weights)
     used, overrides = apply_overrides(chosen, weight_overrides, included)
 
-    kept, excluded = screen(matrix, included, inputs)
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
     warnings.extend(scores.warnings)
 
@@ -284,12 +185,12 @@ def check_workbook(path: str | Path) -> str:
             CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
         )
     matrix, provenance, derivation = build_matrix(inputs, assumptions)
-    sets = resolve_weight_sets(inputs, matrix, assumptions)
     kept, excluded = screen(matrix, inputs.included, inputs)
+    sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
     derived = sum(1 for v in provenance.values() if v == "derived")
     warnings = list(inputs.warnings) + (derivation.warnings if derivation is not None else [])
     text = (
-        f"{len(inputs.corridors)} corridors ({len(excluded and {e['corridor_id'] for e in excluded})} "
+        f"{len(inputs.corridors)} corridors ({len({e['corridor_id'] for e in excluded})} "
         f"screened out), {len(inputs.included)} criteria ({derived} derived), "
         f"{len(sets)} weight sets: {', '.join(s.name for s in sets)}."
     )
@@ -384,7 +285,7 @@ def apply_overrides(
             problems.add(
                 "--weight", f"{key} is not an included criterion", "use one of " + ", ".join(keys)
             )
-        elif not np.isfinite(value) or value < 0:
+        elif not math.isfinite(value) or value < 0:
             problems.add(
                 "--weight", f"{key}={value} is not a weight", "give a number of 0 or more"
             )
@@ -403,7 +304,7 @@ def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, 
     from .stress import stress_test
 
     method = METHODS[str(assumptions["primary_method"])]
-    options = method_options(method, assumptions)
+    options = method.kernel_options(assumptions)
     keep = [c.key for c in included if c.key in scores.weights]
     uncertainty = {c.key: c.uncertainty_pct for c in included if c.uncertainty_pct}
     board_sets = {s.name: {k: s.weights[k] for k in keep} for s in sets if not s.reference_only}
@@ -424,15 +325,6 @@ def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, 
         names=inputs.corridors["name"].astype(str).to_dict(),
         progress=progress,
     )
-
-
-def method_options(method, assumptions: dict) -> dict:
-    """Return the keyword options a method's kernel takes from the assumptions."""
-    if method.normalization_key:
-        return {"normalization": str(assumptions[method.normalization_key])}
-    if method.key == "vikor":
-        return {"v": float(assumptions["vikor_v"])}
-    return {}
 
 
 def _futures(inputs: Inputs, used, scores, weights_name):

@@ -147,6 +147,7 @@ def build_html(result) -> str:
             for c in result.criteria
         ],
         "weight_sets": result.weight_sets,
+        "consistency": narrative.consistency_text,
         "assumptions": assumptions,
         "caution": CAUTION,
         "excluded": result.excluded,

@@ -76,15 +76,16 @@ def agreement_sentence(result) -> str:
 
 def strongest_weakest(result, cid) -> tuple[str, str]:
     """Name a corridor's strongest and weakest criteria, in words and numbers."""
-    norm = result.scores.contributions
-    if cid not in norm.index or not len(norm.columns):
+    from ..score.normalize import normalize_minmax
+
+    keys = [c.key for c in result.criteria if c.key in result.scores.weights]
+    scored = result.matrix.loc[result.scores.rank.index, keys]
+    if cid not in scored.index or not keys:
         return "", ""
-    weights = pd.Series(result.scores.weights)
-    # Position on each criterion between the worst (0) and best (1) corridor.
-    share = norm.loc[cid] / weights.reindex(norm.columns).replace(0, np.nan)
-    share = share.dropna()
-    if share.empty:
-        return "", ""
+    benefit = np.array([c.is_benefit for c in result.criteria if c.key in keys])
+    # Position on each criterion between the worst (0) and best (1) scored corridor.
+    position = normalize_minmax(scored.to_numpy(dtype=float), benefit)
+    share = pd.Series(position[scored.index.get_loc(cid)], index=keys)
     labels = {c.key: c.label for c in result.criteria}
 
     def describe(key: str) -> str:
@@ -123,3 +124,25 @@ def reversal_sentences(result) -> list[str]:
         )
         out.append(sentence)
     return out
+
+
+def consistency_text(c: dict | None) -> str:
+    """Describe an AHP consistency result in words and numbers ("" where none)."""
+    if not c:
+        return ""
+
+    def num(key):
+        v = c.get(key)
+        return "n/a" if v is None else f"{v:.4f}"
+
+    text = f"lambda_max {num('lambda_max')}, CI {num('ci')}, CR {num('cr')}"
+    cr = c.get("cr")
+    if cr is None:
+        text += " (no random index for this many criteria, so no consistency ratio)"
+    elif cr > 0.10:
+        text += " - above 0.10, so the judgments are not consistent enough (Saaty 1980)"
+    else:
+        text += " - at most 0.10, acceptable (Saaty 1980)"
+    if c.get("suggestion"):
+        text += f"; {c['suggestion']}"
+    return text

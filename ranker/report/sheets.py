@@ -10,6 +10,7 @@ import pandas as pd
 
 from ..assumptions import ASSUMPTIONS
 from ..derive import BUILT_IN
+from .narrative import consistency_text
 from .summary import has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
@@ -150,10 +151,7 @@ def weights_sheet(writer, result) -> None:
     for i, w in enumerate(result.weight_sets, start=1):
         cons = ""
         if w.consistency:
-            c = w.consistency
-            cons = f"lambda_max {c.get('lambda_max', 0):.4f}, CI {c.get('ci', 0):.4f}, CR {c.get('cr', 0):.4f}"
-            if c.get("suggestion"):
-                cons += f"; {c['suggestion']}"
+            cons = consistency_text(w.consistency)
         for j, v in enumerate([w.name, w.how, "yes" if w.reference_only else "no", cons]):
             put(ws, row + i, 1 + j, v)
     if result.overrides:

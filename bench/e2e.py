@@ -1,0 +1,174 @@
+"""End-to-end speed and scale of ``ranker run``, as whole processes.
+
+1. The demo (10,000 samples) against a floor process that only reads the same
+   workbook with openpyxl and writes it back: ratio of medians over N runs.
+2. Scaling: synthetic workbooks of 50, 500 and 5,000 corridors; wall time and
+   peak memory of each, and the ratio of the largest to the smallest.
+3. Start-up: ``ranker --help`` and ``ranker check`` against ``python -c pass``.
+
+Reproduce: ``python bench/e2e.py`` (add ``--runs 5 --sizes 50,500,5000``).
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+PY = sys.executable
+MEASURE = """
+import resource, runpy, sys, time
+t = time.perf_counter()
+sys.argv = sys.argv[1:]
+code = 0
+try:
+    if sys.argv[0] == "-c":
+        src = sys.argv[1]
+        sys.argv = ["-c"] + sys.argv[2:]
+        exec(src)
+    else:
+        from ranker.cli import main
+        code = main(sys.argv)
+finally:
+    peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
+    print(f"@@ {time.perf_counter() - t:.4f} {peak:.1f}", file=sys.stderr)
+sys.exit(code)
+"""
+
+FLOOR = (
+    "from openpyxl import load_workbook; import sys; "
+    "wb = load_workbook(sys.argv[1]); wb.save(sys.argv[2])"
+)
+
+
+def timed(args: list[str]) -> tuple[float, float]:
+    """Run a process; return (wall seconds, peak resident memory [MB])."""
+    t = time.perf_counter()
+    run = subprocess.run([PY, "-c", MEASURE, *args], capture_output=True, text=True)
+    wall = time.perf_counter() - t
+    if run.returncode != 0:
+        raise SystemExit(f"failed: {args}\n{run.stderr[-2000:]}")
+    peak = float(
+        [line for line in run.stderr.splitlines() if line.startswith("@@")][-1].split()[2]
+    )
+    return wall, peak
+
+
+def synthetic(path: Path, n: int, seed: int = 5) -> Path:
+    """Write a workbook of ``n`` invented corridors using derivation for all criteria."""
+    import numpy as np
+    from openpyxl import load_workbook
+
+    from ranker.demo import fill_sheet
+    from ranker.workbook.template import write_template
+
+    rng = np.random.default_rng(seed)
+    write_template(path)
+    wb = load_workbook(path)
+    codes = [f"J{i}" for i in range(8)]
+    fill_sheet(
+        wb["Jurisdictions"],
+        [
+            {"jurisdiction": c, "name": f"Region {c}", "readiness": float(rng.uniform(20, 90))}
+            for c in codes
+        ],
+    )
+    corridors, miles = [], []
+    for i in range(n):
+        length = float(rng.uniform(30, 200))
+        corridors.append(
+            {
+                "corridor_id": f"S{i:05d}",
+                "name": f"Synthetic corridor {i}",
+                "length_mi": length,
+                "trucks_per_day": float(rng.uniform(300, 8000)),
+                "climb_ft": float(rng.uniform(0, 5000)),
+                "grid_headroom_mw": float(rng.uniform(0.5, 25)),
+            }
+        )
+        a, b = rng.choice(codes, 2, replace=False)
+        split = float(rng.uniform(0.2, 0.8))
+        miles += [
+            {"corridor_id": f"S{i:05d}", "jurisdiction": a, "miles": length * split},
+            {"corridor_id": f"S{i:05d}", "jurisdiction": b, "miles": length * (1 - split)},
+        ]
+    fill_sheet(wb["Corridors"], corridors)
+    fill_sheet(wb["Corridor miles"], miles)
+    wb.save(path)
+    return path
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--runs", type=int, default=5)
+    ap.add_argument("--sizes", default="50,500,5000")
+    ap.add_argument("--scale-samples", type=int, default=10000)
+    opts = ap.parse_args()
+    print(f"machine: {os.cpu_count()} cores; python {sys.version.split()[0]}")
+    with tempfile.TemporaryDirectory() as tmp:
+        tmp = Path(tmp)
+        from ranker.demo import write_demo
+
+        demo = write_demo(tmp)
+        floor = [
+            timed(["-c", FLOOR, str(demo), str(tmp / "copy.xlsx")])[0] for _ in range(opts.runs)
+        ]
+        full = [
+            timed(["run", str(demo), "--quiet", "--out", str(tmp)])[0] for _ in range(opts.runs)
+        ]
+        mf, mr = statistics.median(floor), statistics.median(full)
+        print(
+            "\n1. demo, 10,000 samples, whole process (median of "
+            f"{opts.runs}): ranker run {mr:.2f} s; read+write floor {mf:.2f} s; "
+            f"ratio {mr / mf:.1f} (target <= 5)"
+        )
+
+        print(
+            "\n2. scaling (synthetic corridors, all criteria derived, "
+            f"{opts.scale_samples} samples)"
+        )
+        base = None
+        for n in (int(s) for s in opts.sizes.split(",")):
+            path = synthetic(tmp / f"syn{n}.xlsx", n)
+            wall, peak = timed(
+                [
+                    "run",
+                    str(path),
+                    "--quiet",
+                    "--out",
+                    str(tmp),
+                    "--samples",
+                    str(opts.scale_samples),
+                ]
+            )
+            base = base or wall
+            print(
+                f"   {n:>6} corridors: {wall:7.2f} s, peak {peak:7.0f} MB, "
+                f"ratio to first {wall / base:6.1f}"
+            )
+
+        bare = statistics.median(_wall([PY, "-c", "pass"]) for _ in range(opts.runs))
+        helps = statistics.median(_wall([PY, "-m", "ranker", "--help"]) for _ in range(opts.runs))
+        check = statistics.median(
+            _wall([PY, "-m", "ranker", "check", str(demo)]) for _ in range(opts.runs)
+        )
+        print(
+            f"\n3. start-up: python -c pass {bare:.3f} s; ranker --help {helps:.3f} s "
+            f"({helps / bare:.1f}x); ranker check demo {check:.3f} s ({check / bare:.1f}x)"
+        )
+    print("\nreproduce: python bench/e2e.py --runs 5 --sizes 50,500,5000")
+
+
+def _wall(cmd: list[str]) -> float:
+    t = time.perf_counter()
+    subprocess.run(cmd, capture_output=True, check=True)
+    return time.perf_counter() - t
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,119 @@
+"""The result of one run: what every report writer reads.
+
+Kept free of heavy imports so that ``import ranker`` and ``ranker --help``
+start fast; pandas loads when a table is first asked for.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
+
+from . import __version__
+
+if TYPE_CHECKING:  # annotations only
+    import pandas as pd
+
+    from .workbook.tables import CriterionSpec, Inputs
+
+#: Seed used when none is given, so two runs of one input give identical outputs.
+DEFAULT_SEED = 20261201
+#: Monte Carlo samples when none are given.
+DEFAULT_SAMPLES = 10_000
+
+
+@dataclass
+class Result:
+    """Everything one run found; the report writers read only this.
+
+    Attributes
+    ----------
+    inputs : Inputs
+        The typed tables read from the workbook.
+    assumptions : dict
+        Every assumption key with the value used (defaults filled in).
+    weight_set : str
+        Name of the weight set used.
+    weights : dict of str to float
+        Weights used, normalised to sum 1, after ``--weight`` overrides [-].
+    overrides : dict of str to float
+        ``--weight KEY=VALUE`` overrides as given (points before renormalising).
+    weight_sets : list
+        Every weight set (:class:`ranker.score.weights.ResolvedWeights`).
+    criteria : list of CriterionSpec
+        The included criteria, in sheet order.
+    matrix : DataFrame
+        Corridors (all, excluded ones too) by included criteria, in each
+        criterion's own unit.
+    provenance : dict of str to str
+        Criterion to ``"derived"`` or ``"given"``.
+    derivation : Derivation or None
+        Intermediate numbers of the derived criteria.
+    excluded : list of dict
+        Corridors screened out, with the rule they failed.
+    scores : Scores
+        Scores and ranks of every method on the kept corridors.
+    robustness : Robustness or None
+        Stress-test results (None when fewer than two corridors are kept).
+    futures : dict or None
+        Ranks under each scenario of the ``Scenarios`` sheet.
+    plan : Plan or None
+        Phased build plan when a ``Budget`` sheet is given.
+    warnings : list of str
+        Every warning of every stage.
+    samples, seed : int
+        Monte Carlo settings used.
+    started : str
+        Start time, ISO 8601 in UTC.
+    """
+
+    inputs: Inputs
+    assumptions: dict
+    weight_set: str
+    weights: dict[str, float]
+    overrides: dict[str, float]
+    weight_sets: list
+    criteria: list[CriterionSpec]
+    matrix: pd.DataFrame
+    provenance: dict[str, str]
+    derivation: object | None
+    excluded: list[dict]
+    scores: object
+    robustness: object | None
+    futures: dict | None
+    plan: object | None
+    warnings: list[str]
+    samples: int
+    seed: int
+    started: str
+    tool_version: str = __version__
+    outputs: dict[str, str] = field(default_factory=dict)
+    changes: list[str] = field(default_factory=list)
+
+    @property
+    def primary_method(self) -> str:
+        """Key of the method that decides rank."""
+        return str(self.assumptions["primary_method"])
+
+    @property
+    def ranking(self) -> pd.DataFrame:
+        """Kept corridors sorted by rank: rank, name, then one score column per method."""
+        import numpy as np
+        import pandas as pd
+
+        s = self.scores
+        table = pd.DataFrame(
+            {"rank": s.rank, "name": self.inputs.corridors.loc[s.rank.index, "name"]}
+        )
+        for method in s.scores.columns:
+            table[f"score_{method}"] = s.scores[method]
+            table[f"rank_{method}"] = s.ranks[method]
+        table.index.name = "corridor_id"
+        order = np.lexsort((np.arange(len(table)), table["rank"].to_numpy()))
+        return table.iloc[order]
+
+    def to_json(self) -> dict:
+        """Return the JSON summary of the contract (plus added fields)."""
+        from .report.summary import summary_json
+
+        return summary_json(self)
