@@ -1,0 +1,240 @@
+"""Weight sets from the workbook: points, rank order, pairwise (AHP), objective references."""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+import pytest
+
+from ranker.errors import InputError
+from ranker.score.rank_weights import rank_sum_weights, roc_weights
+from ranker.score.weights import resolve_weight_sets
+from ranker.workbook.tables import CriterionSpec, WeightSet
+
+from ._helpers import make_inputs
+
+CRIT = [
+    CriterionSpec("capital_cost", "Capital cost", "cost", row=2),
+    CriterionSpec("trucks", "Trucks per day", "benefit", row=3),
+    CriterionSpec("readiness", "Policy readiness", "benefit", row=4),
+]
+COLUMNS = {"weight": "H", "weight:board": "I", "weight:order:rank": "J"}
+MATRIX = pd.DataFrame(
+    {
+        "capital_cost": [12.0, 8.0, 15.0, 9.0],
+        "trucks": [3000.0, 4500.0, 2000.0, 5200.0],
+        "readiness": [60.0, 75.0, 40.0, 90.0],
+    },
+    index=pd.Index(["K1", "K2", "K3", "K4"], name="corridor_id"),
+)
+ASSUME = {"rank_weights": "roc"}
+
+
+def _resolve(sets, pairwise=None, assumptions=ASSUME):
+    inputs = make_inputs(CRIT, sets, columns=COLUMNS, pairwise=pairwise)
+    return resolve_weight_sets(inputs, MATRIX, assumptions)
+
+
+def test_points_are_rescaled_to_sum_one():
+    out = _resolve(
+        [WeightSet("default", {"capital_cost": 2.0, "trucks": 5.0, "readiness": 3.0}, "H")]
+    )
+    first = out[0]
+    assert first.name == "default" and first.how == "points" and not first.reference_only
+    assert first.weights == pytest.approx({"capital_cost": 0.2, "trucks": 0.5, "readiness": 0.3})
+    assert first.given == {"capital_cost": 2.0, "trucks": 5.0, "readiness": 3.0}
+
+
+def test_negative_weight_names_its_cell():
+    ws = WeightSet("board", {"capital_cost": 2.0, "trucks": -1.0, "readiness": 3.0}, "I")
+    with pytest.raises(InputError, match=r"Criteria!I3: weight of 'trucks' in set 'board' is -1"):
+        _resolve([ws])
+
+
+def test_all_zero_weights_name_the_column_cells():
+    ws = WeightSet("default", {"capital_cost": 0.0, "trucks": 0.0, "readiness": 0.0}, "H")
+    with pytest.raises(InputError, match=r"Criteria!H2:H4: every weight of set 'default' is 0"):
+        _resolve([ws])
+
+
+def test_every_problem_is_reported_at_once():
+    sets = [
+        WeightSet("default", {"capital_cost": -2.0, "trucks": 1.0, "readiness": 1.0}, "H"),
+        WeightSet("board", {"capital_cost": 1.0, "trucks": 1.0, "readiness": -3.0}, "I"),
+    ]
+    with pytest.raises(InputError) as err:
+        _resolve(sets)
+    assert [p.where for p in err.value.problems] == ["Criteria!H2", "Criteria!I4"]
+
+
+def test_blank_weight_counts_zero_with_a_warning():
+    out = _resolve([WeightSet("default", {"capital_cost": 1.0, "trucks": 1.0}, "H")])
+    assert out[0].weights["readiness"] == 0.0
+    assert any("Criteria!H4" in w for w in out[0].warnings)
+
+
+def test_rank_order_becomes_roc_weights():
+    """Barron & Barrett (1996) ROC for n = 3, placed by the typed ranks."""
+    ws = WeightSet(
+        "order", {"capital_cost": 2.0, "trucks": 1.0, "readiness": 3.0}, "J", kind="rank"
+    )
+    out = _resolve([ws])
+    r = roc_weights(3)
+    assert out[0].how == "rank order (ROC)"
+    assert out[0].weights == pytest.approx(
+        {"capital_cost": r[1], "trucks": r[0], "readiness": r[2]}
+    )
+
+
+def test_rank_order_rank_sum_by_assumption():
+    ws = WeightSet(
+        "order", {"capital_cost": 3.0, "trucks": 1.0, "readiness": 2.0}, "J", kind="rank"
+    )
+    out = _resolve([ws], assumptions={"rank_weights": "rank_sum"})
+    r = rank_sum_weights(3)
+    assert out[0].weights == pytest.approx(
+        {"capital_cost": r[2], "trucks": r[0], "readiness": r[1]}
+    )
+
+
+@pytest.mark.parametrize(
+    "value, cell", [(1.5, "Criteria!J2"), (0.0, "Criteria!J2"), (None, "Criteria!J2")]
+)
+def test_bad_rank_names_its_cell(value, cell):
+    values = {"trucks": 1.0, "readiness": 2.0}
+    if value is not None:
+        values["capital_cost"] = value
+    ws = WeightSet("order", values, "J", kind="rank")
+    with pytest.raises(InputError, match=rf"{cell}: (no )?rank"):
+        _resolve([ws])
+
+
+def _pairwise(values):
+    keys = ["capital_cost", "trucks", "readiness"]
+    return pd.DataFrame(values, index=keys, columns=keys, dtype=float)
+
+
+NAN = np.nan
+
+
+def test_pairwise_fills_reciprocals_and_reports_consistency():
+    """The 3x3 reference example typed as the upper triangle only (w = .6483 .2297 .1220)."""
+    pw = _pairwise([[1, 3, 5], [NAN, 1, 2], [NAN, NAN, 1]])
+    out = _resolve(
+        [WeightSet("default", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "H")], pw
+    )
+    ahp = next(s for s in out if s.name == "pairwise")
+    assert ahp.how == "pairwise (AHP)"
+    np.testing.assert_allclose(list(ahp.weights.values()), [0.6483, 0.2297, 0.1220], atol=5e-5)
+    c = ahp.consistency
+    assert c["ri_table"] == "Saaty (1980)" and c["consistent"]
+    assert c["cr"] == pytest.approx(0.0032, abs=5e-5)
+    assert c["lambda_max"] == pytest.approx(3.0037, abs=5e-5)
+    assert c["worst_triple"] == ["capital_cost", "trucks", "readiness"]
+    assert not ahp.warnings
+
+
+def test_pairwise_lower_triangle_only_gives_the_same_weights():
+    upper = _pairwise([[1, 3, 5], [NAN, 1, 2], [NAN, NAN, 1]])
+    lower = _pairwise([[1, NAN, NAN], [1 / 3, 1, NAN], [1 / 5, 0.5, 1]])
+    ws = [WeightSet("default", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "H")]
+    a = next(s for s in _resolve(ws, upper) if s.name == "pairwise").weights
+    b = next(s for s in _resolve(ws, lower) if s.name == "pairwise").weights
+    assert a == pytest.approx(b)
+
+
+def test_pairwise_contradicting_reciprocal_names_the_cell():
+    """Row 'readiness' (sheet row 4), column 'capital_cost' (column B): Pairwise!B4."""
+    pw = _pairwise([[1, 3, 5], [NAN, 1, 2], [4, NAN, 1]])
+    with pytest.raises(InputError, match=r"Pairwise!B4: holds 4 but Pairwise!D2 holds 5"):
+        _resolve([], pw)
+
+
+def test_pairwise_near_reciprocal_typed_both_ways_is_accepted():
+    pw = _pairwise([[1, 3, 5], [0.33, 1, 2], [0.2, 0.5, 1]])
+    out = _resolve([], pw)
+    assert out[0].name == "pairwise"
+
+
+def test_pairwise_missing_judgment_names_both_cells():
+    pw = _pairwise([[1, 3, NAN], [NAN, 1, 2], [NAN, NAN, 1]])
+    with pytest.raises(
+        InputError,
+        match=r"Pairwise!D2: no judgment of 'capital_cost' against "
+        r"'readiness'.*Pairwise!B4",
+    ):
+        _resolve([], pw)
+
+
+def test_pairwise_unknown_and_missing_criteria():
+    keys = ["capital_cost", "trucks", "speed"]
+    pw = pd.DataFrame(np.ones((3, 3)), index=keys, columns=keys)
+    with pytest.raises(InputError) as err:
+        _resolve([], pw)
+    wheres = [p.where for p in err.value.problems]
+    assert "Pairwise!A4" in wheres and "Pairwise!D1" in wheres
+    assert any(p.where == "Pairwise" and "'readiness'" in p.what for p in err.value.problems)
+
+
+def test_pairwise_non_positive_judgment():
+    pw = _pairwise([[1, 0, 5], [NAN, 1, 2], [NAN, NAN, 1]])
+    with pytest.raises(InputError, match=r"Pairwise!C2: judgment 0 is not a positive number"):
+        _resolve([], pw)
+
+
+def test_inconsistent_pairwise_warns_with_triple_and_judgment_to_revisit():
+    """cost 3x trucks, trucks 3x readiness, yet readiness 5x cost: CR far above 0.10."""
+    pw = _pairwise([[1, 3, 1 / 5], [NAN, 1, 3], [NAN, NAN, 1]])
+    out = _resolve([], pw)
+    ahp = out[0]
+    assert ahp.consistency["cr"] > 0.10 and ahp.consistency["consistent"] is False
+    revisit = ahp.consistency["revisit"]
+    assert revisit["cell"] == "Pairwise!D2" and revisit["suggested"] == 9.0
+    assert revisit["current"] == pytest.approx(0.2)
+    assert len(ahp.warnings) == 1
+    warning = ahp.warnings[0]
+    assert "above 0.10" in warning and "capital_cost, trucks, readiness" in warning
+    assert "revisit Pairwise!D2" in warning and "imply about 9" in warning
+
+
+def test_pairwise_revisit_names_the_cell_the_planner_typed():
+    """Typed in the lower triangle: the suggestion speaks of that cell, inverted."""
+    pw = _pairwise([[1, NAN, NAN], [1 / 3, 1, NAN], [5, 1 / 3, 1]])
+    revisit = _resolve([], pw)[0].consistency["revisit"]
+    assert revisit["cell"] == "Pairwise!B4"
+    assert (revisit["row"], revisit["column"]) == ("readiness", "capital_cost")
+    assert revisit["current"] == pytest.approx(5.0)
+    assert revisit["suggested"] == pytest.approx(1 / 9)
+
+
+def test_pairwise_name_clash_with_a_weight_column():
+    pw = _pairwise([[1, 3, 5], [NAN, 1, 2], [NAN, NAN, 1]])
+    ws = WeightSet("pairwise", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "I")
+    with pytest.raises(InputError, match="Criteria!I1"):
+        resolve_weight_sets(
+            make_inputs(CRIT, [ws], columns={"weight:pairwise": "I"}, pairwise=pw), MATRIX, ASSUME
+        )
+
+
+def test_objective_reference_sets_follow_and_are_reference_only():
+    out = _resolve([WeightSet("default", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "H")])
+    assert [s.name for s in out] == ["default", "entropy", "critic"]
+    assert [s.how for s in out[1:]] == ["entropy (objective)", "CRITIC (objective)"]
+    for s in out[1:]:
+        assert s.reference_only and sum(s.weights.values()) == pytest.approx(1.0)
+        assert list(s.weights) == list(MATRIX.columns)
+
+
+def test_no_weight_column_at_all():
+    with pytest.raises(InputError, match="Criteria: there is no weight column"):
+        _resolve([])
+
+
+def test_pairwise_cells_use_the_readers_coordinates_when_recorded():
+    """The reader may order the matrix unlike the sheet; its recorded rows and columns win."""
+    pw = _pairwise([[1, 3, 5], [NAN, 1, 2], [4, NAN, 1]])
+    inputs = make_inputs(CRIT, [], columns=COLUMNS, pairwise=pw)
+    inputs.rows["Pairwise"] = {"capital_cost": 3, "trucks": 2, "readiness": 4}
+    inputs.columns["Pairwise"] = {"capital_cost": "C", "trucks": "B", "readiness": "D"}
+    with pytest.raises(InputError, match=r"Pairwise!C4: holds 4 but Pairwise!D3 holds 5"):
+        resolve_weight_sets(inputs, MATRIX, ASSUME)
