@@ -149,8 +149,8 @@ def cmd_check(args) -> int:
     return EXIT_OK
 
 
-def run_once(args, overrides: dict[str, float]) -> dict:
-    """Run the main job once; return the JSON summary."""
+def run_once(args, overrides: dict[str, float]):
+    """Run the main job once and write the outputs; return the Result."""
     from . import rank_workbook, write_outputs
     from .result import DEFAULT_SAMPLES, DEFAULT_SEED
 
@@ -166,32 +166,42 @@ def run_once(args, overrides: dict[str, float]) -> dict:
         progress=progress,
     )
     write_outputs(result, args.out)
-    return result.to_json()
+    return result
 
 
-def print_ranking(summary: dict, stream=None) -> None:
-    """Print the ranked order and where the outputs are."""
+#: Rows of the ranking printed on the terminal; the outputs hold them all.
+PRINTED_ROWS = 30
+
+
+def print_ranking(result, stream=None) -> None:
+    """Print the ranked order, what changed since the last run, and where the outputs are."""
+    from .report.summary import has_samples
+
     stream = stream or sys.stdout
-    method = summary["primary_method"]
-    print(f"Ranking by {method}, weight set '{summary['weight_set']}':", file=stream)
-    for row in summary["ranking"]:
-        first = row.get("rank_acceptability") or []
-        sure = f"  first in {first[0]:.0%} of samples" if first else ""
+    method = result.primary_method
+    print(f"Ranking by {method}, weight set '{result.weight_set}':", file=stream)
+    ranking = result.ranking
+    first = result.robustness.first_rank if has_samples(result.robustness) else None
+    for cid, row in ranking.iloc[:PRINTED_ROWS].iterrows():
+        sure = f"  first in {first[cid]:.0%} of samples" if first is not None else ""
         print(
-            f"  {row['rank']:>3}. {row['name']} ({row['corridor_id']})  "
-            f"score {row['scores'][method]:.3f}{sure}",
+            f"  {row['rank']:>3}. {row['name']} ({cid})  score {row[f'score_{method}']:.3f}{sure}",
             file=stream,
         )
-    for e in summary["excluded"]:
+    if len(ranking) > PRINTED_ROWS:
+        print(f"  ... and {len(ranking) - PRINTED_ROWS} more in the results workbook", file=stream)
+    for e in result.excluded:
         print(
             f"  excluded: {e['corridor_id']} ({e['criterion']} {e['value']:.4g} "
             f"against limit {e['limit']:.4g})",
             file=stream,
         )
-    for w in summary["warnings"]:
+    for line in result.changes:
+        print(f"  changed since the last run: {line}", file=stream)
+    for w in result.warnings:
         print(f"warning: {w}", file=sys.stderr)
-    print(f"Results workbook: {summary['outputs']['workbook']}", file=stream)
-    print(f"Justification sheet: {summary['outputs']['html']}", file=stream)
+    print(f"Results workbook: {result.outputs['workbook']}", file=stream)
+    print(f"Justification sheet: {result.outputs['html']}", file=stream)
 
 
 def cmd_run(args) -> int:
@@ -200,12 +210,12 @@ def cmd_run(args) -> int:
         from .watch import watch
 
         return watch(args, overrides, run_once)
-    summary = run_once(args, overrides)
+    result = run_once(args, overrides)
     if args.json:
-        json.dump(summary, sys.stdout, indent=2)
+        json.dump(result.to_json(), sys.stdout, indent=2)
         sys.stdout.write("\n")
     elif not args.quiet:
-        print_ranking(summary)
+        print_ranking(result)
     return EXIT_OK
 
 
@@ -226,8 +236,7 @@ def cmd_demo(args) -> int:
         quiet=False,
         watch=False,
     )
-    summary = run_once(run_args, {})
-    print_ranking(summary)
+    print_ranking(run_once(run_args, {}))
     print(f"Demo input workbook: {path}")
     return EXIT_OK
 

@@ -7,12 +7,12 @@ file opens, then re-runs and prints what changed since the previous run.
 
 from __future__ import annotations
 
+import json
 import sys
 import time
 import zipfile
 from pathlib import Path
 
-from .changes import compare
 from .errors import InputError
 
 POLL_S = 0.5
@@ -52,7 +52,6 @@ def watch(
     from .cli import print_ranking
 
     path: Path = args.input
-    previous = None
     runs = 0
     seen = None
     try:
@@ -65,17 +64,19 @@ def watch(
                 seen = stamp
                 runs += 1
                 try:
-                    summary = run_once(args, overrides)
+                    result = run_once(args, overrides)
                 except InputError as exc:
                     for p in exc.problems:
                         print(str(p), file=sys.stderr)
                     print("Fix the workbook and save it again; still watching.", file=sys.stderr)
                     continue
                 print(f"--- run {runs} at {time.strftime('%H:%M:%S')} ---")
-                print_ranking(summary)
-                for line in compare(previous, summary) if previous else []:
-                    print(f"  changed: {line}")
-                previous = summary
+                if args.json:
+                    json.dump(result.to_json(), sys.stdout)
+                    sys.stdout.write("\n")
+                    sys.stdout.flush()
+                elif not args.quiet:
+                    print_ranking(result)  # includes what changed since the last run
                 print(f"Watching {path} for changes (Ctrl-C ends).", file=sys.stderr)
             time.sleep(poll_s)
     except KeyboardInterrupt:

@@ -26,7 +26,7 @@ def changes_since(previous_xlsx: Path, result) -> list[str]:
     previous = read_state(previous_xlsx)
     if previous is None:
         return []
-    return compare(previous, compact_state(result.to_json()))
+    return compare(previous, compact_state(result))
 
 
 def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None = None) -> dict:

@@ -122,9 +122,11 @@ def acceptability_heatmap(acceptability: pd.DataFrame, labels: list[str]) -> str
     data = acceptability.to_numpy(dtype=float)
     im = ax.imshow(data, cmap="cividis", vmin=0, vmax=1, aspect="auto")
     ax.set_yticks(np.arange(n), labels)
-    ax.set_xticks(np.arange(data.shape[1]), [str(i + 1) for i in range(data.shape[1])])
+    ticks = [str(c).replace("rank ", "") for c in acceptability.columns]
+    ax.set_xticks(np.arange(data.shape[1]), ticks, rotation=90 if data.shape[1] > 15 else 0)
     ax.set_xlabel("rank taken [-]")
-    for i in range(n):
+    annotate = n <= 20 and data.shape[1] <= 26  # numbers stay legible
+    for i in range(n if annotate else 0):
         for j in range(data.shape[1]):
             if data[i, j] >= 0.005:
                 ax.text(

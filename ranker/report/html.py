@@ -11,7 +11,7 @@ from ..assumptions import ASSUMPTIONS
 from ..files import HTML_MARKER
 from . import charts, narrative
 from .sheets import criterion_unit
-from .summary import has_samples
+from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION
 
 
@@ -33,12 +33,12 @@ def _environment() -> jinja2.Environment:
     return jinja2.Environment(loader=loader, autoescape=True, undefined=jinja2.StrictUndefined)
 
 
-def _cards(result) -> list[dict]:
+def _cards(result, shown) -> list[dict]:
     d = result.derivation
     rob = result.robustness
     tips = rob.tipping_points if rob is not None else []
     cards = []
-    for cid, row in result.ranking.iterrows():
+    for cid, row in result.ranking.loc[shown].iterrows():
         strong, weak = narrative.strongest_weakest(result, cid)
         facts = []
         if d is not None and cid in d.sizing.index:
@@ -78,7 +78,9 @@ def _cards(result) -> list[dict]:
 def build_html(result) -> str:
     """Return the justification sheet for ``result`` as HTML text."""
     charts.reset_ids()
-    ranking = result.ranking
+    full = result.ranking
+    # Charts and cards show the leading corridors; every corridor is in the table.
+    ranking = full.iloc[:SHOWN_CORRIDORS]
     labels = [f"{r['rank']}. {r['name']}" for _, r in ranking.iterrows()]
     crit_labels = {c.key: c.label for c in result.criteria}
     s = result.scores
@@ -93,7 +95,9 @@ def build_html(result) -> str:
             s.contributions.loc[ranking.index], labels, crit_labels
         ),
         "acceptability": (
-            charts.acceptability_heatmap(rob.acceptability.loc[ranking.index], labels)
+            charts.acceptability_heatmap(
+                folded_acceptability(rob.acceptability.loc[ranking.index]), labels
+            )
             if has_samples(rob)
             else ""
         ),
@@ -101,6 +105,12 @@ def build_html(result) -> str:
         if rob is not None
         else "",
     }
+    shown_note = (
+        f"Charts and cards show the first {len(ranking)} of {len(full)} corridors; "
+        "the table above and the results workbook list them all."
+        if len(full) > len(ranking)
+        else ""
+    )
     given = set(result.inputs.assumptions)
     assumptions = [
         {
@@ -114,7 +124,7 @@ def build_html(result) -> str:
         if k in result.assumptions
     ]
     rows = []
-    for cid, r in ranking.iterrows():
+    for cid, r in full.iterrows():
         rows.append(
             {
                 "rank": int(r["rank"]),
@@ -134,7 +144,8 @@ def build_html(result) -> str:
         "agreement": narrative.agreement_sentence(result),
         "reversal": narrative.reversal_sentences(result),
         "figures": figures,
-        "cards": _cards(result),
+        "cards": _cards(result, ranking.index),
+        "shown_note": shown_note,
         "criteria": [
             {
                 "key": c.key,

@@ -11,7 +11,7 @@ import pandas as pd
 from ..assumptions import ASSUMPTIONS
 from ..derive import BUILT_IN
 from .narrative import consistency_text
-from .summary import has_samples
+from .summary import folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
 #: Units of the built-in criteria, for headers.
@@ -221,7 +221,7 @@ def robustness_sheet(writer, result) -> None:
     )
     row = 4
     if has_samples(rob):
-        acc = rob.acceptability.loc[result.ranking.index]
+        acc = folded_acceptability(rob.acceptability.loc[result.ranking.index])
         top, left, bottom, right = writer.table(
             ws,
             acc,

@@ -30,6 +30,22 @@ def clean(value):
     return value
 
 
+#: Rank columns shown in the workbook and the heatmap before later ranks are folded.
+ACCEPTABILITY_COLUMNS = 25
+#: Corridors shown in each chart and given a card on the justification sheet;
+#: every corridor is in the workbook.
+SHOWN_CORRIDORS = 40
+
+
+def folded_acceptability(acceptability: pd.DataFrame, columns: int = ACCEPTABILITY_COLUMNS):
+    """Keep ranks 1..columns and fold the rest into one "later" column (rows still sum to 1)."""
+    if acceptability.shape[1] <= columns + 1:
+        return acceptability
+    kept = acceptability.iloc[:, :columns].copy()
+    kept[f"rank {columns + 1} or later"] = acceptability.iloc[:, columns:].sum(axis=1)
+    return kept
+
+
 def has_samples(robustness) -> bool:
     """True where a Monte Carlo analysis ran (samples > 0)."""
     return robustness is not None and robustness.acceptability.size > 0
@@ -50,10 +66,6 @@ def summary_json(result) -> dict:
             "ranks": {m: int(s.ranks.at[cid, m]) for m in s.ranks.columns},
             "criteria": {k: float(result.matrix.at[cid, k]) for k in result.matrix.columns},
         }
-        if acceptability is not None:
-            entry["rank_acceptability"] = [float(x) for x in acceptability.loc[cid].to_numpy()]
-        else:
-            entry["rank_acceptability"] = []
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
@@ -91,11 +103,7 @@ def summary_json(result) -> dict:
             for w in result.weight_sets
         ],
         "robustness": robustness,
-        "rank_acceptability": (
-            {str(cid): [float(x) for x in row] for cid, row in acceptability.iterrows()}
-            if acceptability is not None
-            else {}
-        ),
+        "rank_acceptability": {},
         "excluded": result.excluded,
         "agreement": {
             "kendall": s.agreement["kendall"].to_dict() if "kendall" in s.agreement else {},
@@ -110,4 +118,13 @@ def summary_json(result) -> dict:
         "changes_since_last_run": list(result.changes),
         "outputs": dict(result.outputs),
     }
-    return clean(out)
+    out = clean(out)
+    # Shares are finite by construction; attached after clean() to keep large runs fast.
+    rows = {}
+    if acceptability is not None:
+        table = acceptability.loc[result.ranking.index]
+        rows = dict(zip(map(str, table.index), table.to_numpy(dtype=float).tolist(), strict=True))
+    for entry in out["ranking"]:
+        entry["rank_acceptability"] = rows.get(entry["corridor_id"], [])
+    out["rank_acceptability"] = rows
+    return out

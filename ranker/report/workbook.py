@@ -194,14 +194,24 @@ STATE_SHEET = "ranker_state"
 _CHUNK = 30_000  # characters per cell, under Excel's 32,767
 
 
-def compact_state(summary: dict) -> dict:
+def compact_state(result) -> dict:
     """Keep what a later run needs to say what changed: weights, ranks, values."""
+    ranking = result.ranking
+    matrix = result.matrix.loc[ranking.index]
+    values = matrix.to_dict(orient="index")
     return {
-        "weight_set": summary.get("weight_set"),
-        "weights": summary.get("weights", {}),
+        "weight_set": result.weight_set,
+        "weights": {k: float(v) for k, v in result.weights.items()},
         "ranking": [
-            {k: r.get(k) for k in ("corridor_id", "name", "rank", "criteria")}
-            for r in summary.get("ranking", [])
+            {
+                "corridor_id": str(cid),
+                "name": str(name),
+                "rank": int(rank),
+                "criteria": {k: float(v) for k, v in values[cid].items()},
+            }
+            for cid, name, rank in zip(
+                ranking.index, ranking["name"], ranking["rank"], strict=True
+            )
         ],
     }
 
@@ -247,7 +257,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
-    _write_state(wb, compact_state(result.to_json()))
+    _write_state(wb, compact_state(result))
     writer.names.append(STATE_SHEET)
     props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]
     wb.custom_doc_props.props = props
