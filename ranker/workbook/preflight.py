@@ -1,0 +1,334 @@
+"""Check the input file itself before any spreadsheet code opens it.
+
+:func:`check_file` refuses, naming the file: a missing file or a folder, an
+empty file, an ``.xls``, ``.csv``, ``.ods``, ``.xlsb`` or random bytes, an
+encrypted workbook (OLE compound file, signature D0CF11E0), a damaged zip, a
+file over the size limits of :data:`LIMITS`, a zip member that would unpack
+far larger than it is stored (sizes come from the zip directory, so nothing is
+unpacked first), and any XML part that declares entities (spreadsheet
+programs never write them; this stops "billion laughs" expansion even before
+defusedxml, which openpyxl parses with, would).
+
+It also maps each contract sheet to its XML part and scans that part for
+what read-only openpyxl cannot see: merged ranges, hidden rows and columns,
+and whether any formula is present.
+"""
+
+from __future__ import annotations
+
+import re
+import zipfile
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import openpyxl
+from defusedxml import ElementTree as SafeET
+
+from ranker.errors import InputError
+from ranker.workbook.schema import SHEETS, normalize_sheet_name
+
+#: True when openpyxl parses with defusedxml (it does whenever defusedxml is
+#: installed); the entity pre-scan of :func:`check_file` guards either way.
+DEFUSED = bool(openpyxl.DEFUSEDXML)
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Size limits of an input workbook.
+
+    Attributes
+    ----------
+    file_bytes : int
+        Largest file on disk [B].
+    unzipped_bytes : int
+        Largest total of the zip members' uncompressed sizes [B].
+    member_ratio : float
+        Largest uncompressed/compressed ratio of one member once it is
+        bigger than ``ratio_from_bytes`` [-].
+    ratio_from_bytes : int
+        Members smaller than this are not ratio-checked [B].
+    members : int
+        Most members in the zip [-].
+    rows : int
+        Most rows of one contract sheet, header included [-].
+    columns : int
+        Most columns of one contract sheet [-].
+    """
+
+    file_bytes: int = 50 * 1024**2
+    unzipped_bytes: int = 500 * 1024**2
+    member_ratio: float = 100.0
+    ratio_from_bytes: int = 1024**2
+    members: int = 10_000
+    rows: int = 100_000
+    columns: int = 200
+
+
+#: The limits in force.
+LIMITS = Limits()
+
+_OLE = bytes.fromhex("D0CF11E0A1B11AE1")
+_XML_PARTS = (".xml", ".rels", ".vml")
+_FORMULA = re.compile(rb"<(?:\w+:)?f[\s>/]")
+_MERGE = re.compile(rb'<(?:\w+:)?mergeCell\s[^>]*?ref="([A-Za-z]+\d+(?::[A-Za-z]+\d+)?)"')
+_ROW_TAG = re.compile(rb"<(?:\w+:)?row\s[^>]*>")
+_COL_TAG = re.compile(rb"<(?:\w+:)?col\s[^>]*>")
+_ATTR = re.compile(rb'(\w+)="([^"]*)"')
+_NS_MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
+_NS_REL = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
+_NS_PKG = "{http://schemas.openxmlformats.org/package/2006/relationships}"
+RESAVE = "open it in Excel or LibreOffice and save it as Excel Workbook (.xlsx)"
+
+
+@dataclass
+class _Part:
+    """Where one sheet lives in the zip, and what its XML shows cheaply."""
+
+    title: str
+    member: str
+    hidden: bool = False
+    has_formulas: bool = False
+    merges: list[str] = field(default_factory=list)
+    hidden_rows: set[int] = field(default_factory=set)
+    hidden_cols: set[int] = field(default_factory=set)
+
+
+@dataclass
+class _Preflight:
+    warnings: list[str]
+    parts: dict[str, _Part]
+
+
+def check_file(path: Path, *, limits: Limits = LIMITS) -> list[str]:
+    """Check the file before it is opened as a workbook.
+
+    Parameters
+    ----------
+    path : Path
+        The input workbook.
+    limits : Limits, optional
+        Size limits (default :data:`LIMITS`).
+
+    Returns
+    -------
+    list of str
+        Warnings (for a macro-enabled workbook).
+
+    Raises
+    ------
+    InputError
+        Naming the file, for a missing, unreadable, wrong-format, encrypted,
+        oversized or unsafe file.
+
+    Examples
+    --------
+    >>> check_file(Path("missing.xlsx"))  # doctest: +SKIP
+    InputError: missing.xlsx: file not found; ...
+    """
+    return preflight(Path(path), limits).warnings
+
+
+def fail(path: Path, what: str, fix: str) -> InputError:
+    return InputError.one(path.name, what, fix)
+
+
+def preflight(path: Path, limits: Limits) -> _Preflight:
+    if not path.exists():
+        raise fail(path, "file not found", "check the file name and the folder")
+    if not path.is_file():
+        raise fail(path, "is a folder, not a file", "give the path of the .xlsx workbook")
+    size = path.stat().st_size
+    if size > limits.file_bytes:
+        raise fail(
+            path,
+            f"file is {size / 1024**2:,.1f} MB, over the {limits.file_bytes / 1024**2:,.0f} MB limit",
+            "remove unused sheets, pictures and formatting, or split the corridors into two runs",
+        )
+    if size == 0:
+        raise fail(path, "file is empty (0 bytes)", "save the workbook again from Excel")
+    try:
+        with path.open("rb") as fh:
+            head = fh.read(8)
+    except OSError as exc:
+        raise fail(
+            path,
+            f"cannot be opened ({exc.strerror})",
+            "close it in other programs and check you may read it",
+        ) from None
+    if head == _OLE:
+        raise fail(
+            path,
+            "is password-protected or in the old Excel 97-2003 (.xls) format",
+            "remove the password (File > Info > Protect Workbook) and save as Excel Workbook (.xlsx)",
+        )
+    if not zipfile.is_zipfile(path):
+        raise fail(path, _not_zip_what(path, head), RESAVE)
+    try:
+        with zipfile.ZipFile(path) as zf:
+            return _check_zip(path, zf, limits)
+    except zipfile.BadZipFile:
+        raise fail(path, "is damaged (the zip container cannot be read)", RESAVE) from None
+
+
+def _not_zip_what(path: Path, head: bytes) -> str:
+    ext = path.suffix.lower()
+    if head[:2] == b"PK":
+        return "is damaged or incomplete (its zip container cannot be read)"
+    if ext in (".csv", ".txt", ".tsv"):
+        return f"is a text file ({ext}), not an Excel workbook"
+    if ext == ".xls":
+        return "is not in the .xlsx format"
+    if head[:5] in (b"<?xml", b"<html", b"<!DOC") or head[:2] == b"\xff\xfe":
+        return "is an XML or web page file (perhaps XML Spreadsheet 2003), not an .xlsx workbook"
+    try:
+        head.decode("ascii")
+        text = True
+    except UnicodeDecodeError:
+        text = False
+    if text:
+        return "is a text file (perhaps CSV), not an Excel workbook"
+    return "is not an Excel workbook (.xlsx): its contents are not a workbook"
+
+
+def _check_zip(path: Path, zf: zipfile.ZipFile, limits: Limits) -> _Preflight:
+    infos = zf.infolist()
+    if len(infos) > limits.members:
+        raise fail(
+            path, f"holds {len(infos):,} parts, over the limit of {limits.members:,}", RESAVE
+        )
+    total = 0
+    for info in infos:
+        total += info.file_size
+        ratio = info.file_size / max(info.compress_size, 1)
+        if info.file_size > limits.ratio_from_bytes and ratio > limits.member_ratio:
+            raise fail(
+                path,
+                f"part {info.filename} would unpack more than {limits.member_ratio:,.0f} times "
+                "larger than it is stored; refused as a possible decompression bomb",
+                "rebuild the workbook from a fresh template and paste the values in",
+            )
+    if total > limits.unzipped_bytes:
+        raise fail(
+            path,
+            f"would unpack to {total / 1024**2:,.0f} MB, over the "
+            f"{limits.unzipped_bytes / 1024**2:,.0f} MB limit",
+            "remove unused sheets, pictures and formatting, or split the corridors into two runs",
+        )
+    names = {i.filename for i in infos}
+    _check_kind(path, zf, names)
+    for info in infos:
+        if info.filename.lower().endswith(_XML_PARTS):
+            _scan_prolog(path, zf, info.filename)
+    out: list[str] = []
+    if "xl/vbaProject.bin" in names or path.suffix.lower() in (".xlsm", ".xltm"):
+        out.append(
+            f"{path.name}: the workbook is macro-enabled; its macros were neither run nor kept "
+            "(the outputs hold values only)"
+        )
+    parts, dupes = _sheet_parts(path, zf, names)
+    return _Preflight(out + dupes, parts)
+
+
+def _check_kind(path: Path, zf: zipfile.ZipFile, names: set[str]) -> None:
+    if "mimetype" in names:
+        mime = zf.read("mimetype")[:100]
+        if b"opendocument" in mime:
+            raise fail(
+                path,
+                "is an OpenDocument spreadsheet (.ods), not .xlsx",
+                "in LibreOffice use File > Save As > Excel 2007-365 (.xlsx)",
+            )
+    if "xl/workbook.bin" in names:
+        raise fail(
+            path,
+            "is an Excel binary workbook (.xlsb)",
+            "in Excel use File > Save As > Excel Workbook (.xlsx)",
+        )
+    if "[Content_Types].xml" not in names or "xl/workbook.xml" not in names:
+        what = "is a zip file but not an Excel workbook"
+        if "word/document.xml" in names:
+            what = "is a Word document, not an Excel workbook"
+        elif "ppt/presentation.xml" in names:
+            what = "is a PowerPoint file, not an Excel workbook"
+        raise fail(path, what, "give the .xlsx workbook made from `ranker template`")
+    head = zf.read("xl/workbook.xml")[:2000]
+    if b"purl.oclc.org/ooxml/spreadsheetml" in head:
+        raise fail(
+            path,
+            "is saved as Strict Open XML, which cannot be read",
+            "in Excel use File > Save As > Excel Workbook (.xlsx), not Strict Open XML",
+        )
+
+
+def _scan_prolog(path: Path, zf: zipfile.ZipFile, member: str) -> None:
+    """Refuse DOCTYPE/ENTITY declarations: Excel never writes them."""
+    prolog = b""
+    with zf.open(member) as fh:
+        while len(prolog) < 1024**2:
+            chunk = fh.read(16384)
+            if not chunk:
+                break
+            prolog += chunk
+            m = re.search(rb"<[A-Za-z_]", prolog)
+            if m:
+                prolog = prolog[: m.start()]
+                break
+    if b"<!DOCTYPE" in prolog or b"<!ENTITY" in prolog:
+        raise fail(
+            path,
+            f"part {member} declares XML entities, which spreadsheet programs never write; "
+            "refused for safety",
+            "rebuild the workbook from a fresh template and paste the values in",
+        )
+
+
+def _xml(path: Path, zf: zipfile.ZipFile, member: str):
+    try:
+        return SafeET.fromstring(zf.read(member))
+    except Exception:  # noqa: BLE001 - any XML fault in the package is the file's fault
+        raise fail(path, f"is damaged (part {member} is not valid XML)", RESAVE) from None
+
+
+def _sheet_parts(path: Path, zf: zipfile.ZipFile, names: set[str]):
+    """Map each contract sheet to its XML part and scan that part cheaply."""
+    book = _xml(path, zf, "xl/workbook.xml")
+    targets: dict[str, str] = {}
+    rels_name = "xl/_rels/workbook.xml.rels"
+    if rels_name in names:
+        for rel in _xml(path, zf, rels_name).iter(f"{_NS_PKG}Relationship"):
+            target = rel.get("Target", "")
+            target = target.lstrip("/") if target.startswith("/") else "xl/" + target
+            targets[rel.get("Id", "")] = target
+    wanted = {normalize_sheet_name(n): n for n in SHEETS}
+    parts: dict[str, _Part] = {}
+    dupes: list[str] = []
+    for sheet in book.iter(f"{_NS_MAIN}sheet"):
+        title = sheet.get("name", "")
+        canon = wanted.get(normalize_sheet_name(title))
+        member = targets.get(sheet.get(f"{_NS_REL}id", ""), "")
+        if canon is None or member not in names:
+            continue
+        if canon in parts:
+            dupes.append(
+                f"{title}: the sheet's name also matches {canon}; only the sheet "
+                f"{parts[canon].title!r} was read"
+            )
+            continue
+        part = _Part(title, member, hidden=sheet.get("state", "visible") != "visible")
+        _scan_sheet(zf.read(member), part)
+        parts[canon] = part
+    return parts, dupes
+
+
+def _scan_sheet(xml: bytes, part: _Part) -> None:
+    part.has_formulas = _FORMULA.search(xml) is not None
+    part.merges = [m.group(1).decode().upper() for m in _MERGE.finditer(xml)]
+    for m in _ROW_TAG.finditer(xml):
+        attrs = dict(_ATTR.findall(m.group(0)))
+        if attrs.get(b"hidden") in (b"1", b"true") and attrs.get(b"r", b"").isdigit():
+            part.hidden_rows.add(int(attrs[b"r"]))
+    for m in _COL_TAG.finditer(xml):
+        attrs = dict(_ATTR.findall(m.group(0)))
+        if attrs.get(b"hidden") in (b"1", b"true"):
+            lo, hi = int(attrs.get(b"min", b"0") or 0), int(attrs.get(b"max", b"0") or 0)
+            part.hidden_cols.update(range(lo, min(hi, 16384) + 1))

@@ -1,0 +1,319 @@
+"""Read the input workbook into typed tables, naming every problem's cell.
+
+Two public entry points:
+
+- :func:`check_file` (from :mod:`ranker.workbook.preflight`) looks at the
+  file itself before any spreadsheet code touches it: that it exists, is an
+  ``.xlsx`` (not ``.xls``, ``.csv``, an encrypted file or random bytes),
+  within the size limits of :data:`LIMITS`, free of XML entity declarations,
+  and not a decompression bomb (sizes are read from the zip directory, before
+  anything is unpacked).
+- :func:`read_workbook` runs :func:`check_file`, then reads every contract
+  sheet (openpyxl read-only, cached values), then types and cross-checks the
+  tables (:mod:`ranker.workbook.sheets`, :mod:`ranker.workbook.criteria`).
+  Every problem found is collected, sorted by sheet, row and column, and
+  raised together as one :class:`~ranker.errors.InputError`.
+
+The file is only ever opened for reading. Macros in ``.xlsm`` files are
+neither run nor kept (``keep_vba=False``).
+"""
+
+from __future__ import annotations
+
+import hashlib
+import re
+import warnings
+from pathlib import Path
+
+import openpyxl
+import pandas as pd
+from openpyxl.utils import column_index_from_string, get_column_letter, range_boundaries
+
+from ranker.errors import InputError, Problems
+from ranker.workbook import sheets as _sheets
+from ranker.workbook import tables as T
+from ranker.workbook.criteria import read_criteria, read_pairwise
+from ranker.workbook.preflight import (
+    DEFUSED,
+    LIMITS,
+    RESAVE,
+    Limits,
+    check_file,
+    fail,
+    preflight,
+)
+from ranker.workbook.schema import SHEETS
+from ranker.workbook.tables import Inputs
+from ranker.workbook.units import nearest
+
+
+def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
+    """Read and check the input workbook.
+
+    Parameters
+    ----------
+    path : Path
+        The input workbook (``.xlsx``, or ``.xlsm`` whose macros are ignored).
+    limits : Limits, optional
+        Size limits (default :data:`LIMITS`).
+
+    Returns
+    -------
+    Inputs
+        Every table typed and checked; ``warnings`` holds doubtful but legal
+        input.
+
+    Raises
+    ------
+    InputError
+        With every problem found, each naming ``Sheet!Cell`` (or the sheet or
+        the file) and how to fix it.
+
+    Examples
+    --------
+    >>> inputs = read_workbook(Path("corridors.xlsx"))  # doctest: +SKIP
+    >>> inputs.corridors.loc["C01", "length_mi"]  # doctest: +SKIP
+    112.5
+    """
+    path = Path(path)
+    pre = preflight(path, limits)
+    data = path.read_bytes()
+    sha = hashlib.sha256(data).hexdigest()
+    problems = Problems()
+    grids, sheet_names = _load_grids(path, pre, limits, problems)
+    for name, schema in SHEETS.items():
+        if schema.required and name not in grids and name not in pre.parts:
+            others = [n for n in sheet_names if n not in {p.title for p in pre.parts.values()}]
+            hint = nearest(name, others, cutoff=0.5)
+            fix = f"add a sheet named {name}"
+            if hint:
+                fix = f"rename the sheet {hint} to {name}, or {fix}"
+            problems.add(name, f"the workbook has no sheet named {name}", fix)
+    warn = list(pre.warnings)
+    inputs = build(grids, problems, warn)
+    problems.items.sort(key=lambda p: _place_order(p.where))
+    problems.raise_if_any()
+    inputs.path = path
+    inputs.sha256 = sha
+    inputs.sheet_names = sheet_names
+    inputs.warnings = warn
+    return inputs
+
+
+_PLACE = re.compile(r"^([A-Z]*)(\d*)(?::([A-Z]*)(\d*))?$")
+
+
+def _place_order(where: str) -> tuple:
+    """Sort key: the file first, then sheets in contract order, then row and column."""
+    sheet, _, cell = where.partition("!")
+    order = list(SHEETS)
+    rank = order.index(sheet) if sheet in order else -1
+    m = _PLACE.match(cell)
+    if not cell or m is None:
+        return (rank, 0, 0)
+    col = column_index_from_string(m.group(1)) if m.group(1) else 0
+    return (rank, int(m.group(2) or 0), col)
+
+
+def _load_grids(path, pre, limits, problems):
+    """Read the contract sheets' cells; formulas without a saved value become problems."""
+    grids: dict[str, _sheets.Grid] = {}
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        try:
+            wb = openpyxl.load_workbook(
+                path, read_only=True, data_only=True, keep_vba=False, keep_links=False
+            )
+        except Exception as exc:  # noqa: BLE001 - any fault while parsing is the file's fault
+            raise _unreadable(path, exc) from None
+        try:
+            sheet_names = list(wb.sheetnames)
+            for canon, part in pre.parts.items():
+                grid = _read_grid(path, wb[part.title], canon, part, limits, problems)
+                if grid is not None:
+                    grids[canon] = grid
+        except InputError:
+            raise
+        except Exception as exc:  # noqa: BLE001
+            raise _unreadable(path, exc) from None
+        finally:
+            wb.close()
+        if any(p.has_formulas for c, p in pre.parts.items() if c in grids):
+            _formula_pass(path, pre, grids, limits)
+    for canon, grid in grids.items():
+        part = pre.parts[canon]
+        _merge_problems(grid, part, problems)
+        if part.hidden:
+            pre.warnings.append(f"{canon}: the sheet is hidden; it was read all the same")
+        rows = sorted(r for r in part.hidden_rows if r in grid.data_rows)
+        if rows:
+            shown = ", ".join(str(r) for r in rows[:10]) + (" ..." if len(rows) > 10 else "")
+            pre.warnings.append(f"{canon}: hidden rows {shown} were read all the same")
+        cols = sorted(c for c in part.hidden_cols if c in grid.header)
+        if cols:
+            shown = ", ".join(get_column_letter(c) for c in cols[:10])
+            pre.warnings.append(f"{canon}: hidden columns {shown} were read all the same")
+    return grids, sheet_names
+
+
+def _unreadable(path: Path, exc: Exception) -> InputError:
+    name = type(exc).__name__
+    causes = {type(e).__name__ for e in (exc, exc.__cause__, exc.__context__) if e is not None}
+    if any("Entit" in n or "DTD" in n for n in causes):
+        return fail(
+            path,
+            "declares XML entities; refused for safety",
+            "rebuild the workbook from a fresh template and paste the values in",
+        )
+    return fail(path, f"could not be read as a workbook ({name})", RESAVE)
+
+
+def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
+    ws.reset_dimensions()  # a stale <dimension> must not hide rows
+    grid = _sheets.Grid(canon)
+    try:
+        for r, row in enumerate(ws.iter_rows(), start=1):
+            if r > limits.rows:
+                if any(getattr(c, "value", None) is not None for c in row):
+                    raise InputError.one(
+                        canon,
+                        f"has data beyond row {limits.rows:,}, over the limit of "
+                        f"{limits.rows:,} rows",
+                        "split the data into two workbooks or remove unused rows",
+                    )
+                continue
+            cells = {}
+            for c in row:
+                value = getattr(c, "value", None)
+                if value is None:
+                    if getattr(c, "data_type", "n") == "str":  # a formula whose result is ""
+                        grid.empty_results.add((r, c.column))
+                    continue
+                if c.column > limits.columns:
+                    raise InputError.one(
+                        canon,
+                        f"has data in column {get_column_letter(c.column)}, over the limit of "
+                        f"{limits.columns} columns",
+                        "remove the columns past the limit",
+                    )
+                pct = c.data_type == "n" and "%" in (c.number_format or "")
+                cells[c.column] = _sheets.Cell(value, c.data_type, pct)
+            grid.add(r, cells)
+    except InputError:
+        raise
+    except Exception as exc:  # noqa: BLE001 - a damaged sheet part is the file's fault
+        problems.add(
+            canon,
+            f"the sheet's cells cannot be read ({type(exc).__name__}); the file is damaged",
+            RESAVE,
+        )
+        return None
+    return grid
+
+
+def _formula_pass(path, pre, grids, limits) -> None:
+    """Name every formula cell whose value was never saved."""
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        wb = openpyxl.load_workbook(
+            path, read_only=True, data_only=False, keep_vba=False, keep_links=False
+        )
+        try:
+            for canon, grid in grids.items():
+                part = pre.parts[canon]
+                if not part.has_formulas:
+                    continue
+                ws = wb[part.title]
+                ws.reset_dimensions()
+                for r, row in enumerate(ws.iter_rows(), start=1):
+                    if r > limits.rows:
+                        break
+                    for c in row:
+                        v = getattr(c, "value", None)
+                        text = getattr(v, "text", v)
+                        if not (isinstance(text, str) and text.startswith("=")):
+                            continue
+                        pos = (r, c.column)
+                        if grid.get(*pos) is None and pos not in grid.empty_results:
+                            grid.mark_unsaved(r, c.column, text)
+        finally:
+            wb.close()
+
+
+def _merge_problems(grid, part, problems) -> None:
+    used = set(grid.header)
+    for ref in part.merges:
+        try:
+            c1, r1, c2, r2 = range_boundaries(ref)
+        except ValueError:
+            continue
+        if r1 == 1 or any(c in used for c in range(c1, c2 + 1)) or grid.layout_matrix:
+            problems.add(
+                f"{grid.sheet}!{ref}",
+                "cells are merged inside the data",
+                "unmerge them (Home > Merge & Center) so each value has its own cell",
+            )
+
+
+def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str]) -> Inputs:
+    """Type every sheet and cross-check them; return Inputs (path and hash unset)."""
+    inputs = Inputs(path=Path(), sha256="", corridors=pd.DataFrame(), criteria=[], weight_sets=[])
+    tables: dict[str, _sheets.Table] = {}
+    for name, grid in grids.items():
+        if SHEETS[name].layout == "table":
+            tables[name] = _sheets.read_header(grid, problems)
+            inputs.columns[name] = dict(tables[name].letters)
+    # Where Corridors cannot be read, criteria keys and corridor ids are not cross-checked
+    # (numeric is None), so one missing sheet or header does not echo through the others.
+    numeric: set[str] | None = None
+    text_cols: dict[str, str] = {}
+    corridors = None
+    if T.CORRIDORS in tables:
+        t = tables[T.CORRIDORS]
+        inputs.corridors, numeric, text_cols = _sheets.read_corridors(t, problems, inputs)
+        if "corridor_id" in t.cols:
+            corridors = inputs.corridors
+        else:
+            numeric = None
+    if T.JURISDICTIONS in tables:
+        inputs.jurisdictions = _sheets.read_jurisdictions(
+            tables[T.JURISDICTIONS], problems, inputs
+        )
+    if T.CORRIDOR_MILES in tables:
+        inputs.corridor_miles = _sheets.read_corridor_miles(
+            tables[T.CORRIDOR_MILES],
+            problems,
+            inputs,
+            corridors,
+            inputs.jurisdictions,
+        )
+    if T.ASSUMPTIONS in tables:
+        inputs.assumptions = _sheets.read_assumptions(
+            tables[T.ASSUMPTIONS], problems, inputs, warnings
+        )
+    if T.ADOPTION in tables:
+        inputs.adoption = _sheets.read_by_year(
+            tables[T.ADOPTION], problems, inputs, "electric_share"
+        )
+    if T.BUDGET in tables:
+        inputs.budget = _sheets.read_by_year(tables[T.BUDGET], problems, inputs, "capital_usd")
+    if T.SCENARIOS in tables:
+        inputs.scenarios = _sheets.read_scenarios(tables[T.SCENARIOS], problems, inputs)
+    if T.CRITERIA in tables:
+        read_criteria(
+            tables[T.CRITERIA],
+            problems,
+            inputs,
+            warnings,
+            numeric=numeric,
+            text_cols=text_cols,
+            corridor_table=tables.get(T.CORRIDORS),
+        )
+    if T.PAIRWISE in grids and T.CRITERIA in tables:
+        inputs.pairwise = read_pairwise(grids[T.PAIRWISE], problems, inputs)
+    for grid in grids.values():
+        _sheets.formula_outside(grid, problems)
+    return inputs
+
+
+__all__ = ["DEFUSED", "LIMITS", "Limits", "check_file", "read_workbook"]

@@ -1,0 +1,576 @@
+"""Type and cross-check the cells of the table sheets.
+
+The reader collects the non-blank cells of each contract sheet into a
+:class:`Grid`; the functions here resolve each table's header against
+:data:`~ranker.workbook.schema.SHEETS` (:func:`read_header`), type every cell
+(:func:`read_records`) and cross-check the sheets, adding one problem per bad
+cell to the shared :class:`~ranker.errors.Problems`. Nothing here opens files.
+The Criteria sheet and the Pairwise matrix are in :mod:`ranker.workbook.criteria`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import pandas as pd
+from openpyxl.utils import get_column_letter
+
+from ranker.assumptions import ASSUMPTIONS, Assumption, suggest
+from ranker.errors import Problems
+from ranker.workbook import schema as S
+from ranker.workbook import tables as T
+from ranker.workbook import units as U
+
+CellValueError = U.CellValueError
+
+_FORMULA_FIX = "open and save the file in a spreadsheet program, or type the value"
+
+
+@dataclass(frozen=True)
+class Cell:
+    """One non-blank cell as read: value, openpyxl data type, percent format."""
+
+    value: object
+    kind: str = "n"
+    pct: bool = False
+
+
+@dataclass
+class Grid:
+    """The non-blank cells of one sheet: header row 1 and data rows."""
+
+    sheet: str
+    header: dict[int, Cell] = field(default_factory=dict)
+    rows: dict[int, dict[int, Cell]] = field(default_factory=dict)
+    empty_results: set[tuple[int, int]] = field(default_factory=set)
+
+    @property
+    def layout_matrix(self) -> bool:
+        """True for the Pairwise matrix (every cell is data)."""
+        return S.SHEETS[self.sheet].layout == "matrix"
+
+    @property
+    def data_rows(self) -> dict[int, dict[int, Cell]]:
+        """Rows from 2 on that hold anything."""
+        return self.rows
+
+    def add(self, r: int, cells: dict[int, Cell]) -> None:
+        """Keep the non-blank cells of row ``r``."""
+        keep = {c: v for c, v in cells.items() if not U.is_blank(v.value)}
+        if not keep:
+            return
+        if r == 1:
+            self.header = keep
+        else:
+            self.rows[r] = keep
+
+    def get(self, r: int, c: int) -> Cell | None:
+        """Return the cell at row ``r``, column ``c`` or None if blank."""
+        return (self.header if r == 1 else self.rows.get(r, {})).get(c)
+
+    def mark_unsaved(self, r: int, c: int, formula: str) -> None:
+        """Record a formula cell that has no saved value."""
+        cell = Cell(formula, "f")
+        if r == 1:
+            self.header[c] = cell
+        else:
+            self.rows.setdefault(r, {})[c] = cell
+
+
+def ref(sheet: str, col: int, row: int) -> str:
+    """Return ``Sheet!D7`` for column index ``col`` and row ``row``."""
+    return f"{sheet}!{get_column_letter(col)}{row}"
+
+
+def raw(cell: Cell) -> object:
+    """Return the cell's value, refusing formulas without value and error values."""
+    if cell.kind == "f":
+        raise CellValueError(f"formula {cell.value} has no saved value", _FORMULA_FIX)
+    if cell.kind == "e":
+        raise CellValueError(
+            f"shows the spreadsheet error {cell.value}", "correct the formula or type the value"
+        )
+    return cell.value
+
+
+def parse_cell(f: S.Field, cell: Cell, *, percent: str | None = None) -> object:
+    """Parse a cell for field ``f`` (kinds text/number/int/choice/bool)."""
+    value = raw(cell)
+    if f.kind == "text":
+        return U.parse_text(value)
+    if f.kind == "bool":
+        return U.parse_bool(value)
+    if f.kind == "choice":
+        return U.parse_choice(value, f.choices)
+    if f.kind == "int":
+        x = U.parse_int(value, unit=f.unit)
+        U.check_range(x, f.low, f.high, low_open=f.low_open, unit=f.unit)
+        return x
+    x = U.parse_number(value, percent=percent or f.percent, pct_format=cell.pct, unit=f.unit)
+    U.check_range(x, f.low, f.high, low_open=f.low_open, unit=f.unit)
+    return x
+
+
+def parse_assumption(a: Assumption, cell: Cell) -> object:
+    """Type one assumption value against the registry entry ``a``."""
+    value = raw(cell)
+    if a.kind == "bool":
+        return U.parse_bool(value)
+    if a.kind == "choice":
+        return U.parse_choice(value, a.choices)
+    if a.kind == "list":
+        return U.parse_words(value, a.choices)
+    share = a.unit in ("[-]", "[1/yr]")
+    if a.kind == "int":
+        x = U.parse_int(value, unit=a.unit)
+    else:
+        x = U.parse_number(value, percent="share" if share else "reject", unit=a.unit)
+    try:
+        U.check_range(x, a.low, a.high, low_open=a.low_open, unit=a.unit)
+    except CellValueError as exc:
+        raise CellValueError(f"{exc.what} for {a.key}", exc.fix) from None
+    return x
+
+
+@dataclass
+class Table:
+    """A table sheet's header resolved against its schema."""
+
+    sheet: str
+    grid: Grid
+    cols: dict[str, int] = field(default_factory=dict)
+    letters: dict[str, str] = field(default_factory=dict)
+    factor: dict[str, float] = field(default_factory=dict)
+    extra: dict[str, int] = field(default_factory=dict)
+
+    @property
+    def rows(self) -> list[int]:
+        """Data rows in sheet order."""
+        return sorted(self.grid.rows)
+
+    def where(self, key: str, row: int) -> str:
+        """``Sheet!Cell`` of field ``key`` in ``row``."""
+        return ref(self.sheet, self.cols[key], row)
+
+    def cell(self, key: str, row: int) -> Cell | None:
+        """The cell of ``key`` in ``row`` (None when blank or no such column)."""
+        col = self.cols.get(key)
+        return None if col is None else self.grid.get(row, col)
+
+
+def read_header(grid: Grid, problems: Problems) -> Table:
+    """Match row 1 against the sheet's fields; report duplicates, twins, missing keys."""
+    sch = S.SHEETS[grid.sheet]
+    known = {f.key: f for f in sch.fields}
+    twins = {f.twin: f for f in sch.fields if f.twin}
+    t = Table(grid.sheet, grid)
+    seen: dict[str, int] = {}
+    for col, cell in sorted(grid.header.items()):
+        try:
+            key = S.normalize_key(U.parse_text(raw(cell)))
+        except CellValueError as exc:
+            problems.add(ref(grid.sheet, col, 1), f"header {exc.what}", exc.fix)
+            continue
+        if key in seen:
+            problems.add(
+                ref(grid.sheet, col, 1),
+                f"header {key} appears twice (also in {ref(grid.sheet, seen[key], 1)})",
+                "keep one of the two columns and delete or rename the other",
+            )
+            continue
+        seen[key] = col
+        letter = get_column_letter(col)
+        t.letters[key] = letter
+        canon, factor = key, 1.0
+        if key in twins:
+            canon, factor = twins[key].key, twins[key].twin_factor
+        if canon in known:
+            if canon in t.cols:
+                other = ref(grid.sheet, t.cols[canon], 1)
+                problems.add(
+                    ref(grid.sheet, col, 1),
+                    f"{key} and the header in {other} give the same field "
+                    f"({canon}) twice, once in metric and once in imperial units",
+                    "keep one of the two columns and delete the other",
+                )
+                continue
+            t.cols[canon] = col
+            t.factor[canon] = factor
+            t.letters[canon] = letter
+        else:
+            t.extra[key] = col
+    if grid.rows or sch.required:
+        for f in sch.fields:
+            if f.required and f.key not in t.cols:
+                hint = U.nearest(f.key, t.extra)
+                twin = f" (or {f.twin} {f.twin_unit})" if f.twin else ""
+                fix = f"add a column headed {f.key}{twin} in row 1"
+                if hint:
+                    fix = f"rename the header {hint} to {f.key}, or {fix}"
+                problems.add(f"{grid.sheet}!1:1", f"no column headed {f.key}", fix)
+    return t
+
+
+def read_records(t: Table, problems: Problems, *, skip: tuple[str, ...] = ()) -> list[dict]:
+    """Type every known field of every data row; blank optional fields take defaults."""
+    sch = S.SHEETS[t.sheet]
+    out = []
+    for r in t.rows:
+        rec: dict[str, object] = {"_row": r}
+        for f in sch.fields:
+            if f.key not in t.cols or f.key in skip:
+                continue
+            cell = t.cell(f.key, r)
+            if cell is None:
+                if f.required:
+                    problems.add(
+                        t.where(f.key, r),
+                        f"{f.key} is blank",
+                        f"type {_what(f)}, or clear the whole row",
+                    )
+                rec[f.key] = f.default
+                continue
+            try:
+                value = parse_cell(f, cell)
+            except CellValueError as exc:
+                problems.add(t.where(f.key, r), f"{f.key} {exc.what}", exc.fix)
+                rec[f.key] = None
+                continue
+            if isinstance(value, float) and t.factor.get(f.key, 1.0) != 1.0:
+                value = value * t.factor[f.key]
+            rec[f.key] = value
+        out.append(rec)
+    return out
+
+
+def _what(f: S.Field) -> str:
+    if f.kind == "number":
+        return f"a number {f.unit}".rstrip()
+    if f.kind == "int":
+        return "a whole number"
+    if f.kind == "choice":
+        return " or ".join(f.choices)
+    if f.kind == "bool":
+        return "yes or no"
+    return "a value"
+
+
+def unique(t: Table, recs: list[dict], key: str, problems: Problems) -> None:
+    """Report repeated values of ``key`` (case-insensitive), naming both cells."""
+    first: dict[str, int] = {}
+    for rec in recs:
+        v = rec.get(key)
+        if v is None:
+            continue
+        k = str(v).lower()
+        if k in first:
+            problems.add(
+                t.where(key, rec["_row"]),
+                f"{key} {v!r} is used twice (also in {t.where(key, first[k])})",
+                f"give each row its own {key}",
+            )
+        else:
+            first[k] = rec["_row"]
+
+
+def _frame(recs: list[dict], keys: list[str]) -> pd.DataFrame:
+    return pd.DataFrame({k: [rec.get(k) for rec in recs] for k in keys})
+
+
+def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
+    """Type the Corridors sheet; return the DataFrame and each extra column's kind."""
+    recs = read_records(t, problems)
+    unique(t, recs, "corridor_id", problems)
+    if not recs:
+        problems.add(
+            f"{t.sheet}!A2", "the sheet lists no corridors", "type one corridor per row from row 2"
+        )
+    if "connects" in t.cols:
+        for rec in recs:
+            text = rec.get("connects")
+            if text:
+                try:
+                    S.split_connects(text)
+                except ValueError as exc:
+                    problems.add(
+                        t.where("connects", rec["_row"]),
+                        f"connects {U.show(text)} does not name two places",
+                        str(exc),
+                    )
+    # A column the schema does not know is numeric when every filled cell is a number.
+    text_cols: dict[str, str] = {}
+    extra_values: dict[str, list] = {}
+    for key, col in t.extra.items():
+        vals, bad = [], None
+        for rec in recs:
+            cell = t.grid.get(rec["_row"], col)
+            if cell is None:
+                vals.append(float("nan"))
+                continue
+            try:
+                vals.append(U.parse_number(raw(cell), percent="share", pct_format=cell.pct))
+            except CellValueError as exc:
+                bad = bad or (ref(t.sheet, col, rec["_row"]), exc)
+                vals.append(None)
+        if bad is None:
+            extra_values[key] = vals
+        else:
+            text_cols[key] = bad[0] + ": " + bad[1].what
+            extra_values[key] = [
+                None
+                if (c := t.grid.get(rec["_row"], col)) is None or c.kind in "fe"
+                else U.parse_text(c.value)
+                for rec in recs
+            ]
+    keys = ["name"] + (["connects"] if "connects" in t.cols else [])
+    keys += [f.key for f in S.CORRIDOR_FIELDS[3:] if f.key in t.cols]
+    df = _frame(recs, ["corridor_id"] + keys)
+    for k in keys[1:]:
+        if k != "connects":
+            df[k] = pd.to_numeric(df[k], errors="coerce").astype(float)
+    for key, vals in extra_values.items():
+        if key in text_cols:
+            df[key] = pd.Series(vals, dtype=object)
+        else:
+            df[key] = pd.Series(vals, dtype=float)
+    df = df.set_index("corridor_id")
+    df.index = df.index.astype(object)
+    df.index.name = "corridor_id"
+    inputs.rows[T.CORRIDORS] = {
+        rec["corridor_id"]: rec["_row"] for rec in recs if rec.get("corridor_id") is not None
+    }
+    numeric = {k for k in keys if k not in ("name", "connects")}
+    numeric |= {k for k in extra_values if k not in text_cols}
+    return df, numeric, text_cols
+
+
+def read_jurisdictions(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+    """Type the Jurisdictions sheet (None when it has no rows)."""
+    recs = read_records(t, problems)
+    unique(t, recs, "jurisdiction", problems)
+    if not recs:
+        return None
+    for rec in recs:
+        if rec.get("name") is None:
+            rec["name"] = rec.get("jurisdiction")
+    df = _frame(recs, ["jurisdiction", "name", "readiness"]).set_index("jurisdiction")
+    df.index = df.index.astype(object)
+    df["readiness"] = pd.to_numeric(df["readiness"], errors="coerce").astype(float)
+    inputs.rows[T.JURISDICTIONS] = {
+        rec["jurisdiction"]: rec["_row"] for rec in recs if rec.get("jurisdiction") is not None
+    }
+    return df
+
+
+def read_corridor_miles(t, problems, inputs, corridors, jurisdictions) -> pd.DataFrame | None:
+    """Type Corridor miles; every corridor and jurisdiction must be listed elsewhere."""
+    recs = read_records(t, problems)
+    if not recs:
+        return None
+    ids = {str(i).lower(): i for i in corridors.index} if corridors is not None else {}
+    codes = {str(j).lower(): j for j in jurisdictions.index} if jurisdictions is not None else {}
+    seen: dict[tuple, int] = {}
+    for rec in recs:
+        r = rec["_row"]
+        cid, code = rec.get("corridor_id"), rec.get("jurisdiction")
+        if cid is not None and corridors is not None:
+            if cid.lower() in ids:
+                rec["corridor_id"] = ids[cid.lower()]
+            else:
+                hint = U.nearest(cid, [str(i) for i in corridors.index])
+                problems.add(
+                    t.where("corridor_id", r),
+                    f"corridor_id {cid!r} is not on the Corridors sheet",
+                    (f"did you mean {hint}? " if hint else "")
+                    + "use a corridor_id from the Corridors sheet",
+                )
+        if code is not None:
+            if code.lower() in codes:
+                rec["jurisdiction"] = codes[code.lower()]
+            elif jurisdictions is None:
+                problems.add(
+                    t.where("jurisdiction", r),
+                    f"jurisdiction {code!r} cannot be checked: the Jurisdictions sheet lists none",
+                    "list every jurisdiction on the Jurisdictions sheet",
+                )
+            else:
+                hint = U.nearest(code, [str(j) for j in jurisdictions.index], cutoff=0.5)
+                problems.add(
+                    t.where("jurisdiction", r),
+                    f"jurisdiction {code!r} is not on the Jurisdictions sheet",
+                    (f"did you mean {hint}? " if hint else "")
+                    + "add it to Jurisdictions or correct the code",
+                )
+        pair = (str(rec.get("corridor_id")).lower(), str(rec.get("jurisdiction")).lower())
+        if cid is not None and code is not None:
+            if pair in seen:
+                problems.add(
+                    t.where("corridor_id", r),
+                    f"corridor {cid} in {code} is listed twice (also row {seen[pair]})",
+                    "give one row per corridor and jurisdiction with the miles added up",
+                )
+            else:
+                seen[pair] = r
+    df = _frame(recs, ["corridor_id", "jurisdiction", "miles"])
+    df["miles"] = pd.to_numeric(df["miles"], errors="coerce").astype(float)
+    inputs.rows[T.CORRIDOR_MILES] = {i: rec["_row"] for i, rec in enumerate(recs)}
+    return df
+
+
+def read_by_year(t, problems, inputs, value_key: str) -> pd.DataFrame | None:
+    """Type Adoption or Budget: unique years, sorted; rows map sorted position to row."""
+    recs = read_records(t, problems)
+    if not recs:
+        return None
+    first: dict[int, int] = {}
+    for rec in recs:
+        y = rec.get("year")
+        if y is None:
+            continue
+        if y in first:
+            problems.add(
+                t.where("year", rec["_row"]),
+                f"year {y} is listed twice (also in {t.where('year', first[y])})",
+                "give each year one row",
+            )
+        else:
+            first[y] = rec["_row"]
+    recs = sorted(recs, key=lambda rec: (rec.get("year") is None, rec.get("year") or 0))
+    keys = ["year", value_key] + (["note"] if "note" in t.cols else [])
+    df = _frame(recs, keys)
+    df[value_key] = pd.to_numeric(df[value_key], errors="coerce").astype(float)
+    if df["year"].notna().all():
+        df["year"] = df["year"].astype(int)
+    inputs.rows[t.sheet] = {i: rec["_row"] for i, rec in enumerate(recs)}
+    return df
+
+
+def _assumption_key(t: Table, r: int, problems: Problems, key_name: str) -> Assumption | None:
+    cell = t.cell(key_name, r)
+    key = S.normalize_key(U.parse_text(raw(cell)))
+    if key in ASSUMPTIONS:
+        return ASSUMPTIONS[key]
+    hint = suggest(key)
+    problems.add(
+        t.where(key_name, r),
+        f"{key!r} is not a known assumption key",
+        (f"did you mean {hint}? " if hint else "")
+        + "use a key from the Assumptions sheet of a fresh template",
+    )
+    return None
+
+
+def read_assumptions(t: Table, problems: Problems, inputs: T.Inputs, warnings: list[str]) -> dict:
+    """Type the Assumptions sheet: only rows with a value; unknown keys suggest the nearest."""
+    values: dict[str, object] = {}
+    rows: dict[str, int] = {}
+    if "key" not in t.cols or "value" not in t.cols:
+        if t.grid.rows and "value" not in t.cols and "key" in t.cols:
+            problems.add(
+                f"{t.sheet}!1:1", "no column headed value", "add a column headed value in row 1"
+            )
+        return values
+    for r in t.rows:
+        kcell, vcell = t.cell("key", r), t.cell("value", r)
+        if kcell is None:
+            if vcell is not None:
+                problems.add(
+                    t.where("key", r),
+                    "key is blank but the row has a value",
+                    "type the assumption key or clear the value",
+                )
+            continue  # a heading or remark row
+        try:
+            a = _assumption_key(t, r, problems, "key")
+        except CellValueError as exc:
+            problems.add(t.where("key", r), f"key {exc.what}", exc.fix)
+            continue
+        if a is None:
+            continue
+        if a.key in rows:
+            problems.add(
+                t.where("key", r),
+                f"{a.key} is listed twice (also in {t.where('key', rows[a.key])})",
+                "keep one of the two rows",
+            )
+            continue
+        rows[a.key] = r
+        if vcell is None:
+            continue
+        try:
+            values[a.key] = parse_assumption(a, vcell)
+        except CellValueError as exc:
+            problems.add(t.where("value", r), f"{a.key} {exc.what}", exc.fix)
+            continue
+        ucell = t.cell("unit", r)
+        if ucell is not None and ucell.kind not in "fe":
+            typed = U.parse_text(ucell.value).strip("[] ").lower()
+            if typed and typed != a.unit.strip("[]").lower():
+                warnings.append(
+                    f"{t.where('unit', r)}: unit {ucell.value!r} differs from "
+                    f"{a.unit}; {a.key} is read in {a.unit} (no conversion)"
+                )
+    inputs.rows[T.ASSUMPTIONS] = rows
+    return values
+
+
+def read_scenarios(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+    """Type the Scenarios sheet: each value typed like its assumption."""
+    recs = read_records(t, problems, skip=("value", "key"))
+    if not recs or "key" not in t.cols:
+        return None
+    seen: dict[tuple, int] = {}
+    for rec in recs:
+        r = rec["_row"]
+        rec["key"] = rec["value"] = None
+        if t.cell("key", r) is None:
+            problems.add(t.where("key", r), "key is blank", "type an assumption key")
+            continue
+        try:
+            a = _assumption_key(t, r, problems, "key")
+        except CellValueError as exc:
+            problems.add(t.where("key", r), f"key {exc.what}", exc.fix)
+            continue
+        if a is None:
+            continue
+        rec["key"] = a.key
+        pair = (str(rec.get("scenario")).lower(), a.key)
+        if rec.get("scenario") is not None and pair in seen:
+            problems.add(
+                t.where("key", r),
+                f"scenario {rec['scenario']} sets {a.key} twice (also row {seen[pair]})",
+                "keep one of the two rows",
+            )
+        seen.setdefault(pair, r)
+        vcell = t.cell("value", r) if "value" in t.cols else None
+        if vcell is None:
+            if "value" in t.cols:
+                problems.add(
+                    t.where("value", r),
+                    f"value of {a.key} is blank",
+                    "type the value this scenario uses",
+                )
+            continue
+        try:
+            rec["value"] = parse_assumption(a, vcell)
+        except CellValueError as exc:
+            problems.add(t.where("value", r), f"{a.key} {exc.what}", exc.fix)
+    df = pd.DataFrame(
+        {
+            k: pd.Series([rec.get(k) for rec in recs], dtype=object)
+            for k in ("scenario", "key", "value")
+        }
+    )
+    inputs.rows[T.SCENARIOS] = {i: rec["_row"] for i, rec in enumerate(recs)}
+    return df
+
+
+def formula_outside(grid: Grid, problems: Problems) -> None:
+    """Report formulas without a saved value that no field reported yet."""
+    named = {p.where for p in problems.items}
+    cells = [(1, grid.header)] + sorted(grid.rows.items())
+    for r, row in cells:
+        for c, cell in sorted(row.items()):
+            where = ref(grid.sheet, c, r)
+            if cell.kind == "f" and where not in named:
+                problems.add(where, f"formula {cell.value} has no saved value", _FORMULA_FIX)
