@@ -92,7 +92,7 @@ def parse_overrides(pairs: list[str]) -> dict[str, float]:
         try:
             if not sep or not key.strip():
                 raise ValueError
-            out[key.strip().lower()] = float(value.strip().rstrip("%")) / (
+            out[key.strip().lower().replace(" ", "_")] = float(value.strip().rstrip("%")) / (
                 100.0 if value.strip().endswith("%") else 1.0
             )
         except ValueError:

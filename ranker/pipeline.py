@@ -249,11 +249,13 @@ def build_matrix(inputs: Inputs, assumptions: dict, *, quiet_given: bool = False
 
 def choose_weight_set(sets: list, name: str | None):
     """Return the weight set named ``name`` (default: the first board set)."""
+    from .workbook.schema import normalize_key
+
     board = [s for s in sets if not s.reference_only]
     if name is None:
         return board[0] if board else sets[0]
     for s in sets:
-        if s.name == name:
+        if s.name == normalize_key(name):
             return s
     raise InputError.one(
         "--weights",
