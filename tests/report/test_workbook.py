@@ -1,0 +1,96 @@
+"""The results workbook keeps every input sheet as it was and opens in other programs."""
+
+from __future__ import annotations
+
+import shutil
+import subprocess
+
+import pytest
+from openpyxl import load_workbook
+from openpyxl.comments import Comment
+from openpyxl.styles import Font
+
+import ranker
+from ranker.report.workbook import safe_value
+
+
+def _planner_workbook(workbooks, tmp_path):
+    path = workbooks.make(tmp_path / "kept.xlsx")
+    wb = load_workbook(path)
+    notes = wb.create_sheet("Board notes")
+    notes["A1"] = "Meeting of the planning committee"
+    notes["B2"] = "=1+2"  # a formula on a sheet ranker does not read
+    notes["A1"].font = Font(bold=True, color="FF0000")
+    wb["Corridors"]["B2"].comment = Comment("checked with the district office", "planner")
+    wb["Corridors"]["B2"].font = Font(italic=True)
+    wb.save(path)
+    return path
+
+
+def test_input_sheets_kept_exactly(workbooks, tmp_path):
+    path = _planner_workbook(workbooks, tmp_path)
+    before = load_workbook(path)
+    result = ranker.rank_workbook(path, samples=0)
+    out = load_workbook(ranker.write_outputs(result, tmp_path)["workbook"])
+    for name in before.sheetnames:
+        a, b = before[name], out[name]
+        assert [[c.value for c in row] for row in a.iter_rows()] == [
+            [c.value for c in row] for row in b.iter_rows()
+        ], name
+    assert out["Board notes"]["B2"].value == "=1+2"
+    assert (
+        out["Board notes"]["A1"].font.bold
+        and out["Board notes"]["A1"].font.color.rgb == "00FF0000"
+    )
+    assert out["Corridors"]["B2"].comment.text == "checked with the district office"
+    assert out["Corridors"]["B2"].font.italic
+    # result sheets come after every input sheet
+    assert out.sheetnames[: len(before.sheetnames)] == before.sheetnames
+
+
+def test_rerun_of_output_replaces_result_sheets(workbooks, tmp_path):
+    path = _planner_workbook(workbooks, tmp_path)
+    first = ranker.write_outputs(ranker.rank_workbook(path, samples=0), tmp_path)["workbook"]
+    again = ranker.write_outputs(ranker.rank_workbook(first, samples=0), tmp_path)["workbook"]
+    a, b = load_workbook(first), load_workbook(again)
+    assert a.sheetnames == b.sheetnames  # nothing duplicated
+
+
+def test_safe_value_never_a_formula():
+    assert safe_value(float("nan")) is None
+    assert safe_value(True) == "yes"
+    assert safe_value("=SUM(A1)") == "=SUM(A1)"
+
+
+SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(
+    SOFFICE is None, reason="LibreOffice (Debian's libreoffice-calc) is not installed"
+)
+def test_libreoffice_opens_results_workbook(workbooks, tmp_path):
+    """LibreOffice headless converts the results workbook; every sheet survives."""
+    path = _planner_workbook(workbooks, tmp_path)
+    xlsx = ranker.write_outputs(ranker.rank_workbook(path, samples=200), tmp_path)["workbook"]
+    out = tmp_path / "lo"
+    run = subprocess.run(
+        [
+            SOFFICE,
+            "--headless",
+            f"-env:UserInstallation=file://{tmp_path}/lo-profile",
+            "--convert-to",
+            "xlsx",
+            "--outdir",
+            str(out),
+            xlsx,
+        ],
+        capture_output=True,
+        text=True,
+        timeout=240,
+    )
+    assert run.returncode == 0, run.stderr
+    converted = load_workbook(out / "kept-ranked.xlsx")
+    original = load_workbook(xlsx)
+    visible = [n for n in original.sheetnames if original[n].sheet_state == "visible"]
+    assert [n for n in converted.sheetnames if n in visible] == visible
