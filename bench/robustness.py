@@ -1,0 +1,247 @@
+"""Speed and memory of the robustness stage against scikit-criteria, in one process.
+
+What is compared (same matrices, same weights, TOPSIS on vector-normalised
+values in both):
+
+1. Rank-reversal checks at 50 corridors (and 200 with ``--with-200``):
+   scikit-criteria's RankInvariantChecker, RankTransitivityChecker and
+   RankClonesChecker on ``mkpipe(VectorScaler(target="matrix"), TOPSIS())``
+   against ``ranker.stress.reversal``. Test 1 is fed scikit-criteria's own
+   random mutations so that the verdicts can be compared one by one.
+2. Monte Carlo: the same Dirichlet weight samples at 50 corridors scored one
+   by one through the scikit-criteria pipeline against the vectorised
+   ``rank_acceptability``; the acceptability matrices must be identical.
+   scikit-criteria runs once (it takes seconds); ours, best of three.
+3. The full ``stress_test`` at 1,000 corridors x 8 criteria x 10,000
+   samples (value uncertainty on two criteria, three weight sets): time and
+   peak memory (tracemalloc peak of Python allocations, numpy's included,
+   and the process's maximum resident set size).
+
+Run from the repository root::
+
+    PYTHONPATH=. /work/venv/bin/python bench/robustness.py [--with-200] [--mc-samples N]
+"""
+
+from __future__ import annotations
+
+import argparse
+import resource
+import sys
+import time
+import tracemalloc
+import warnings
+
+import numpy as np
+import pandas as pd
+
+from ranker.score.ranks import rank_scores
+from ranker.score.topsis import topsis
+from ranker.stress import stress_test
+from ranker.stress.acceptability import rank_acceptability, weights_dirichlet
+from ranker.stress.batch import Scorer
+from ranker.stress.reversal import clone, leave_one_out, pairwise, replace_worse
+from ranker.stress.words import Namer
+
+warnings.simplefilter("ignore")  # scikit-criteria warns on every TOPSIS with a cost criterion
+
+import skcriteria as skc  # noqa: E402
+from skcriteria.agg.topsis import TOPSIS  # noqa: E402
+from skcriteria.pipelines import mkpipe  # noqa: E402
+from skcriteria.preprocessing.scalers import VectorScaler  # noqa: E402
+from skcriteria.ranksrev import (  # noqa: E402
+    RankClonesChecker,
+    RankInvariantChecker,
+    RankTransitivityChecker,
+)
+
+K = 8
+BENEFIT = np.array([True, False] * (K // 2))
+WEIGHTS = np.array([0.2, 0.15, 0.15, 0.1, 0.1, 0.1, 0.1, 0.1])
+
+
+def matrix(n: int, seed: int = 2026) -> np.ndarray:
+    """An invented n x 8 criteria matrix (no two corridors alike)."""
+    return np.random.default_rng(seed).uniform(1.0, 100.0, size=(n, K))
+
+
+def dm_of(x, w, ids):
+    return skc.mkdm(x, [max if b else min for b in BENEFIT], weights=list(w), alternatives=ids)
+
+
+def timed(fn, *args, **kw):
+    t = time.perf_counter()
+    out = fn(*args, **kw)
+    return out, time.perf_counter() - t
+
+
+def best_of(runs, fn, *args, **kw):
+    """Fastest of ``runs`` calls (ours are short, so a busy machine skews one run)."""
+    results = [timed(fn, *args, **kw) for _ in range(runs)]
+    return results[0][0], min(t for _, t in results)
+
+
+def bench_checkers(n: int) -> None:
+    x = matrix(n)
+    ids = [f"C{i}" for i in range(n)]
+    pipe = mkpipe(VectorScaler(target="matrix"), TOPSIS())
+    dm = dm_of(x, WEIGHTS, ids)
+    sc, namer = Scorer(topsis, BENEFIT), Namer()
+    print(f"\n== rank-reversal checks, {n} corridors x {K} criteria ==")
+    inv, t_inv = timed(RankInvariantChecker(pipe, random_state=1).evaluate, dm)
+    trans, t_trans = timed(RankTransitivityChecker(pipe, n_jobs=1).evaluate, dm)
+    clones, t_clone = timed(RankClonesChecker(pipe).evaluate, dm)
+
+    reference = inv.named_ranks["Reference"].to_series()
+    best = reference.idxmin()
+    mutations = {}
+    skc_first_kept = {}
+    for name, rank in inv.named_ranks.items():
+        if name != "Reference":
+            info = rank.extra_.rank_inv_check
+            j = ids.index(info.mutated)
+            mutations[j] = x[j] + info.noise.to_numpy()
+            skc_first_kept[j] = bool(rank.to_series()[best] == 1)
+
+    def ours_test1():
+        chk = replace_worse(sc, x, WEIGHTS, ids, namer, replacements=mutations)
+        return {j: ids[j] not in chk.first_lost for j in mutations}
+
+    ours_first_kept, t_o1 = best_of(3, ours_test1)
+    (t2, t3), t_o23 = best_of(3, pairwise, sc, x, WEIGHTS, ids, namer)
+    cl, t_ocl = best_of(3, clone, sc, x, WEIGHTS, ids, namer)
+    default_rule, t_o1d = best_of(3, replace_worse, sc, x, WEIGHTS, ids, namer)
+    loo, t_loo = best_of(3, leave_one_out, sc, x, WEIGHTS, ids, namer)
+
+    changed = set(cl.changed)
+    clone_same = []
+    for name, rank in clones.named_ranks.items():
+        if name == "Reference":
+            continue
+        s = rank.to_series()[ids].to_numpy()
+        held = np.array_equal(rank_scores(-s), rank_scores(-reference[ids].to_numpy()))
+        clone_same.append(held == (name.removeprefix("D.") not in changed))
+
+    rows = [
+        ("test 1 (scikit-criteria's mutations)", t_inv, t_o1, ours_first_kept == skc_first_kept),
+        (
+            "tests 2 and 3 (pairwise)",
+            t_trans,
+            t_o23,
+            (t2.passed, t3.passed)
+            == (bool(trans.extra_.test_criterion_2), bool(trans.extra_.test_criterion_3)),
+        ),
+        ("clones", t_clone, t_ocl, all(clone_same)),
+    ]
+    print(f"{'check':40s} {'scikit-criteria':>16s} {'ranker':>10s} {'ratio':>8s}  verdicts")
+    for name, a, b, same in rows:
+        print(f"{name:40s} {a:14.3f} s {b:8.4f} s {a / b:7.0f}x  {'same' if same else 'DIFFER'}")
+    total_skc, total_ours = t_inv + t_trans + t_clone, t_o1 + t_o23 + t_ocl
+    print(
+        f"{'all three':40s} {total_skc:14.3f} s {total_ours:8.4f} s {total_skc / total_ours:7.0f}x"
+    )
+    print(
+        f"verdicts: test 2 {'met' if t2.passed else 'fails'}, test 3 "
+        f"{'met' if t3.passed else 'fails'}; scikit-criteria OPR {inv.extra_.opr:.2f}"
+    )
+    print(
+        f"ours only: test 1 by the 5%-of-range rule {t_o1d:.4f} s "
+        f"({'met' if default_rule.passed else 'fails'}), leave-one-out {t_loo:.4f} s "
+        f"({loo.count} swaps)"
+    )
+
+
+def bench_monte_carlo(samples: int) -> None:
+    n = 50
+    x = matrix(n)
+    ids = [f"C{i}" for i in range(n)]
+    w = weights_dirichlet(WEIGHTS, samples, rng=np.random.default_rng(7), concentration=50.0)
+    print(f"\n== Monte Carlo rank acceptability, {n} corridors, {samples:,} weight samples ==")
+    pipe = mkpipe(VectorScaler(target="matrix"), TOPSIS())
+
+    def one_by_one():
+        counts = np.zeros((n, n))
+        for wi in w:
+            r = pipe.evaluate(dm_of(x, wi, ids)).rank_
+            counts[np.arange(n), r - 1] += 1
+        return counts / samples
+
+    ref, t_ref = timed(one_by_one)
+    ours, t_ours = best_of(3, rank_acceptability, Scorer(topsis, BENEFIT), x, w)
+    diff = float(np.abs(ours.acceptability - ref).max())
+    verdict = "identical" if np.array_equal(ours.acceptability, ref) else f"DIFFER by {diff:.3g}"
+    print(f"scikit-criteria pipeline one by one {t_ref:9.3f} s")
+    print(
+        f"ranker vectorised                   {t_ours:9.4f} s   ratio {t_ref / t_ours:.0f}x; "
+        f"acceptabilities {verdict}"
+    )
+
+
+def bench_full() -> None:
+    n, samples = 1000, 10_000
+    x = matrix(n, seed=99)
+    keys = [f"k{j}" for j in range(K)]
+    m = pd.DataFrame(
+        x, columns=keys, index=pd.Index([f"C{i}" for i in range(n)], name="corridor_id")
+    )
+    w = dict(zip(keys, WEIGHTS, strict=True))
+    b = dict(zip(keys, BENEFIT.tolist(), strict=True))
+    sets = {
+        "default": w,
+        "equal": {k: 1.0 for k in keys},
+        "grid first": {k: (4.0 if i == 2 else 1.0) for i, k in enumerate(keys)},
+    }
+    print(f"\n== full stress_test, {n} corridors x {K} criteria x {samples:,} samples ==")
+    tracemalloc.start()
+    r, t = timed(
+        stress_test,
+        m,
+        w,
+        b,
+        kernel=topsis,
+        samples=samples,
+        uncertainty_pct={"k0": 10.0, "k3": 20.0},
+        weight_sets=sets,
+    )
+    peak = tracemalloc.get_traced_memory()[1]
+    tracemalloc.stop()
+    rss = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024  # Linux: KiB
+    print(
+        f"time {t:.1f} s; peak traced memory {peak / 2**20:.0f} MiB; "
+        f"max resident set size of this process so far {rss / 2**20:.0f} MiB "
+        f"({'under' if peak < 2**30 else 'OVER'} 1 GiB)"
+    )
+    print(
+        f"tipping points {len(r.tipping_points):,}; rank reversal "
+        + ", ".join(f"{c['check']} {'met' if c['passed'] else 'fails'}" for c in r.rank_reversal)
+    )
+
+
+def main(argv=None) -> int:
+    p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    p.add_argument(
+        "--with-200",
+        action="store_true",
+        help="also run scikit-criteria's checkers at 200 corridors (minutes)",
+    )
+    p.add_argument("--mc-samples", type=int, default=10_000)
+    p.add_argument("--skip-full", action="store_true")
+    args = p.parse_args(argv)
+    print(
+        "reproduce: PYTHONPATH=. /work/venv/bin/python bench/robustness.py"
+        + (" --with-200" if args.with_200 else "")
+        + (f" --mc-samples {args.mc_samples}" if args.mc_samples != 10_000 else "")
+    )
+    print(
+        f"python {sys.version.split()[0]}, numpy {np.__version__}, scikit-criteria {skc.VERSION}"
+    )
+    bench_checkers(50)
+    if args.with_200:
+        bench_checkers(200)
+    bench_monte_carlo(args.mc_samples)
+    if not args.skip_full:
+        bench_full()
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())

@@ -1,0 +1,507 @@
+"""Stress-test a corridor ranking: how robust is the order, and why?
+
+One entry point, :func:`stress_test`, runs every analysis on the criteria
+matrix with a method kernel passed in (so any scoring method can be
+stressed), and :func:`futures` re-ranks under alternative assumptions
+through a callback. The modules hold the pure analyses:
+
+* :mod:`.acceptability` -- SMAA-2 rank acceptability, central weights,
+  confidence factors (Lahdelma & Salminen 2001).
+* :mod:`.reversal` -- rank-reversal checks (Wang & Triantaphyllou 2008
+  tests 1-3, clones, leave-one-out).
+* :mod:`.tipping` -- weight tipping points and rank intervals.
+* :mod:`.consensus` -- stakeholder weight sets, Borda and Copeland.
+* :mod:`.closeness` -- gaps between neighbours, "practically tied".
+* :mod:`.scenarios` -- futures.
+* :mod:`.batch` -- batch ranking by sorting and the kernel wrapper.
+
+The rules each analysis follows are in its module docstring and in
+``docs/robustness.md``.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from ranker.errors import InputError, Problems
+
+from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
+from .batch import Scorer, rank_batch
+from .closeness import COLUMNS as CLOSENESS_COLUMNS
+from .closeness import adjacent_pairs, closeness_table
+from .consensus import compare_weight_sets, consensus_json
+from .reversal import all_checks
+from .scenarios import futures
+from .tipping import INTERVAL_COLUMNS, sweep_criterion, tipping_records
+from .words import Namer, listing
+
+__all__ = ["Robustness", "futures", "stress_test"]
+
+#: Progress units besides the Monte Carlo samples: one per other analysis.
+_STAGES = 4
+
+
+def _plain(value):
+    """Make a value JSON-ready: numpy scalars to Python, NaN to None."""
+    if isinstance(value, dict):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if isinstance(value, list | tuple):
+        return [_plain(v) for v in value]
+    if isinstance(value, np.generic):
+        value = value.item()
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
+    return value
+
+
+@dataclass
+class Robustness:
+    """Everything the stress tests found, ready for the reports.
+
+    Attributes
+    ----------
+    samples : int
+        Monte Carlo samples drawn (0 = off) [-].
+    seed : int
+        Seed of the random streams [-].
+    acceptability : DataFrame
+        Index ``corridor_id``, columns ``rank 1`` .. ``rank n``: share of
+        samples in which the corridor took that rank [-]; rows and columns
+        sum to 1. Empty when Monte Carlo is off.
+    first_rank : Series
+        First-rank acceptability ``b_i^1`` [-].
+    central_weights : DataFrame
+        Corridor x criterion: mean weights of the samples in which the
+        corridor ranked first [-]; NaN where it never did.
+    confidence : Series
+        Share of value draws in which the corridor ranks first under its
+        central weights [-]; NaN where it never ranked first.
+    rank_reversal : list of dict
+        ``{"check", "passed", "details", "sentence", "count"}`` per check.
+    tipping_points : list of dict
+        ``{"criterion", "current_weight", "kind", "corridor_id", "other_id",
+        "weight_at", "direction", "sentence", ...}`` per crossing.
+    rank_intervals : DataFrame
+        One row per criterion and corridor: the weight interval over which
+        its rank holds (columns :data:`ranker.stress.tipping.INTERVAL_COLUMNS`).
+    stakeholders : dict or None
+        Ranks per weight set, disagreements, consensus order (Borda primary,
+        Copeland beside it); None without weight sets.
+    closeness : DataFrame
+        Adjacent pairs: gap [-], practically_tied, reason, ...
+    warnings : list of str
+        Doubtful-but-legal input and notes the reader needs.
+    """
+
+    samples: int
+    seed: int
+    acceptability: pd.DataFrame
+    first_rank: pd.Series
+    central_weights: pd.DataFrame
+    confidence: pd.Series
+    rank_reversal: list[dict]
+    tipping_points: list[dict]
+    rank_intervals: pd.DataFrame
+    stakeholders: dict | None
+    closeness: pd.DataFrame
+    warnings: list[str] = field(default_factory=list)
+
+    def to_json(self) -> dict:
+        """Return a JSON-ready summary (plain types; NaN as null)."""
+
+        def records(frame):
+            return [_plain(r) for r in frame.to_dict(orient="records")]
+
+        return _plain(
+            {
+                "samples": int(self.samples),
+                "seed": int(self.seed),
+                "rank_reversal": self.rank_reversal,
+                "tipping_points": self.tipping_points,
+                "acceptability": {
+                    str(i): [float(v) for v in row] for i, row in self.acceptability.iterrows()
+                },
+                "first_rank": {str(k): float(v) for k, v in self.first_rank.items()},
+                "central_weights": {
+                    str(i): {str(c): float(v) for c, v in row.items()}
+                    for i, row in self.central_weights.iterrows()
+                },
+                "confidence": {str(k): float(v) for k, v in self.confidence.items()},
+                "rank_intervals": records(self.rank_intervals),
+                "stakeholders": self.stakeholders,
+                "closeness": records(self.closeness),
+                "warnings": list(self.warnings),
+            }
+        )
+
+
+def _vector(mapping, keys, what, where, problems, *, allow_missing=False):
+    """Read {criterion: number} into an array in column order, noting problems."""
+    out = np.zeros(len(keys))
+    for i, key in enumerate(keys):
+        if key not in mapping:
+            if not allow_missing:
+                problems.add(
+                    where, f"no {what} for criterion '{key}'", f"give criterion '{key}' a {what}"
+                )
+            continue
+        try:
+            value = float(mapping[key])
+        except (TypeError, ValueError):
+            problems.add(
+                where, f"{what} of '{key}' is {mapping[key]!r}, not a number", "type a number"
+            )
+            continue
+        if not math.isfinite(value) or value < 0:
+            problems.add(where, f"{what} of '{key}' is {value}", f"use a {what} of zero or more")
+            continue
+        out[i] = value
+    return out
+
+
+def _validate(
+    matrix,
+    weights,
+    is_benefit,
+    samples,
+    seed,
+    sampling,
+    concentration,
+    uncertainty_pct,
+    weight_sets,
+):
+    problems = Problems()
+    if not isinstance(matrix, pd.DataFrame) or matrix.shape[0] == 0 or matrix.shape[1] == 0:
+        raise InputError.one(
+            "Corridors",
+            "no corridors or no criteria to stress-test",
+            "list at least one corridor and include at least one criterion",
+        )
+    keys = [str(c) for c in matrix.columns]
+    ids = [str(i) for i in matrix.index]
+    dup = sorted({i for i in ids if ids.count(i) > 1})
+    if dup:
+        problems.add(
+            "Corridors",
+            f"corridor_id {listing(dup)} appears more than once",
+            "give every corridor its own corridor_id",
+        )
+    values = matrix.apply(pd.to_numeric, errors="coerce").to_numpy(dtype=float)
+    bad = ~np.isfinite(values)
+    for r, c in zip(*np.nonzero(bad), strict=True):
+        problems.add(
+            "Corridors",
+            f"corridor {ids[r]} has no usable value for '{keys[c]}' ({matrix.iat[r, c]!r})",
+            "type a number in that cell",
+        )
+        if len(problems.items) > 20:
+            break
+    w = _vector(weights, keys, "weight", "Criteria", problems)
+    missing_dir = [k for k in keys if k not in is_benefit]
+    if missing_dir:
+        problems.add(
+            "Criteria",
+            f"no direction for {listing(missing_dir)}",
+            "set direction to benefit or cost",
+        )
+    if not isinstance(samples, int | np.integer) or samples < 0:
+        problems.add("--samples", f"samples is {samples!r}", "use a whole number, 0 or more")
+    if not isinstance(seed, int | np.integer) or seed < 0:
+        problems.add("--seed", f"seed is {seed!r}", "use a whole number, 0 or more")
+    if sampling not in WEIGHT_SAMPLERS:
+        problems.add(
+            "Assumptions",
+            f"weight_sampling is {sampling!r}",
+            f"use one of {listing(sorted(WEIGHT_SAMPLERS))}",
+        )
+    if not (
+        isinstance(concentration, int | float)
+        and math.isfinite(concentration)
+        and concentration > 0
+    ):
+        problems.add(
+            "Assumptions",
+            f"weight_concentration is {concentration!r}",
+            "use a number above 0 (50 is the default)",
+        )
+    spread = (
+        _vector(
+            uncertainty_pct or {},
+            keys,
+            "uncertainty_pct",
+            "Criteria",
+            problems,
+            allow_missing=True,
+        )
+        / 100.0
+    )
+    sets = {}
+    for name, ws in (weight_sets or {}).items():
+        v = _vector(ws, keys, f"weight (set '{name}')", "Criteria", problems, allow_missing=True)
+        if v.sum() <= 0:
+            problems.add(
+                "Criteria",
+                f"weight set '{name}' has no positive weight",
+                "give at least one criterion a weight above 0",
+            )
+        else:
+            sets[str(name)] = v / v.sum()
+    if not problems and w.sum() <= 0:
+        problems.add("Criteria", "every weight is zero", "give at least one criterion a weight")
+    problems.raise_if_any()
+    benefit = np.array([bool(is_benefit[k]) for k in keys])
+    return ids, keys, values, w, benefit, spread, sets
+
+
+def _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer):
+    warns = []
+    n, k = x.shape
+    if n == 1:
+        warns.append("Only one corridor: there is nothing to compare it with.")
+    elif n == 2:
+        warns.append(
+            "Only two corridors: transitivity (test 2) cannot fail and removing one "
+            "leaves nothing to reorder."
+        )
+    if k == 1:
+        warns.append(
+            f"Only one criterion ({namer.criterion(keys[0])}): weights cannot change "
+            "the order, so there are no weight tipping points."
+        )
+    for c in range(k):
+        if n > 1 and np.all(x[:, c] == x[0, c]):
+            warns.append(
+                f"Criterion {namer.criterion(keys[c])} has the same value for every "
+                "corridor: it cannot separate them, and its weight only dilutes the "
+                "others."
+            )
+    groups: dict[bytes, list[int]] = {}
+    for i in range(n):
+        groups.setdefault(x[i].tobytes(), []).append(i)
+    identical = set()
+    for members in groups.values():
+        if len(members) > 1:
+            text = (
+                f"{listing([namer.corridor(ids[i]) for i in members])} have identical "
+                "values on every criterion: they always tie."
+            )
+            warns.append(text[0].upper() + text[1:])
+            identical.update(frozenset((a, b)) for a in members for b in members if a < b)
+    better = np.where(scorer.is_benefit, 1.0, -1.0)
+    y = x * better
+    for i in range(n):
+        others = np.delete(np.arange(n), i)
+        if n > 1 and np.all(y[i] >= y[others]) and np.all((y[i] > y[others]).any(axis=1)):
+            warns.append(
+                f"{namer.corridor(ids[i], start=True)} is at least as good as every "
+                "other corridor on every criterion: it dominates them, and sound "
+                "methods rank it first under any weights."
+            )
+    if sampling == "dirichlet" and np.any(w == 0) and k > 1:
+        zero = [namer.criterion(keys[c]) for c in np.nonzero(w == 0)[0]]
+        warns.append(
+            f"Weight 0 on {listing(zero)}: Dirichlet sampling keeps it at 0; use "
+            "uniform sampling to explore it."
+        )
+    if np.any(spread >= 1.0):
+        warns.append(
+            "An uncertainty_pct of 100 or more lets values change sign in the Monte Carlo samples."
+        )
+    return warns, identical
+
+
+def stress_test(
+    matrix: pd.DataFrame,
+    weights: dict[str, float],
+    is_benefit: dict[str, bool],
+    *,
+    kernel: Callable[..., np.ndarray],
+    higher_is_better: bool = True,
+    kernel_options: dict | None = None,
+    samples: int = 10000,
+    seed: int = 20261201,
+    sampling: str = "dirichlet",
+    concentration: float = 50.0,
+    uncertainty_pct: dict[str, float] | None = None,
+    weight_sets: dict[str, dict[str, float]] | None = None,
+    labels: dict[str, str] | None = None,
+    names: dict[str, str] | None = None,
+    progress: Callable[[int, int], None] | None = None,
+) -> Robustness:
+    """Run every robustness analysis on one ranking.
+
+    Parameters
+    ----------
+    matrix : DataFrame
+        Index ``corridor_id``, one column per criterion, in the criteria's
+        own units.
+    weights : dict of str to float
+        Criterion to weight [-]; renormalised to sum to 1.
+    is_benefit : dict of str to bool
+        Criterion to True where more is better.
+    kernel : callable
+        ``kernel(matrix, weights, is_benefit, **kernel_options) -> scores``
+        with matrix (n, k), weights (k,) or (s, k), scores (n,) or (s, n)
+        [-] (for example :func:`ranker.score.topsis.topsis`).
+    higher_is_better : bool
+        False for a score where lower is better (VIKOR's Q).
+    kernel_options : dict, optional
+        Keyword options for the kernel (``{"normalization": "vector"}``).
+    samples : int
+        Monte Carlo samples [-]; 0 turns Monte Carlo off.
+    seed : int
+        Seed of the random streams [-]; the same seed gives the same result.
+    sampling : str
+        ``dirichlet`` (around the chosen weights) or ``uniform`` (simplex).
+    concentration : float
+        Dirichlet concentration per criterion, > 0 [-].
+    uncertainty_pct : dict of str to float, optional
+        Criterion to +- spread of its values in the samples [%].
+    weight_sets : dict of str to dict, optional
+        Stakeholder weight sets to compare, name to {criterion: weight} [-].
+    labels, names : dict of str to str, optional
+        Criterion labels and corridor names for the sentences.
+    progress : callable, optional
+        ``progress(done, total)``: units are Monte Carlo samples plus one
+        per other analysis.
+
+    Returns
+    -------
+    Robustness
+
+    Raises
+    ------
+    ranker.errors.InputError
+        For a missing or negative weight, a non-numeric value, an unknown
+        sampling, a bad concentration or a negative uncertainty, naming the
+        sheet.
+
+    References
+    ----------
+    .. [1] R. Lahdelma and P. Salminen, "SMAA-2: Stochastic multicriteria
+       acceptability analysis for group decision making", Operations
+       Research 49(3):444-454, 2001.
+    .. [2] X. Wang and E. Triantaphyllou, "Ranking irregularities when
+       evaluating alternatives by using some ELECTRE methods", Omega
+       36(1):45-63, 2008.
+
+    Examples
+    --------
+    >>> from ranker.score.topsis import topsis
+    >>> m = pd.DataFrame({"cost": [3.0, 2.0, 4.0], "trucks": [10.0, 6.0, 12.0]},
+    ...                  index=pd.Index(["A", "B", "C"], name="corridor_id"))
+    >>> r = stress_test(m, {"cost": 0.5, "trucks": 0.5}, {"cost": False, "trucks": True},
+    ...                 kernel=topsis, samples=500)
+    >>> r.acceptability.shape, round(float(r.acceptability.to_numpy().sum()), 6)
+    ((3, 3), 3.0)
+    """
+    ids, keys, x, w, benefit, spread, sets = _validate(
+        matrix,
+        weights,
+        is_benefit,
+        samples,
+        seed,
+        sampling,
+        concentration,
+        uncertainty_pct,
+        weight_sets,
+    )
+    samples = int(samples)
+    namer = Namer(names, labels)
+    scorer = Scorer(kernel, benefit, higher_is_better, dict(kernel_options or {}))
+    warns = []
+    if abs(w.sum() - 1.0) > 1e-9:
+        warns.append(f"The weights summed to {w.sum():.6g}; they were rescaled to sum to 1.")
+    w = w / w.sum()
+    input_warns, identical = _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer)
+    warns.extend(input_warns)
+    n, k = x.shape
+    total = samples + _STAGES
+    done = 0
+
+    def tick(units=1):
+        nonlocal done
+        done += units
+        if progress is not None:
+            progress(min(done, total), total)
+
+    g0 = scorer.weights(x, w)[0]
+    if not np.all(np.isfinite(g0)):
+        bad = [ids[i] for i in np.nonzero(~np.isfinite(g0))[0][:5]]
+        raise ValueError(f"the scoring kernel returned no finite score for {listing(bad)}")
+    r0 = rank_batch(g0)
+    pairs = adjacent_pairs(g0)
+    ss_w, ss_v, ss_c = np.random.SeedSequence(seed).spawn(3)
+    index = pd.Index(ids, name="corridor_id")
+    if samples:
+        draws = WEIGHT_SAMPLERS[sampling](
+            w, samples, rng=np.random.default_rng(ss_w), concentration=float(concentration)
+        )
+        acc = rank_acceptability(
+            scorer,
+            x,
+            draws,
+            spread=spread,
+            rng_values=np.random.default_rng(ss_v),
+            rng_confidence=np.random.default_rng(ss_c),
+            pairs=pairs,
+            progress=(lambda d, t: progress(d, total)) if progress else None,
+        )
+        done = samples
+        warns.extend(acc.notes)
+        acceptability = pd.DataFrame(
+            acc.acceptability, index=index, columns=[f"rank {r}" for r in range(1, n + 1)]
+        )
+        first = pd.Series(acc.first_rank, index=index, name="first_rank")
+        central = pd.DataFrame(acc.central_weights, index=index, columns=keys)
+        confidence = pd.Series(acc.confidence, index=index, name="confidence")
+        closeness_mc = {
+            "swap_share": acc.pair_swap_share,
+            "gap_low": acc.pair_diff_low,
+            "gap_high": acc.pair_diff_high,
+        }
+    else:
+        warns.append(
+            "Monte Carlo is off (samples = 0): no rank acceptability, central weights "
+            "or confidence factors; 'practically tied' uses the 1% gap rule."
+        )
+        acceptability = pd.DataFrame(index=index, columns=[], dtype=float)
+        first = pd.Series(np.nan, index=index, name="first_rank")
+        central = pd.DataFrame(np.nan, index=index, columns=keys)
+        confidence = pd.Series(np.nan, index=index, name="confidence")
+        closeness_mc = {}
+    checks = all_checks(scorer, x, w, ids, names, labels)
+    tick()
+    sweeps = [sweep_criterion(scorer, x, w, c) for c in range(k)] if k > 1 else []
+    records, rows = tipping_records(sweeps, ids, keys, namer)
+    intervals = pd.DataFrame(rows, columns=INTERVAL_COLUMNS)
+    tick()
+    stakeholders = None
+    if weight_sets:
+        stakeholders = consensus_json(compare_weight_sets(scorer, x, sets), ids, namer)
+    tick()
+    closeness = (
+        closeness_table(g0, r0, pairs, ids, namer, identical=identical, **closeness_mc)
+        if n > 1
+        else pd.DataFrame(columns=CLOSENESS_COLUMNS)
+    )
+    tick()
+    return Robustness(
+        samples=samples,
+        seed=int(seed),
+        acceptability=acceptability,
+        first_rank=first,
+        central_weights=central,
+        confidence=confidence,
+        rank_reversal=[c.to_json() for c in checks],
+        tipping_points=records,
+        rank_intervals=intervals,
+        stakeholders=stakeholders,
+        closeness=closeness,
+        warnings=warns,
+    )

@@ -1,0 +1,504 @@
+"""Rank-reversal checks: does the order survive changes that should not matter?
+
+Five checks, each re-scoring the problem with the same weights:
+
+* ``replace_worse`` -- test 1 of Wang & Triantaphyllou [1]_: each corridor
+  that is not first is replaced by a worse copy of itself; the first must
+  stay first. Rule: the copy is worse by ``fraction`` (default 5 %) of the
+  criterion's range (max - min over corridors) on every criterion, in the
+  criterion's bad direction (down for a benefit, up for a cost); a value
+  never crosses zero (a move towards zero stops at zero), as in
+  scikit-criteria's ``RankInvariantChecker`` [3]_. A criterion with a
+  single value cannot be made worse and is left as is.
+* ``transitivity`` -- test 2 of [1]_: every pair of corridors is ranked on
+  its own (a two-corridor problem); the winners must never form a cycle
+  (A over B, B over C, C over A). Cycles are sought in the strict
+  preferences; a tie is no preference.
+* ``pairwise_agreement`` -- test 3 of [1]_: each two-corridor result must
+  agree with the order of the two in the full ranking (a tie with a tie).
+  Passing it implies test 2.
+* ``clone`` -- an exact copy of one corridor is added (Belton & Gear [2]_);
+  the order of the original corridors must not change.
+* ``leave_one_out`` -- one corridor is removed at a time; the order of the
+  rest must not change. Every pair that swaps is listed.
+
+A swap is a pair whose strict order reverses (A above B before, B above A
+after); a pair moving into or out of a tie is not a swap. At most
+:data:`MAX_DETAILS` swaps are listed per check (the count is always given).
+When the kernel can score two-corridor problems neither as a stack nor side
+by side (see :mod:`ranker.stress.batch`) and there are more than
+:data:`ranker.stress.pairs.MAX_PAIRS_ONE_BY_ONE` pairs, tests 2 and 3 check the pairs of
+corridors within a fixed distance in the full order and the first corridor
+against every other, and say so.
+
+References
+----------
+.. [1] X. Wang and E. Triantaphyllou, "Ranking irregularities when
+   evaluating alternatives by using some ELECTRE methods", Omega 36(1):45-63,
+   2008. doi:10.1016/j.omega.2005.12.003
+.. [2] V. Belton and T. Gear, "On a short-coming of Saaty's method of
+   analytic hierarchies", Omega 11(3):228-230, 1983.
+.. [3] J. B. Cabral, N. A. Luczywo and J. L. Zanazzi, "Scikit-Criteria:
+   colección de métodos de análisis multi-criterio integrado al stack
+   científico de Python", 45 JAIIO, 2016 (``skcriteria.ranksrev``).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .batch import rank_batch, score_variants
+from .pairs import pair_preferences, three_cycles
+from .words import Namer
+
+#: Most swaps listed per check (all are counted) [-].
+MAX_DETAILS = 200
+#: Default worsening for test 1, as a share of each criterion's range [-].
+WORSEN_FRACTION = 0.05
+
+
+@dataclass
+class Check:
+    """One rank-reversal check.
+
+    Attributes
+    ----------
+    check : str
+        ``replace_worse``, ``transitivity``, ``pairwise_agreement``,
+        ``clone`` or ``leave_one_out``.
+    passed : bool
+        True when no reversal was found.
+    details : list of dict
+        JSON-ready records of what reversed.
+    sentence : str
+        The result in words.
+    count : int
+        How many reversals (swaps, cycles or disagreements) were found [-].
+    changed : list of str
+        Corridors whose replacement, copy or removal reordered others (all
+        of them, not capped like ``details``).
+    first_lost : list of str
+        Corridors whose replacement, copy or removal cost the first
+        corridor its place.
+    """
+
+    check: str
+    passed: bool
+    details: list[dict] = field(default_factory=list)
+    sentence: str = ""
+    count: int = 0
+    changed: list[str] = field(default_factory=list)
+    first_lost: list[str] = field(default_factory=list)
+
+    def to_json(self) -> dict:
+        """Return the JSON-ready record ``{"check", "passed", "details", "sentence"}``."""
+        return {
+            "check": self.check,
+            "passed": bool(self.passed),
+            "details": self.details,
+            "sentence": self.sentence,
+            "count": int(self.count),
+            "changed": list(self.changed),
+            "first_lost": list(self.first_lost),
+        }
+
+
+def worsen(matrix: np.ndarray, is_benefit: np.ndarray, *, fraction: float = WORSEN_FRACTION):
+    """Return every corridor made worse by ``fraction`` of each criterion's range.
+
+    Parameters
+    ----------
+    matrix : ndarray, shape (n, k)
+        Decision matrix in the criteria's own units.
+    is_benefit : ndarray of bool, shape (k,)
+        True where more is better.
+    fraction : float
+        Share of the range (max - min) to move each value [-].
+
+    Returns
+    -------
+    ndarray, shape (n, k)
+        Row i is corridor i made worse; values never cross zero [same unit].
+    """
+    x = np.asarray(matrix, dtype=float)
+    step = fraction * (x.max(axis=0) - x.min(axis=0))
+    moved = np.where(is_benefit, x - step, x + step)
+    # A move towards zero stops at zero (no change of sign).
+    return np.where((x >= 0) & (moved < 0), 0.0, np.where((x <= 0) & (moved > 0), 0.0, moved))
+
+
+def _reorders(r0, ranks, keeps):
+    """Swapped index pairs per variant, for the variants that reorder anything.
+
+    Sorting each variant's kept corridors by their old rank (then new rank),
+    a swap is a later corridor with a better new rank. Only corridors with a
+    worse new rank somewhere before them, or a better one after them, can be
+    part of a swap; the pairs are found among those alone.
+
+    Returns
+    -------
+    list of (variant, a, b)
+        ``a`` and ``b`` index arrays: a above b before, below it after.
+    """
+    v, size = ranks.shape
+    if not v:
+        return []
+    big = size + 1
+    old = np.full((v, size), big, dtype=np.int64)
+    new = np.full((v, size), big, dtype=np.int64)
+    for i, keep in enumerate(keeps):
+        old[i, keep] = r0[keep]
+        new[i, keep] = ranks[i, keep]
+    order = np.argsort(old * (size + 2) + new, axis=1, kind="stable")
+    after = np.take_along_axis(new, order, axis=1)
+    moved = np.nonzero((np.diff(after, axis=1) < 0).any(axis=1))[0]
+    if not moved.size:
+        return []
+    after, order = after[moved], order[moved]
+    before_max = np.maximum.accumulate(
+        np.concatenate([after[:, :1], after[:, :-1]], axis=1), axis=1
+    )
+    after_min = np.minimum.accumulate(
+        np.concatenate([after[:, 1:], after[:, -1:]], axis=1)[:, ::-1], axis=1
+    )[:, ::-1]
+    flagged = (before_max > after) | (after_min < after)
+    out = []
+    for row, var in enumerate(moved):
+        m = order[row, flagged[row]]
+        o, w = old[var, m], new[var, m]
+        ia, ib = np.nonzero((o[:, None] < o[None, :]) & (w[:, None] > w[None, :]))
+        out.append((var, m[ia], m[ib]))
+    return out
+
+
+def _collect(ids, changed_list, r0, g0, ranks, goods, keeps, best):
+    """Swap records for each variant; variant v changed corridor changed_list[v].
+
+    Returns the records (at most MAX_DETAILS, those costing first place
+    first), the number of swaps, the corridors whose change cost first
+    place, the corridors whose change reordered anything, and the number of
+    swaps that cost first place.
+    """
+    changed_list = list(changed_list)
+    count, lost, top_count, moved = 0, [], 0, []
+    is_best = np.zeros(len(r0), dtype=bool)
+    is_best[sorted(best)] = True
+    top_found, other_found = [], []
+    for v, a, b in _reorders(r0, ranks, keeps):
+        count += a.size
+        moved.append(ids[changed_list[v]])
+        top = is_best[a]
+        top_count += int(top.sum())
+        if top.any():
+            lost.append(ids[changed_list[v]])
+        top_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(top)[0])
+        room = MAX_DETAILS - len(other_found)
+        if room > 0:
+            other_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(~top)[0][:room])
+    records = []
+    for v, a, b in (top_found + other_found)[:MAX_DETAILS]:
+        records.append(
+            {
+                "changed": ids[changed_list[v]],
+                "corridor_id": ids[a],
+                "other_id": ids[b],
+                "ranks_before": [int(r0[a]), int(r0[b])],
+                "ranks_after": [int(ranks[v][a]), int(ranks[v][b])],
+                "score_gap_before": float(g0[a] - g0[b]),
+                "score_gap_after": float(goods[v][a] - goods[v][b]),
+                "affects_first": bool(is_best[a]),
+            }
+        )
+    records.sort(key=lambda r: (not r["affects_first"], r["ranks_before"]))
+    return records, count, lost, moved, top_count
+
+
+def replace_worse(
+    scorer, matrix, weights, ids, namer, *, fraction=WORSEN_FRACTION, replacements=None
+) -> Check:
+    """Run test 1 of Wang & Triantaphyllou (2008): the first stays first.
+
+    Parameters
+    ----------
+    scorer : Scorer
+        The method kernel with its directions and options.
+    matrix : ndarray, shape (n, k)
+        Decision matrix in the criteria's own units.
+    weights : ndarray, shape (k,)
+        Weights [-].
+    ids : list of str
+        Corridor ids, in matrix order.
+    namer : Namer
+        For the sentence.
+    fraction : float
+        Worsening rule, see :func:`worsen` [-].
+    replacements : dict of int to ndarray, optional
+        Explicit worse rows by corridor index (replaces the rule; corridors
+        not listed are not replaced).
+
+    Returns
+    -------
+    Check
+    """
+    x = np.asarray(matrix, dtype=float)
+    n, k = x.shape
+    g0 = scorer.weights(x, weights)[0]
+    r0 = rank_batch(g0)
+    best = set(np.nonzero(r0 == 1)[0].tolist())
+    worse = worsen(x, scorer.is_benefit, fraction=fraction)
+    if replacements is None:
+        targets = [j for j in range(n) if j not in best]
+        rows = {j: worse[j] for j in targets}
+    else:
+        rows = {int(j): np.asarray(v, dtype=float) for j, v in replacements.items()}
+        targets = sorted(rows)
+    unchanged = [j for j in targets if np.array_equal(rows[j], x[j])]
+
+    def build(start, stop):
+        mats = np.broadcast_to(x, (stop - start, n, k)).copy()
+        for v, j in enumerate(targets[start:stop]):
+            mats[v, j] = rows[j]
+        return mats
+
+    goods = score_variants(scorer, weights, len(targets), n, k, build)
+    ranks = rank_batch(goods) if targets else np.zeros((0, n), dtype=int)
+    keeps = [np.delete(np.arange(n), j) for j in targets]
+    details, count, lost, moved, top_count = _collect(
+        ids, targets, r0, g0, ranks, goods, keeps, best
+    )
+    passed = not lost
+    count -= top_count
+    if not targets:
+        sentence = "Only the first-placed corridor is left, so test 1 has nothing to replace."
+    elif passed:
+        sentence = (
+            "The first-placed corridor stays first when any other corridor is made worse "
+            f"({100 * fraction:g}% of each criterion's range on every criterion): "
+            "test 1 of Wang & Triantaphyllou is met."
+            if replacements is None
+            else "The first-placed corridor stays first under every replacement: test 1 is met."
+        )
+    else:
+        rec = details[0]
+        sentence = (
+            f"Making {namer.corridor(rec['changed'])} worse hands first place from "
+            f"{namer.corridor(rec['corridor_id'])} to {namer.corridor(rec['other_id'])}: "
+            f"a rank reversal (test 1 of Wang & Triantaphyllou fails in "
+            f"{len(lost)} of {len(targets)} replacements)."
+        )
+    if count > 0:
+        sentence += f" Lower down, {count:,} pair(s) of other corridors swap."
+    if unchanged:
+        sentence += f" {len(unchanged)} corridor(s) could not be made worse (no criterion varies)."
+    return Check("replace_worse", passed, details, sentence, len(lost), moved, lost)
+
+
+def clone(scorer, matrix, weights, ids, namer) -> Check:
+    """Add an exact copy of each corridor in turn; the order of the others must hold."""
+    x = np.asarray(matrix, dtype=float)
+    n, k = x.shape
+    g0 = scorer.weights(x, weights)[0]
+    r0 = rank_batch(g0)
+    best = set(np.nonzero(r0 == 1)[0].tolist())
+
+    def build(start, stop):
+        mats = np.empty((stop - start, n + 1, k))
+        mats[:, :n] = x
+        mats[:, n] = x[start:stop]
+        return mats
+
+    goods = score_variants(scorer, weights, n, n + 1, k, build)
+    ranks = rank_batch(goods)
+    keeps = [np.arange(n)] * n
+    r0x, g0x = np.append(r0, 0), np.append(g0, 0.0)
+    details, count, lost, changed, _ = _collect(
+        ids + ["(copy)"], range(n), r0x, g0x, ranks, goods, keeps, best
+    )
+    if not count:
+        sentence = (
+            "Adding an exact copy of any one corridor leaves the order of the others unchanged."
+        )
+    else:
+        d = details[0]
+        sentence = (
+            f"Adding a copy of {namer.corridor(d['changed'])} makes "
+            f"{namer.corridor(d['corridor_id'])} and {namer.corridor(d['other_id'])} swap; "
+            f"copies of {len(changed)} corridor(s) change the order ({count:,} swap(s) in all)."
+        )
+    return Check("clone", count == 0, details, sentence, count, changed, lost)
+
+
+def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
+    """Remove each corridor in turn and list every pair of the rest that swaps."""
+    x = np.asarray(matrix, dtype=float)
+    n, k = x.shape
+    g0 = scorer.weights(x, weights)[0]
+    r0 = rank_batch(g0)
+    best = set(np.nonzero(r0 == 1)[0].tolist())
+    if n < 3:
+        return Check(
+            "leave_one_out",
+            True,
+            [],
+            "With fewer than three corridors, removing one leaves nothing to reorder.",
+        )
+
+    def build(start, stop):
+        return np.stack([np.delete(x, i, axis=0) for i in range(start, stop)])
+
+    short = score_variants(scorer, weights, n, n - 1, k, build)
+    short_ranks = rank_batch(short)
+    # Put the results back in full index space; the removed corridor gets 0.
+    ranks = np.zeros((n, n), dtype=int)
+    goods = np.zeros((n, n))
+    for i in range(n):
+        rest = np.delete(np.arange(n), i)
+        ranks[i, rest], goods[i, rest] = short_ranks[i], short[i]
+    keeps = [np.delete(np.arange(n), i) for i in range(n)]
+    details, count, lost, removed, _ = _collect(ids, range(n), r0, g0, ranks, goods, keeps, best)
+    if not count:
+        sentence = "Removing any one corridor leaves the order of the rest unchanged."
+    else:
+        d = details[0]
+        sentence = (
+            f"Removing {namer.corridor(d['changed'])} makes {namer.corridor(d['corridor_id'])} "
+            f"and {namer.corridor(d['other_id'])} swap; {len(removed)} of {n} removals change "
+            f"the order ({count:,} swap(s) in all)."
+        )
+    return Check("leave_one_out", count == 0, details, sentence, count, removed, lost)
+
+
+def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
+    """Run tests 2 and 3 of Wang & Triantaphyllou (2008) on two-corridor sub-problems.
+
+    Returns
+    -------
+    transitivity, agreement : Check
+    """
+    x = np.asarray(matrix, dtype=float)
+    n, k = x.shape
+    g0 = scorer.weights(x, weights)[0]
+    r0 = rank_batch(g0)
+    if n < 2:
+        one = "A single corridor has no pairs to compare."
+        return Check("transitivity", True, [], one), Check("pairwise_agreement", True, [], one)
+    pp = pair_preferences(scorer, x, weights, r0)
+    ia, ib, pair_sign, complete, cycles = pp.a, pp.b, pp.sign, pp.complete, pp.cycles
+    full_sign = np.sign(r0[ib] - r0[ia])
+    scope = (
+        ""
+        if complete
+        else (
+            f" ({ia.size:,} of {n * (n - 1) // 2:,} pairs checked: neighbours in the order "
+            "and the first against all)"
+        )
+    )
+    if n < 3:
+        trans = Check(
+            "transitivity",
+            True,
+            [],
+            "With two corridors no cycle is possible: test 2 is met trivially.",
+        )
+    elif not cycles:
+        trans = Check(
+            "transitivity",
+            True,
+            [],
+            "Compared two at a time, the corridors never form a cycle "
+            f"(A over B over C over A): test 2 of Wang & Triantaphyllou is met{scope}.",
+        )
+    else:
+        found = three_cycles(pp.prefer, MAX_DETAILS)
+        details = [{"cycle": [ids[i] for i in cyc]} for cyc in found]
+        a, b, c = (namer.corridor(ids[i]) for i in found[0])
+        trans = Check(
+            "transitivity",
+            False,
+            details,
+            f"Compared two at a time, {cycles} cycle(s) appear, for example {a} beats "
+            f"{b}, {b} beats {c} and {c} beats {a}: test 2 of Wang & Triantaphyllou "
+            f"fails{scope}.",
+            cycles,
+        )
+    bad = np.nonzero(pair_sign != full_sign)[0]
+    details = []
+    for p in bad[:MAX_DETAILS]:
+        a, b = (ia[p], ib[p]) if r0[ia[p]] <= r0[ib[p]] else (ib[p], ia[p])
+        winner = None if pair_sign[p] == 0 else ids[ia[p] if pair_sign[p] > 0 else ib[p]]
+        details.append(
+            {
+                "corridor_id": ids[a],
+                "other_id": ids[b],
+                "full_ranks": [int(r0[a]), int(r0[b])],
+                "pair_winner": winner,
+                "score_gap_full": float(g0[a] - g0[b]),
+            }
+        )
+    if not bad.size:
+        agree = Check(
+            "pairwise_agreement",
+            True,
+            [],
+            "Every two-corridor comparison agrees with the full order: test 3 of "
+            f"Wang & Triantaphyllou is met{scope}.",
+        )
+    else:
+        d = details[0]
+        who = f"{namer.corridor(d['pair_winner'])} wins" if d["pair_winner"] else "it is a tie"
+        agree = Check(
+            "pairwise_agreement",
+            False,
+            details,
+            f"{bad.size} of {ia.size} two-corridor comparisons disagree with the full "
+            f"order; e.g. between {namer.corridor(d['corridor_id'])} "
+            f"(ranked {d['full_ranks'][0]}) and {namer.corridor(d['other_id'])} "
+            f"(ranked {d['full_ranks'][1]}) on their own, {who}: test 3 of "
+            f"Wang & Triantaphyllou fails{scope}.",
+            int(bad.size),
+        )
+    return trans, agree
+
+
+def all_checks(scorer, matrix, weights, ids, names=None, labels=None) -> list[Check]:
+    """Run every rank-reversal check; see the module notes for the rules.
+
+    Parameters
+    ----------
+    scorer : Scorer
+        The method kernel with its directions and options.
+    matrix : ndarray, shape (n, k)
+        Decision matrix in the criteria's own units.
+    weights : ndarray, shape (k,)
+        Weights summing to 1 [-].
+    ids : list of str
+        Corridor ids in matrix order.
+    names, labels : dict, optional
+        Corridor names and criterion labels for the sentences.
+
+    Returns
+    -------
+    list of Check
+        replace_worse, transitivity, pairwise_agreement, clone, leave_one_out.
+
+    Examples
+    --------
+    >>> from ranker.score.weighted_sum import weighted_sum
+    >>> from ranker.stress.batch import Scorer
+    >>> m = np.array([[3.0, 1.0], [2.0, 2.0], [1.0, 3.0]])
+    >>> sc = Scorer(weighted_sum, np.array([True, True]))
+    >>> [c.passed for c in all_checks(sc, m, np.array([0.6, 0.4]), ["A", "B", "C"])]
+    [True, True, True, True, True]
+    """
+    namer = Namer(names, labels)
+    ids = [str(i) for i in ids]
+    trans, agree = pairwise(scorer, matrix, weights, ids, namer)
+    return [
+        replace_worse(scorer, matrix, weights, ids, namer),
+        trans,
+        agree,
+        clone(scorer, matrix, weights, ids, namer),
+        leave_one_out(scorer, matrix, weights, ids, namer),
+    ]

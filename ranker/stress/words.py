@@ -1,0 +1,66 @@
+"""Plain-language pieces for the sentences a board reads."""
+
+from __future__ import annotations
+
+import math
+
+
+class Namer:
+    """Say corridors and criteria the way the planner named them.
+
+    Parameters
+    ----------
+    names : dict of str to str, optional
+        Corridor id to name.
+    labels : dict of str to str, optional
+        Criterion key to label.
+    """
+
+    def __init__(self, names: dict[str, str] | None = None, labels: dict[str, str] | None = None):
+        self.names = dict(names or {})
+        self.labels = dict(labels or {})
+
+    def corridor(self, cid: object, *, start: bool = False) -> str:
+        """``North Spur (C2)``, or ``corridor C2`` when it has no other name."""
+        name = self.names.get(str(cid))
+        if name and str(name).strip() and str(name) != str(cid):
+            return f"{name} ({cid})"
+        return f"{'Corridor' if start else 'corridor'} {cid}"
+
+    def criterion(self, key: str) -> str:
+        """The criterion's label, or its key with spaces."""
+        label = self.labels.get(key)
+        return str(label) if label else key.replace("_", " ")
+
+
+def ordinal(n: int) -> str:
+    """1 -> ``1st``, 2 -> ``2nd``, 11 -> ``11th``."""
+    n = int(n)
+    suffix = "th" if 10 <= n % 100 <= 20 else {1: "st", 2: "nd", 3: "rd"}.get(n % 10, "th")
+    return f"{n}{suffix}"
+
+
+def weight_text(value: float, reference: float | None = None) -> str:
+    """Format a weight with two decimals, more where needed to differ from ``reference``."""
+    for decimals in range(2, 7):
+        text = f"{value:.{decimals}f}"
+        if reference is None or text != f"{reference:.{decimals}f}":
+            return text
+    return f"{value:.6f}"
+
+
+def share_text(share: float) -> str:
+    """0.234 -> ``23%``; tiny non-zero shares say ``<1%``."""
+    if share is None or (isinstance(share, float) and math.isnan(share)):
+        return "n/a"
+    if 0 < share < 0.005:
+        return "<1%"
+    return f"{100 * share:.0f}%"
+
+
+def listing(items: list[str]) -> str:
+    """``a``, ``a and b``, ``a, b and c``."""
+    items = list(items)
+    if len(items) <= 1:
+        return "".join(items)
+    return ", ".join(items[:-1]) + " and " + items[-1]

@@ -1,0 +1,203 @@
+"""Rank-reversal checks (Wang & Triantaphyllou 2008, Omega 36(1):45-63, tests 1-3).
+
+Verdicts are compared with scikit-criteria's checkers (``skcriteria.ranksrev``
+0.10: RankInvariantChecker, RankTransitivityChecker, RankClonesChecker) on a
+TOPSIS pipeline with vector scaling, on a few small random matrices (those
+checkers make one pipeline call per pair or mutation and are slow).
+"""
+
+from __future__ import annotations
+
+import warnings
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from ranker.score.ranks import rank_scores
+from ranker.score.topsis import topsis
+from ranker.score.weighted_sum import weighted_sum
+from ranker.stress.batch import Scorer
+from ranker.stress.reversal import all_checks, clone, pairwise, replace_worse, worsen
+from ranker.stress.words import Namer
+
+from ._helpers import skc_dm, skc_topsis_pipeline
+
+NAMER = Namer()
+
+
+def _pymcdm_topsis(x, w, benefit):
+    from pymcdm.methods import TOPSIS
+    from pymcdm.normalizations import vector_normalization
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        return TOPSIS(normalization_function=vector_normalization)(
+            np.asarray(x, float), np.asarray(w, float), np.where(benefit, 1, -1)
+        )
+
+
+def test_topsis_reversal_by_adding_a_dominated_alternative_garcia_cascales_lamata():
+    """Adding an alternative reverses two others under TOPSIS, and the checks flag it.
+
+    The phenomenon is the one García-Cascales & Lamata (2012), "On rank
+    reversal and TOPSIS method", Math. Comput. Modelling 56:123-132, report:
+    the vector-normalised TOPSIS order of A and B depends on which other
+    alternatives are present. Their printed matrix is not reproduced here
+    (from memory only); the case below is constructed: D is dominated by B
+    and by C, yet adding D puts A ahead of B. The scores are confirmed with
+    pymcdm's TOPSIS.
+    """
+    x = np.array([[9.0, 1.0], [2.0, 6.0], [7.0, 5.0], [2.0, 4.0]])  # A, B, C, D
+    w, b = np.array([0.5, 0.5]), np.array([True, True])
+    three, four = _pymcdm_topsis(x[:3], w, b), _pymcdm_topsis(x, w, b)
+    assert three[1] > three[0] and four[0] > four[1]  # B ahead of A, then A ahead of B
+    ids = ["A", "B", "C", "D"]
+    checks = {c.check: c for c in all_checks(Scorer(topsis, b), x, w, ids)}
+    loo = checks["leave_one_out"]
+    assert not loo.passed
+    swap = next(d for d in loo.details if d["changed"] == "D")
+    assert {swap["corridor_id"], swap["other_id"]} == {"A", "B"}
+    assert swap["score_gap_before"] == pytest.approx(four[0] - four[1], abs=1e-12)
+    assert swap["score_gap_after"] == pytest.approx(three[0] - three[1], abs=1e-12)
+    assert "Removing corridor D" in loo.sentence or "swap" in loo.sentence
+
+
+def _skc_checks(x, w, b, ids, seed=1):
+    from skcriteria.ranksrev import (
+        RankClonesChecker,
+        RankInvariantChecker,
+        RankTransitivityChecker,
+    )
+
+    pipe, dm = skc_topsis_pipeline(), skc_dm(x, w, b, ids)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        inv = RankInvariantChecker(pipe, random_state=seed).evaluate(dm)
+        trans = RankTransitivityChecker(pipe).evaluate(dm)
+        clones = RankClonesChecker(pipe).evaluate(dm)
+    return inv, trans, clones
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2, 3, 4, 5, 6, 7])
+def test_same_verdicts_as_scikit_criteria(seed):
+    """Tests 1, 2, 3 and clones agree with scikit-criteria on random 6 x 3 matrices.
+
+    Test 1 is fed scikit-criteria's own mutations (its worse alternatives are
+    random); for each mutation both must agree on whether first place held.
+    """
+    rng = np.random.default_rng(seed)
+    x = rng.uniform(1, 10, size=(6, 3))
+    b = np.array([True, False, True])
+    w = np.array([0.5, 0.3, 0.2])
+    ids = [f"A{i}" for i in range(6)]
+    inv, trans, clones = _skc_checks(x, w, b, ids)
+    sc = Scorer(topsis, b)
+    t2, t3 = pairwise(sc, x, w, ids, NAMER)
+    assert t2.passed == bool(trans.extra_.test_criterion_2)
+    assert t3.passed == bool(trans.extra_.test_criterion_3)
+    reference = inv.named_ranks["Reference"].to_series()
+    best = reference.idxmin()
+    for name, rank in inv.named_ranks.items():
+        if name == "Reference":
+            continue
+        info = rank.extra_.rank_inv_check
+        j = ids.index(info.mutated)
+        row = x[j] + info.noise.to_numpy()
+        ours = replace_worse(sc, x, w, ids, NAMER, replacements={j: row})
+        assert ours.passed == bool(rank.to_series()[best] == 1)
+    cl = clone(sc, x, w, ids, NAMER)
+    changed = set(cl.changed)
+    for name, rank in clones.named_ranks.items():
+        if name == "Reference":
+            continue
+        alt = name.removeprefix("D.")
+        s = rank.to_series()[ids]
+        same = np.array_equal(rank_scores(-s.to_numpy()), rank_scores(-reference[ids].to_numpy()))
+        assert same == (alt not in changed)
+
+
+def test_verdict_cases_cover_pass_and_fail():
+    """The random cases above include both outcomes for tests 2-3 (so they can fail)."""
+    outcomes = set()
+    for seed in range(8):
+        rng = np.random.default_rng(seed)
+        x = rng.uniform(1, 10, size=(6, 3))
+        t2, t3 = pairwise(
+            Scorer(topsis, np.array([True, False, True])),
+            x,
+            np.array([0.5, 0.3, 0.2]),
+            [str(i) for i in range(6)],
+            NAMER,
+        )
+        outcomes.add(t3.passed)
+    assert outcomes == {True, False}
+
+
+def test_worsen_rule():
+    """Worse by 5% of the range on every criterion that varies; never past zero."""
+    x = np.array([[10.0, 0.5, 7.0, -1.0], [20.0, 40.0, 7.0, -30.0], [30.0, 60.0, 7.0, -2.0]])
+    b = np.array([True, True, False, False])
+    out = worsen(x, b)
+    assert np.allclose(out[:, 0], x[:, 0] - 1.0)  # range 20 -> 1 down
+    assert out[0, 1] == 0.0 and np.allclose(out[1:, 1], x[1:, 1] - 2.975)  # stops at zero
+    assert np.array_equal(out[:, 2], x[:, 2])  # constant criterion: unchanged
+    assert out[0, 3] == 0.0 and np.allclose(out[1:, 3], x[1:, 3] + 1.45)  # cost goes up, to 0
+
+
+@settings(max_examples=30, deadline=None, derandomize=True)
+@given(st.integers(2, 7), st.integers(1, 4), st.integers(0, 10_000))
+def test_weighted_sum_on_min_max_survives_clones(n, k, seed):
+    """A copy leaves every column's min and max alone, so min-max weighted sums never reverse."""
+    rng = np.random.default_rng(seed)
+    x = rng.uniform(0, 10, size=(n, k))
+    check = clone(
+        Scorer(weighted_sum, rng.random(k) < 0.5),
+        x,
+        rng.dirichlet(np.ones(k)),
+        [str(i) for i in range(n)],
+        NAMER,
+    )
+    assert check.passed and check.count == 0
+
+
+def test_test1_flags_loss_of_first_place():
+    """Making a non-first corridor worse hands first place over (TOPSIS); test 1 fails.
+
+    Constructed case (Wang & Triantaphyllou's test 1 phenomenon for TOPSIS):
+    B is first; A made 5% of each range worse on both criteria puts C first.
+    The orders are confirmed with pymcdm's TOPSIS.
+    """
+    x = np.array([[3.0, 7.0], [4.0, 6.0], [5.0, 5.0], [6.0, 2.0]])
+    w, b = np.array([0.5, 0.5]), np.array([True, True])
+    worse_a = worsen(x, b)[0]
+    assert np.all(worse_a < x[0])
+    changed = x.copy()
+    changed[0] = worse_a
+    assert rank_scores(_pymcdm_topsis(x, w, b))[1] == 1
+    assert rank_scores(_pymcdm_topsis(changed, w, b))[2] == 1
+    chk = replace_worse(Scorer(topsis, b), x, w, list("ABCD"), NAMER)
+    assert not chk.passed and chk.count == 1
+    d = chk.details[0]
+    assert (d["changed"], d["corridor_id"], d["other_id"]) == ("A", "B", "C")
+    assert d["affects_first"] and d["ranks_after"] == [2, 1]
+    after = _pymcdm_topsis(changed, w, b)
+    assert d["score_gap_after"] == pytest.approx(after[1] - after[2], abs=1e-12)
+    assert "hands first place from corridor B to corridor C" in chk.sentence
+
+
+def test_sentences_and_json_shape():
+    """Every check is JSON-ready with the four contract keys."""
+    rng = np.random.default_rng(4)
+    x = rng.uniform(1, 10, size=(5, 3))
+    for c in all_checks(
+        Scorer(topsis, np.array([True, True, False])),
+        x,
+        np.array([0.4, 0.4, 0.2]),
+        list("ABCDE"),
+        {"A": "North Spur"},
+    ):
+        rec = c.to_json()
+        assert {"check", "passed", "details", "sentence"} <= set(rec)
+        assert isinstance(rec["passed"], bool) and rec["sentence"]

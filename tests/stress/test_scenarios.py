@@ -1,0 +1,61 @@
+"""Futures through a re-ranking callback (a fake pipeline stands in here)."""
+
+from __future__ import annotations
+
+import pandas as pd
+import pytest
+
+from ranker.stress import futures
+
+BASE = pd.Series({"A": 1, "B": 2, "C": 3, "D": 4})
+
+
+def fake_rerank(overrides: dict) -> pd.Series:
+    """Move corridors around depending on an invented assumption."""
+    price = overrides.get("energy_price", 0.15)
+    if price > 0.2:
+        return pd.Series({"A": 3, "B": 1, "C": 2, "D": 4})
+    if overrides.get("screen_out_d"):
+        return pd.Series({"A": 1, "B": 2, "C": 3})
+    return BASE.copy()
+
+
+def test_rank_range_and_biggest_mover():
+    calls = []
+
+    def rerank(o):
+        calls.append(o)
+        return fake_rerank(o)
+
+    out = futures(
+        {
+            "cheap": {"energy_price": 0.10},
+            "dear": {"energy_price": 0.30},
+            "strict": {"screen_out_d": True},
+        },
+        rerank,
+        BASE,
+        names={"A": "North Spur"},
+    )
+    assert calls == [{"energy_price": 0.10}, {"energy_price": 0.30}, {"screen_out_d": True}]
+    rows = {c["corridor_id"]: c for c in out["corridors"]}
+    assert (rows["A"]["best_rank"], rows["A"]["worst_rank"], rows["A"]["range"]) == (1, 3, 2)
+    assert rows["A"]["most_moved_by"] == "dear" and rows["A"]["largest_move"] == -2
+    assert rows["B"]["largest_move"] == 1 and rows["D"]["range"] == 0
+    assert rows["D"]["most_moved_by"] is None and "stays 4th" in rows["D"]["sentence"]
+    assert out["missing"] == {"strict": ["D"]}
+    assert out["top"]["dear"] == ["B"]
+    assert "North Spur (A)" in rows["A"]["sentence"]
+
+
+def test_no_scenarios():
+    out = futures({}, fake_rerank, BASE)
+    assert out["scenarios"] == [] and all(c["range"] == 0 for c in out["corridors"])
+    assert out["sentence"] == "No futures were given."
+
+
+def test_bad_callback_answers_are_named():
+    with pytest.raises(TypeError, match="Series"):
+        futures({"x": {}}, lambda o: {"A": 1}, BASE)
+    with pytest.raises(ValueError, match="non-numeric"):
+        futures({"x": {}}, lambda o: pd.Series({"A": "first"}), BASE)
