@@ -1,0 +1,272 @@
+"""Coverage view: the year the funded corridors first join the named places.
+
+Each corridor may say which two places it joins (``connects`` on the
+``Corridors`` sheet, text such as ``Northport-Lakeside``). The funded
+corridors of a plan, year by year, form a graph whose nodes are places and
+whose edges are corridors; the endpoints are joined when they all lie in one
+connected component. Components are found with
+:func:`scipy.sparse.csgraph.connected_components`.
+
+The endpoints are the places named in ``coverage_endpoints``; when that is
+empty, every place named in any corridor's ``connects`` (the whole network
+must be joined up).
+
+References
+----------
+.. [1] R. Tarjan, "Depth-first search and linear graph algorithms", SIAM
+   Journal on Computing 1(2):146-160, 1972. doi:10.1137/0201010
+"""
+
+from __future__ import annotations
+
+import re
+
+import numpy as np
+import pandas as pd
+from scipy import sparse
+from scipy.sparse.csgraph import connected_components
+
+from ..workbook.tables import ASSUMPTIONS, CORRIDORS
+from .checks import _fail
+
+_DASHES = re.compile("[\u2010-\u2015\u2212]")  # hyphen, en dash, em dash, minus sign ...
+
+
+def parse_connects(text: object) -> tuple[str, str] | None:
+    """Split a ``connects`` text into the two places it joins.
+
+    Parameters
+    ----------
+    text : object
+        ``"A-B"`` (one dash), or ``"A - B"`` (a dash with spaces around it,
+        needed when a place name holds a dash itself: ``"Port-Ville -
+        Lakeside"``). En and em dashes count as dashes. Blank or NaN: no
+        places.
+
+    Returns
+    -------
+    tuple of str or None
+        The two place names, spaces tidied; None when blank.
+
+    Raises
+    ------
+    ValueError
+        When the text does not name two different places.
+
+    Examples
+    --------
+    >>> parse_connects("Northport-Lakeside")
+    ('Northport', 'Lakeside')
+    >>> parse_connects("Port-Ville - Lakeside")
+    ('Port-Ville', 'Lakeside')
+    """
+    if text is None or (isinstance(text, float) and np.isnan(text)):
+        return None
+    s = " ".join(_DASHES.sub("-", str(text)).split())
+    if not s:
+        return None
+    if s.count(" - ") == 1:
+        a, b = s.split(" - ")
+    elif s.count("-") == 1:
+        a, b = s.split("-")
+    else:
+        raise ValueError(
+            f"'{text}' must name two places joined by one dash, such as Northport-Lakeside; "
+            "where a place name holds a dash, put spaces around the joining dash "
+            "(Port-Ville - Lakeside)"
+        )
+    a, b = a.strip(), b.strip()
+    if not a or not b:
+        raise ValueError(f"'{text}' must name a place on each side of the dash")
+    if a.casefold() == b.casefold():
+        raise ValueError(f"'{text}' joins {a} to itself; name the two different places it joins")
+    return a, b
+
+
+def first_joined(
+    edges: np.ndarray,
+    n_nodes: int,
+    ends: np.ndarray,
+    completed: np.ndarray,
+    n_years: int,
+) -> int:
+    """Return the first plan year in which the funded corridors join all ends.
+
+    Parameters
+    ----------
+    edges : ndarray of int, shape (m, 2)
+        Node pair of each corridor; a row of -1 where the corridor names
+        none [-].
+    n_nodes : int
+        Number of places [-].
+    ends : ndarray of int, shape (k,)
+        Nodes that must be joined, k >= 2 [-].
+    completed : ndarray of int, shape (m,)
+        Plan-year index each corridor is complete, -1 if never [-].
+    n_years : int
+        Number of plan years [-].
+
+    Returns
+    -------
+    int
+        Plan-year index, or -1 if the ends are never joined [-].
+
+    References
+    ----------
+    .. [1] R. Tarjan, "Depth-first search and linear graph algorithms", SIAM
+       Journal on Computing 1(2):146-160, 1972. doi:10.1137/0201010
+
+    Examples
+    --------
+    >>> first_joined(np.array([[0, 1], [1, 2]]), 3, np.array([0, 2]), np.array([0, 1]), 2)
+    1
+    """
+    has = (edges[:, 0] >= 0) & (completed >= 0)
+    for t in range(n_years):
+        live = has & (completed <= t)
+        e = edges[live]
+        graph = sparse.csr_matrix((np.ones(len(e)), (e[:, 0], e[:, 1])), shape=(n_nodes, n_nodes))
+        _, labels = connected_components(graph, directed=False)
+        if np.all(labels[ends] == labels[ends[0]]):
+            return t
+    return -1
+
+
+def _list(names: list[str]) -> str:
+    if len(names) <= 1:
+        return "".join(names)
+    return ", ".join(names[:-1]) + " and " + names[-1]
+
+
+def coverage_view(
+    connects: pd.Series,
+    ids: list[str],
+    endpoints: list[str],
+    completed: dict[str, np.ndarray],
+    years: np.ndarray,
+) -> tuple[dict | None, list[str]]:
+    """Build the coverage view of each plan.
+
+    Parameters
+    ----------
+    connects : Series
+        ``connects`` text per corridor, index ``corridor_id`` (blank allowed).
+    ids : list of str
+        Corridor ids in plan order.
+    endpoints : list of str
+        Places that must be joined; empty for every place named.
+    completed : dict of str to ndarray of int
+        Plan name to completion year index per corridor, -1 unfunded [-].
+    years : ndarray of int
+        Plan years [year].
+
+    Returns
+    -------
+    coverage : dict or None
+        ``endpoints``, ``rule`` (``"named"`` or ``"all places"``),
+        ``connected_year`` (plan to year or None), ``funded_set`` (plan to
+        corridor ids complete by then, or None), ``possible`` (whether all
+        corridors together join them) and ``sentence``; None when no
+        corridor names its places.
+    warnings : list of str
+        Why the view is missing or limited.
+    """
+    text = connects.copy()
+    text.index = text.index.map(str)
+    text = text.reindex(ids)
+    pairs: list[tuple[str, str] | None] = []
+    for cid, t in text.items():
+        try:
+            pairs.append(parse_connects(t))
+        except ValueError as err:
+            raise _fail(
+                CORRIDORS,
+                f"connects of corridor {cid}: {err}",
+                "type the two places the corridor joins, such as Northport-Lakeside",
+            ) from None
+    spelling: dict[str, str] = {}
+    for p in pairs:
+        for name in p or ():
+            spelling.setdefault(name.casefold(), name)
+    if not spelling:
+        warn = ["No corridor has connects filled in, so the coverage view is left out."]
+        if endpoints:
+            warn = [
+                "coverage_endpoints is set but no corridor has connects filled in; "
+                "the coverage view is left out."
+            ]
+        return None, warn
+    node = {k: j for j, k in enumerate(spelling)}
+    edges = np.full((len(ids), 2), -1, dtype=int)
+    for i, p in enumerate(pairs):
+        if p:
+            edges[i] = node[p[0].casefold()], node[p[1].casefold()]
+    if endpoints:
+        unknown = [e for e in endpoints if e.casefold() not in node]
+        if unknown:
+            raise _fail(
+                ASSUMPTIONS,
+                f"coverage_endpoints names {_list(unknown)}, which no corridor's connects mentions",
+                f"use places from the connects column: {', '.join(list(spelling.values())[:12])}",
+            )
+        rule = "named"
+        names = [spelling[e.casefold()] for e in endpoints]
+    else:
+        rule = "all places"
+        names = list(spelling.values())
+    ends = np.array(sorted({node[n.casefold()] for n in names}), dtype=int)
+    if ends.size < 2:
+        return None, [
+            f"coverage_endpoints names only {_list(names)}; name two places or more "
+            "for the coverage view."
+        ]
+    every = np.zeros(len(ids), dtype=int)
+    every[edges[:, 0] < 0] = -1
+    possible = first_joined(edges, len(node), ends, every, 1) == 0
+    year_of: dict[str, int | None] = {}
+    funded: dict[str, list[str] | None] = {}
+    for plan, done in completed.items():
+        t = first_joined(edges, len(node), ends, np.asarray(done), len(years)) if possible else -1
+        year_of[plan] = int(years[t]) if t >= 0 else None
+        funded[plan] = (
+            [ids[i] for i in np.flatnonzero((done >= 0) & (done <= t))] if t >= 0 else None
+        )
+    sentence = _sentence(names, rule, year_of, funded, possible)
+    view = {
+        "endpoints": names,
+        "rule": rule,
+        "connected_year": year_of,
+        "funded_set": funded,
+        "possible": possible,
+        "sentence": sentence,
+    }
+    return view, []
+
+
+def _sentence(names, rule, year_of, funded, possible) -> str:
+    who = (
+        f"All {len(names)} places named in connects"
+        if rule == "all places" and len(names) > 6
+        else (
+            "The places named in connects (" + _list(names) + ")"
+            if rule == "all places"
+            else _list(names)
+        )
+    )
+    if not possible:
+        return (
+            f"{who} cannot be joined by electrified corridors: even all the corridors together "
+            "do not link them (check connects)."
+        )
+    parts = []
+    for plan in ("optimised", "greedy"):
+        if plan not in year_of:
+            continue
+        y = year_of[plan]
+        if y is None:
+            parts.append(f"not within the plan under the {plan} plan")
+        else:
+            parts.append(
+                f"in {y} under the {plan} plan (funded by then: {', '.join(funded[plan])})"
+            )
+    return f"{who} are first joined by electrified corridors " + " and ".join(parts) + "."

@@ -1,0 +1,207 @@
+"""Say in plain words how the optimised plan differs from the greedy one.
+
+One sentence for the totals, then one per corridor whose year differs,
+naming the corridors whose money it takes or gives up:
+
+- a corridor funded earlier (or only) in the optimised plan takes money the
+  greedy plan had spent, by that year, on corridors the optimised plan funds
+  later or leaves out; or money the greedy plan left unspent;
+- a corridor funded later (or not at all) gives its money, in its greedy
+  year, to corridors the optimised plan funds by then that the greedy plan
+  funds later or not at all.
+
+Each sentence compares what the corridors deliver per dollar (score per
+million USD, or electric truck-miles a year per USD), the quantity that
+decides a budget-limited choice (Dantzig's ratio, [1]).
+
+References
+----------
+.. [1] G. B. Dantzig, "Discrete-variable extremum problems", Operations
+   Research 5(2):266-288, 1957.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .objectives import Objective
+
+
+def money(usd: float) -> str:
+    """Write an amount of money for a sentence ("4.2 million USD") [USD].
+
+    Examples
+    --------
+    >>> money(4_200_000), money(350_000)
+    ('4.2 million USD', '350,000 USD')
+    """
+    if abs(usd) >= 1e6:
+        return (
+            f"{usd / 1e6:,.3g} million USD" if abs(usd) < 1e9 else f"{usd / 1e9:,.3g} billion USD"
+        )
+    return f"{usd:,.0f} USD"
+
+
+def number(x: float) -> str:
+    """Write a number with three significant figures for a sentence."""
+    if not np.isfinite(x):
+        return "no limit"
+    if x != 0 and (abs(x) >= 1e5 or abs(x) < 1e-3):
+        return f"{x:.3g}"
+    return f"{x:,.3g}" if abs(x) < 1000 else f"{x:,.0f}"
+
+
+def _names(labels: list[str]) -> str:
+    if len(labels) > 4:
+        labels = labels[:3] + [f"{len(labels) - 3} more"]
+    if len(labels) <= 1:
+        return "".join(labels)
+    return ", ".join(labels[:-1]) + " and " + labels[-1]
+
+
+def describe_differences(
+    ids: list[str],
+    names: dict | None,
+    cost: np.ndarray,
+    quantity: np.ndarray,
+    objective: Objective,
+    years: np.ndarray,
+    priority: np.ndarray,
+    greedy: np.ndarray,
+    optimised: np.ndarray,
+    value: dict[str, float],
+    unspent_greedy: np.ndarray,
+) -> list[str]:
+    """Write the sentences comparing the optimised plan with the greedy plan.
+
+    Parameters
+    ----------
+    ids : list of str
+        Corridor ids in plan order.
+    names : dict or None
+        Corridor id to name, for the sentences.
+    cost : ndarray, shape (n,)
+        Capital cost per corridor [USD].
+    quantity : ndarray, shape (n,)
+        What each corridor delivers: score [-] or electric truck-miles a
+        year [mi/yr].
+    objective : Objective
+        The objective maximised.
+    years : ndarray of int, shape (T,)
+        Plan years [year].
+    priority : ndarray of int, shape (n,)
+        Corridor positions in rank order [-].
+    greedy, optimised : ndarray of int, shape (n,)
+        Completion year index per corridor in each plan, -1 unfunded [-].
+    value : dict
+        ``{"greedy": float, "optimised": float}`` objective values
+        (objective's unit).
+    unspent_greedy : ndarray, shape (T,)
+        Money the greedy plan has not spent by each year (cumulative when
+        money can be held, else that year's leftover) [USD].
+
+    Returns
+    -------
+    list of str
+        The sentences, totals first.
+    """
+    names = names or {}
+
+    def label(i: int) -> str:
+        name = str(names.get(ids[i], "") or "")
+        return f"{ids[i]} ({name})" if name and name != ids[i] else ids[i]
+
+    def per_usd(idx) -> float:
+        idx = list(idx)
+        c = float(cost[idx].sum())
+        return float(quantity[idx].sum()) / c * objective.per_usd if c > 0 else np.inf
+
+    changed = [i for i in priority if greedy[i] != optimised[i]]
+    vg, vo = value["greedy"], value["optimised"]
+    if not changed:
+        return [
+            "The optimised plan funds the same corridors in the same years as the greedy plan: "
+            f"funding in rank order is already the best use of this budget for the {objective.label}."
+        ]
+    pct = (vo - vg) / abs(vg) * 100 if vg else np.inf
+    more = f"{pct:+.1f} %" if np.isfinite(pct) else "the greedy plan delivers nothing"
+    out = [
+        f"The optimised plan delivers {number(vo)} {objective.label} against {number(vg)} for the "
+        f"greedy plan ({more}); {len(changed)} corridor{'s' if len(changed) != 1 else ''} "
+        "change year or drop in or out."
+    ]
+    n = len(ids)
+    unit = objective.intensity
+    for i in changed:
+        g, o = int(greedy[i]), int(optimised[i])
+        yg = int(years[g]) if g >= 0 else None
+        yo = int(years[o]) if o >= 0 else None
+        mine = per_usd([i])
+        if o >= 0 and (g < 0 or o < g):
+            head = (
+                f"{label(i)} is funded in {yo} instead of {yg}"
+                if g >= 0
+                else f"{label(i)} is funded in {yo} in the optimised plan but not at all in the greedy plan"
+            )
+            gave = [
+                j
+                for j in range(n)
+                if j != i and 0 <= greedy[j] <= o and (optimised[j] < 0 or optimised[j] > o)
+            ]
+            if gave:
+                later = all(optimised[j] >= 0 for j in gave)
+                dropped = all(optimised[j] < 0 for j in gave)
+                fate = (
+                    "funds later"
+                    if later
+                    else ("leaves out" if dropped else "funds later or leaves out")
+                )
+                theirs = per_usd(gave)
+                compare = (
+                    f"it gives {number(mine)} {unit} against {number(theirs)} for "
+                    f"{'that corridor' if len(gave) == 1 else 'those'}"
+                    if mine > theirs
+                    else "it fits the money left better, so the rearranged years deliver more in total"
+                )
+                out.append(
+                    f"{head} because the optimised plan uses money the greedy plan spent by {yo} on "
+                    f"{_names([label(j) for j in gave])}, which it {fate}; {compare}."
+                )
+            elif unspent_greedy[o] >= cost[i] * (1 - 1e-9):
+                out.append(
+                    f"{head} because the greedy plan leaves {money(unspent_greedy[o])} unspent by {yo}, "
+                    "enough for it, and the optimised plan puts that money to use."
+                )
+            else:
+                out.append(
+                    f"{head} because the optimised plan moves other corridors' years "
+                    f"to make room for it by {yo}."
+                )
+        else:
+            head = (
+                f"{label(i)} is funded in {yo} instead of {yg}"
+                if o >= 0
+                else f"{label(i)} is not funded in the optimised plan (the greedy plan funds it in {yg})"
+            )
+            took = [
+                j
+                for j in range(n)
+                if j != i and 0 <= optimised[j] <= g and (greedy[j] < 0 or greedy[j] > g)
+            ]
+            if took:
+                theirs = per_usd(took)
+                compare = (
+                    f"which give {number(theirs)} {unit} against its {number(mine)}"
+                    if theirs > mine
+                    else "which fit the money better and deliver more in total"
+                )
+                out.append(
+                    f"{head} because its {money(cost[i])} goes by {yg} to "
+                    f"{_names([label(j) for j in took])} instead, {compare}."
+                )
+            else:
+                out.append(
+                    f"{head} because the optimised plan spends that money first on corridors "
+                    "that deliver more, and the total is higher this way."
+                )
+    return out

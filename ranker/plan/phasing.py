@@ -1,0 +1,458 @@
+"""The phased build plan: what to fund in which year, greedy and optimised.
+
+:func:`build_plan` checks its inputs, runs the greedy plan
+(:mod:`ranker.plan.greedy`), the optimised plan (:mod:`ranker.plan.optimise`),
+turns both into payments (:mod:`ranker.plan.schedule`), compares them
+(:mod:`ranker.plan.explain`), and adds the coverage view
+(:mod:`ranker.plan.coverage`) and the year-one robustness
+(:mod:`ranker.plan.robust`) when their inputs are given.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from ..workbook.tables import ASSUMPTIONS, BUDGET
+from . import optimise
+from .checks import _fail, check_endpoints, check_inputs, check_samples, check_series
+from .coverage import coverage_view
+from .explain import describe_differences, money
+from .greedy import greedy_kernel
+from .objectives import OBJECTIVES
+from .robust import year_one_share
+from .schedule import completion_from_payments, feasible, payments
+
+PLANS = ("greedy", "optimised")
+
+
+@dataclass
+class Plan:
+    """A phased build plan, greedy and optimised.
+
+    Attributes
+    ----------
+    greedy : DataFrame
+        One row per corridor in rank order: ``corridor_id``, ``name`` (when
+        names are given), ``rank`` [-], ``score`` [-], ``capital_usd``
+        [USD], ``year_started`` and ``year_funded`` (the year the last part
+        is paid; both nullable integers, blank when unfunded) [year], and
+        ``value``, the corridor's share of the objective (objective's unit).
+    optimised : DataFrame
+        The same columns for the optimised plan.
+    schedule : DataFrame
+        Long table of payments: ``plan`` (``"greedy"``/``"optimised"``),
+        ``year`` [year], ``corridor_id``, ``spend_usd`` [USD].
+    budget : DataFrame
+        ``year`` [year], ``capital_usd``, ``spent_greedy``,
+        ``remaining_greedy``, ``spent_optimised``, ``remaining_optimised``
+        [USD]. Remaining is the balance carried to the next year with
+        carry-over, else the money of that year left unspent (and lost).
+    objective : str
+        Key of the objective maximised (``score`` or ``truck_miles``).
+    objective_value : dict
+        ``{"greedy": float, "optimised": float}`` (objective's unit: [-]
+        for score, [mi] for truck-miles).
+    gap : float
+        Optimality gap of the optimised plan: (solver's bound - value) /
+        value; 0 when proven optimal [-].
+    differences : list of str
+        Plain-word sentences comparing the two plans.
+    coverage : dict or None
+        ``endpoints``, ``rule``, ``connected_year`` ({plan: year or None}),
+        ``funded_set``, ``possible``, ``sentence``; None without ``connects``.
+    year_one_share : Series or None
+        Share of score samples in which the greedy plan funds each corridor
+        in the first plan year [-]; None without samples.
+    warnings : list of str
+        Doubtful but legal input and solver limits, for the outputs.
+    """
+
+    greedy: pd.DataFrame
+    optimised: pd.DataFrame
+    schedule: pd.DataFrame
+    budget: pd.DataFrame
+    objective: str
+    objective_value: dict
+    gap: float
+    differences: list[str]
+    coverage: dict | None
+    year_one_share: pd.Series | None
+    warnings: list[str] = field(default_factory=list)
+
+    def to_json(self) -> dict:
+        """Return the plan as plain JSON-ready types (NaN and blanks as None)."""
+        return {
+            "objective": self.objective,
+            "objective_value": {k: _plain(v) for k, v in self.objective_value.items()},
+            "gap": _plain(self.gap),
+            "greedy": _records(self.greedy),
+            "optimised": _records(self.optimised),
+            "schedule": _records(self.schedule),
+            "budget": _records(self.budget),
+            "differences": list(self.differences),
+            "coverage": _plain(self.coverage),
+            "year_one_share": (
+                None
+                if self.year_one_share is None
+                else {str(k): _plain(v) for k, v in self.year_one_share.items()}
+            ),
+            "warnings": list(self.warnings),
+        }
+
+
+def _plain(v):
+    if isinstance(v, dict):
+        return {str(k): _plain(x) for k, x in v.items()}
+    if isinstance(v, (list, tuple)):
+        return [_plain(x) for x in v]
+    if v is None or v is pd.NA:
+        return None
+    if isinstance(v, (np.bool_, bool)):
+        return bool(v)
+    if isinstance(v, (np.integer,)):
+        return int(v)
+    if isinstance(v, (float, np.floating)):
+        return None if not math.isfinite(float(v)) else float(v)
+    return v
+
+
+def _records(frame: pd.DataFrame) -> list[dict]:
+    return [
+        {k: _plain(v) for k, v in row.items()} for row in frame.astype(object).to_dict("records")
+    ]
+
+
+def build_plan(
+    capital_usd: pd.Series,
+    score: pd.Series,
+    rank: pd.Series,
+    budget: pd.DataFrame,
+    *,
+    carry_over: bool = True,
+    allow_split: bool = False,
+    objective: str = "score",
+    truck_miles: pd.Series | None = None,
+    discount_rate: float = 0.07,
+    connects: pd.Series | None = None,
+    endpoints: Sequence[str] | None = None,
+    sample_scores: np.ndarray | None = None,
+    names: dict | None = None,
+) -> Plan:
+    """Build the greedy and the optimised phased plan for a yearly budget.
+
+    Parameters
+    ----------
+    capital_usd : Series
+        Capital cost per corridor, index ``corridor_id`` [USD].
+    score : Series
+        Score per corridor, higher is better [-].
+    rank : Series
+        Rank per corridor, 1 is best (ties broken by higher score, then
+        input order) [-].
+    budget : DataFrame
+        Columns ``year`` [year] and ``capital_usd`` [USD], one row per year.
+    carry_over : bool
+        Whether money unspent in a year is added to the next [-].
+    allow_split : bool
+        Whether a corridor may be paid over several consecutive years [-].
+    objective : str
+        What the optimised plan maximises: ``"score"`` (sum of score x
+        (1 + r) ** -(year index) over funded corridors) or ``"truck_miles"``
+        (electric truck-miles served each year from completion to the last
+        budget year, discounted alike).
+    truck_miles : Series, optional
+        Electric truck-miles a year per corridor; required for
+        ``objective="truck_miles"`` [mi/yr].
+    discount_rate : float
+        Real discount rate [1/yr].
+    connects : Series, optional
+        Text ``"A-B"`` per corridor: the two places it joins [-].
+    endpoints : sequence of str, optional
+        Places the coverage view must see joined; empty or None for every
+        place named in ``connects`` [-].
+    sample_scores : ndarray, shape (s, n), optional
+        Monte Carlo samples of the scores, columns in the order of
+        ``capital_usd``, higher is better (pass ``-ranks`` for ranks) [-].
+    names : dict, optional
+        Corridor id to name, for the sentences.
+
+    Returns
+    -------
+    Plan
+        Both plans, their payments and budget use, the objective values and
+        gap, the differences in words, coverage and year-one robustness.
+
+    Raises
+    ------
+    PlanInputError
+        (an :class:`~ranker.errors.InputError` and a :class:`ValueError`)
+        for a bad budget (negative, blank, a year twice), costs, scores,
+        ranks, objective or places.
+
+    References
+    ----------
+    .. [1] H. M. Weingartner, "Mathematical Programming and the Analysis of
+       Capital Budgeting Problems", Prentice-Hall, 1963.
+    .. [2] G. B. Dantzig, "Discrete-variable extremum problems", Operations
+       Research 5(2):266-288, 1957.
+
+    Examples
+    --------
+    >>> import pandas as pd
+    >>> ids = ["C1", "C2", "C3", "C4"]
+    >>> cost = pd.Series([7.0, 5.0, 4.0, 3.0], index=ids) * 1e6
+    >>> score = pd.Series([22.0, 16.0, 12.0, 8.0], index=ids)
+    >>> rank = pd.Series([1, 2, 3, 4], index=ids)
+    >>> budget = pd.DataFrame({"year": [2027], "capital_usd": [14e6]})
+    >>> p = build_plan(cost, score, rank, budget)
+    >>> p.greedy["year_funded"].tolist()
+    [2027, 2027, <NA>, <NA>]
+    >>> p.optimised["year_funded"].tolist()
+    [2027, <NA>, 2027, 2027]
+    >>> p.objective_value
+    {'greedy': 38.0, 'optimised': 42.0}
+    """
+    a = check_inputs(capital_usd, score, rank, budget, discount_rate=discount_rate)
+    if objective not in OBJECTIVES:
+        raise _fail(
+            ASSUMPTIONS, f"plan_objective is '{objective}'", f"use one of {', '.join(OBJECTIVES)}"
+        )
+    obj = OBJECTIVES[objective]
+    if objective == "truck_miles":
+        if truck_miles is None:
+            raise _fail(
+                ASSUMPTIONS,
+                "plan_objective truck_miles needs each corridor's electric truck-miles",
+                "include the criteria that derive them (length_mi and trucks_per_day on "
+                "Corridors), or set plan_objective to score",
+            )
+        quantity = check_series(truck_miles, a.ids, "electric truck-miles a year")
+    else:
+        quantity = a.score
+    names = {str(k): v for k, v in (names or {}).items()}
+    cumulative = bool(carry_over or allow_split)
+    warnings = _warnings(a, quantity, obj.quantity, carry_over=carry_over, allow_split=allow_split)
+    value = obj.value(quantity, a.years, discount_rate)
+    n, big_t = value.shape
+
+    g = greedy_kernel(
+        a.cost,
+        a.order,
+        a.budget,
+        carry_over=carry_over,
+        allow_split=allow_split,
+        record_spend=True,
+    )
+    done = {"greedy": g.completed[0]}
+    pay = {"greedy": g.spend[0]}
+    got = {"greedy": _total(value, done["greedy"])}
+
+    m = optimise.milp_kernel(
+        a.cost, value, a.budget, cumulative=cumulative, time_limit=optimise.TIME_LIMIT_S
+    )
+    use_greedy = m.completed is None
+    if not use_greedy:
+        p = payments(
+            a.cost,
+            m.completed,
+            a.budget,
+            carry_over=carry_over,
+            allow_split=allow_split,
+            priority=a.order,
+        )
+        c = completion_from_payments(p, m.completed)
+        if not feasible(a.cost, c, a.budget, cumulative=cumulative):
+            raise RuntimeError("the solver's plan breaks the budget; please report this input")
+        v = _total(value, c)
+        # An optimum no better than the greedy plan: show the greedy plan, it is optimal too.
+        use_greedy = v <= got["greedy"] + 1e-9 * max(abs(v), 1e-300)
+    if use_greedy:
+        c, p, v = done["greedy"], pay["greedy"], got["greedy"]
+    done["optimised"], pay["optimised"], got["optimised"] = c, p, v
+    bound = max(m.bound, v) if np.isfinite(m.bound) else np.inf
+    gap = (
+        0.0
+        if bound - v <= 1e-12 * max(abs(bound), 1e-300)
+        else ((bound - v) / abs(v) if v else np.inf)
+    )
+    stopped = m.status != 0
+    if m.status == 1:
+        within = (
+            f"no more than {gap * 100:.3g} % below the best possible"
+            if np.isfinite(gap)
+            else "the greedy plan, as no plan was proven better in time"
+        )
+        warnings.append(
+            f"The optimiser stopped at its {optimise.TIME_LIMIT_S:g} s time limit; the optimised "
+            f"plan is {within}. A rerun on a slower or busier computer may stop elsewhere and "
+            "show a slightly different optimised plan."
+        )
+    elif stopped:
+        warnings.append(
+            f"The optimiser did not finish ({m.message}); the optimised plan shown is the "
+            + ("greedy plan." if use_greedy else "best plan it found.")
+        )
+
+    spent = {k: pay[k].sum(axis=0) for k in PLANS}
+    if cumulative:
+        unspent_g = np.cumsum(a.budget) - np.cumsum(spent["greedy"])
+    else:
+        unspent_g = a.budget - spent["greedy"]
+    frames = {k: _frame(a, names, done[k], pay[k], value) for k in PLANS}
+    if stopped and use_greedy:
+        differences = [
+            "The optimiser found no plan better than the greedy plan before it stopped, so "
+            "the optimised plan shown is the greedy plan."
+        ]
+    else:
+        differences = describe_differences(
+            a.ids,
+            names,
+            a.cost,
+            quantity,
+            obj,
+            a.years,
+            a.order,
+            done["greedy"],
+            done["optimised"],
+            got,
+            unspent_g,
+        )
+    plan = Plan(
+        greedy=frames["greedy"],
+        optimised=frames["optimised"],
+        schedule=_schedule(a, done, pay),
+        budget=_budget(a, spent, carry_over=carry_over),
+        objective=objective,
+        objective_value={k: float(got[k]) for k in PLANS},
+        gap=float(gap),
+        differences=differences,
+        coverage=None,
+        year_one_share=None,
+        warnings=warnings,
+    )
+    if connects is not None:
+        plan.coverage, more = coverage_view(
+            connects, a.ids, check_endpoints(endpoints), done, a.years
+        )
+        plan.warnings.extend(more)
+    elif check_endpoints(endpoints):
+        plan.warnings.append(
+            "coverage_endpoints is set but the Corridors sheet has no connects "
+            "column; the coverage view is left out."
+        )
+    if sample_scores is not None:
+        samples = check_samples(sample_scores, n)
+        share = year_one_share(
+            a.cost, samples, a.budget, carry_over=carry_over, allow_split=allow_split
+        )
+        plan.year_one_share = pd.Series(
+            share, index=pd.Index(a.ids, name="corridor_id"), name="year_one_share"
+        )
+    return plan
+
+
+def _total(value: np.ndarray, completed: np.ndarray) -> float:
+    f = completed >= 0
+    return float(value[np.flatnonzero(f), completed[f]].sum())
+
+
+def _warnings(a, quantity, what: str, *, carry_over: bool, allow_split: bool) -> list[str]:
+    out = []
+    total = float(a.budget.sum())
+    ids = np.asarray(a.ids)
+    if total <= 0:
+        out.append(f"{BUDGET}: the budget is zero in every year, so nothing can be funded.")
+    never = a.cost > total * (1 + 1e-12)
+    if never.any() and total > 0:
+        out.append(
+            f"{_ids(ids[never])} cost{'s' if never.sum() == 1 else ''} more than the whole budget "
+            f"({money(total)}) and can never be funded: "
+            + "; ".join(f"{i} {money(c)}" for i, c in zip(ids[never], a.cost[never], strict=True))
+            + "."
+        )
+    if not (carry_over or allow_split):
+        single = (a.cost > a.budget.max() * (1 + 1e-12)) & ~never
+        if single.any():
+            out.append(
+                f"{_ids(ids[single])} cost{'s' if single.sum() == 1 else ''} more than any single "
+                f"year's budget ({money(a.budget.max())}) and can never be funded while "
+                "budget_carry_over and allow_split are both off."
+            )
+    nothing = quantity <= 0
+    if nothing.any():
+        out.append(
+            f"{_ids(ids[nothing])} add{'s' if nothing.sum() == 1 else ''} nothing to the objective "
+            f"({what} of zero or less) and {'is' if nothing.sum() == 1 else 'are'} left out of the "
+            "optimised plan."
+        )
+    missing = sorted(set(range(a.years[0], a.years[-1] + 1)) - set(a.years.tolist()))
+    if missing:
+        out.append(
+            f"{BUDGET}: no row for {', '.join(map(str, missing))}; no corridor is funded in "
+            f"{'that year' if len(missing) == 1 else 'those years'}, and discounting still counts "
+            "every calendar year."
+        )
+    return out
+
+
+def _ids(ids) -> str:
+    ids = list(ids)
+    shown = ", ".join(ids[:8]) + (f" and {len(ids) - 8} more" if len(ids) > 8 else "")
+    return f"Corridor {shown}" if len(ids) == 1 else f"Corridors {shown}"
+
+
+def _frame(a, names, completed, pay, value) -> pd.DataFrame:
+    o = a.order
+    paid = pay > 0
+    first = np.where(paid.any(axis=1), np.argmax(paid, axis=1), completed)
+    first = np.where(completed >= 0, first, -1)
+
+    def year(idx):
+        return pd.array([int(a.years[t]) if t >= 0 else pd.NA for t in idx[o]], dtype="Int64")
+
+    f = completed >= 0
+    contrib = np.zeros(len(a.ids))
+    contrib[f] = value[np.flatnonzero(f), completed[f]]
+    out = {"corridor_id": [a.ids[i] for i in o]}
+    if names:
+        out["name"] = [str(names.get(a.ids[i], "")) for i in o]
+    out.update(
+        {
+            "rank": a.rank[o],
+            "score": a.score[o],
+            "capital_usd": a.cost[o],
+            "year_started": year(first),
+            "year_funded": year(completed),
+            "value": contrib[o],
+        }
+    )
+    return pd.DataFrame(out)
+
+
+def _schedule(a, done, pay) -> pd.DataFrame:
+    rows = []
+    for plan in PLANS:
+        for t in range(len(a.years)):
+            for i in a.order:
+                if pay[plan][i, t] > 0 or (done[plan][i] == t and a.cost[i] == 0):
+                    rows.append((plan, int(a.years[t]), a.ids[i], float(pay[plan][i, t])))
+    return pd.DataFrame(rows, columns=["plan", "year", "corridor_id", "spend_usd"])
+
+
+def _budget(a, spent, *, carry_over: bool) -> pd.DataFrame:
+    out = {"year": a.years.astype(int), "capital_usd": a.budget}
+    for plan in PLANS:
+        s = spent[plan]
+        left = np.cumsum(a.budget) - np.cumsum(s) if carry_over else a.budget - s
+        out[f"spent_{plan}"] = s
+        out[f"remaining_{plan}"] = np.maximum(left, 0.0)
+    return pd.DataFrame(out)
+
+
+__all__ = ["Plan", "build_plan"]
