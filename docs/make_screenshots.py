@@ -35,9 +35,17 @@ def shoot(html: Path, png: Path, *, height: int, profile: Path) -> None:
     if chromium is None:
         raise SystemExit("chromium is not installed (apt-get install chromium)")
     subprocess.run(
-        [chromium, *FLAGS, f"--user-data-dir={profile}", f"--screenshot={png}",
-         f"--window-size=1200,{height}", html.as_uri()],
-        check=True, capture_output=True, timeout=120,
+        [
+            chromium,
+            *FLAGS,
+            f"--user-data-dir={profile}",
+            f"--screenshot={png}",
+            f"--window-size=1200,{height}",
+            html.as_uri(),
+        ],
+        check=True,
+        capture_output=True,
+        timeout=120,
     )
 
 

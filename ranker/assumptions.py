@@ -26,7 +26,8 @@ class Assumption:
         Unit in the one notation of the docs (``[kWh/mi]``, ``[-]``).
     kind : str
         ``"float"``, ``"int"``, ``"choice"`` (one of ``choices``), ``"list"``
-        (comma-separated ``choices``) or ``"bool"`` (yes/no).
+        (comma-separated ``choices``), ``"names"`` (comma-separated free text)
+        or ``"bool"`` (yes/no).
     note : str
         One line: what it means and where the default comes from.
     group : str
@@ -661,6 +662,15 @@ _TABLE = [
         "phasing",
         choices=("score", "truck_miles"),
     ),
+    _a(
+        "coverage_endpoints",
+        "",
+        "[-]",
+        "names",
+        "Places the coverage view must see joined by funded corridors, comma-separated; "
+        "empty = every place named in the Corridors connects column.",
+        "phasing",
+    ),
 ]
 
 #: Key to :class:`Assumption`, in table order.
@@ -688,7 +698,7 @@ def resolve(given: dict[str, object], overrides: dict[str, object] | None = None
 
 def parse_default(a: Assumption) -> object:
     """Return an assumption's default in its typed form."""
-    if a.kind == "list":
+    if a.kind in ("list", "names"):
         return tuple(w.strip() for w in str(a.default).split(",") if w.strip())
     if a.kind == "bool":
         return str(a.default).lower() == "yes"

@@ -344,7 +344,9 @@ def _futures(inputs: Inputs, used, scores, weights_name):
         kept, _ = screen(matrix, inputs.included, inputs)
         return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
 
-    return futures(scenarios, rerank, scores.rank)
+    return futures(
+        scenarios, rerank, scores.rank, names=inputs.corridors["name"].astype(str).to_dict()
+    )
 
 
 def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
@@ -374,7 +376,7 @@ def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
         )
     connects = inputs.corridors["connects"] if "connects" in inputs.corridors.columns else None
     endpoints = assumptions.get("coverage_endpoints") or None
-    sample_scores = getattr(robustness, "sample_scores", None) if robustness else None
+    sample_scores = _sample_scores(matrix, inputs.included, scores, robustness, assumptions)
     return build_plan(
         capital,
         score,
@@ -390,6 +392,30 @@ def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
         sample_scores=sample_scores,
         names=inputs.corridors["name"].astype(str).to_dict(),
     )
+
+
+def _sample_scores(matrix, included, scores, robustness, assumptions):
+    """Primary-method scores under the Monte Carlo's weight draws, higher is better.
+
+    Shape (samples, corridors) in ``matrix``'s row order; None without draws.
+    The draws are in the criterion order the stress test was given
+    (``scores.weights``), so the plan sees the same samples as the acceptability.
+    """
+    from .score import METHODS
+
+    draws = getattr(robustness, "weight_draws", None)
+    if draws is None:
+        return None
+    method = METHODS[str(assumptions["primary_method"])]
+    keep = [c.key for c in included if c.key in scores.weights]  # as in _stress
+    direction = {c.key: c.is_benefit for c in included}
+    out = method.kernel(
+        matrix[keep].to_numpy(dtype=float),
+        draws,
+        [direction[k] for k in keep],
+        **method.kernel_options(assumptions),
+    )
+    return out if method.higher_is_better else -out
 
 
 def _unique(items: list[str]) -> list[str]:

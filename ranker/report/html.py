@@ -123,6 +123,11 @@ def build_html(result) -> str:
         for k, a in ASSUMPTIONS.items()
         if k in result.assumptions
     ]
+    methods = list(s.scores.columns)
+    primary = result.primary_method
+    others = [m for m in methods if m != primary]
+    first = rob.first_rank if has_samples(rob) else None
+    close = _close_calls(result)
     rows = []
     for cid, r in full.iterrows():
         rows.append(
@@ -130,16 +135,31 @@ def build_html(result) -> str:
                 "rank": int(r["rank"]),
                 "id": cid,
                 "name": r["name"],
-                "scores": [float(r[f"score_{m}"]) for m in s.scores.columns],
-                "ranks": [int(r[f"rank_{m}"]) for m in s.scores.columns],
-                "first": (float(rob.first_rank.get(cid, 0.0)) if has_samples(rob) else None),
+                "score": float(r[f"score_{primary}"]),
+                "other_ranks": [int(r[f"rank_{m}"]) for m in others],
+                "scores": [float(r[f"score_{m}"]) for m in methods],
+                "ranks": [int(r[f"rank_{m}"]) for m in methods],
+                "first": float(first.get(cid, 0.0)) if first is not None else None,
+                "close": close.get(cid, ""),
             }
         )
+    tied = sum(1 for v in close.values() if v)
+    close_note = (
+        '"Close call" marks a corridor whose score gap to the next one is smaller than what '
+        "the stated weight and data uncertainty can move (see the robustness sheet); treat such "
+        "neighbours as equal."
+        if tied
+        else "No neighbouring pair is practically tied."
+    )
     context = {
         "marker": HTML_MARKER,
         "r": result,
         "rows": rows,
-        "methods": list(s.scores.columns),
+        "methods": methods,
+        "primary": primary,
+        "others": others,
+        "labels": narrative.method_labels(methods),
+        "close_note": close_note,
         "recommendation": narrative.recommendation(result),
         "agreement": narrative.agreement_sentence(result),
         "reversal": narrative.reversal_sentences(result),
@@ -162,23 +182,23 @@ def build_html(result) -> str:
         "assumptions": assumptions,
         "caution": CAUTION,
         "excluded": result.excluded,
-        "closeness": _closeness(result),
     }
     return _environment().get_template("sheet.html.j2").render(**context)
 
 
-def _closeness(result) -> list[dict]:
-    """Adjacent pairs with names, for the "practically tied" note."""
+def _close_calls(result) -> dict:
+    """Corridor id to "practically tied with <next>" for adjacent close pairs."""
     rob = result.robustness
     if rob is None or not len(rob.closeness):
-        return []
+        return {}
     names = result.inputs.corridors["name"].astype(str)
-    rows = []
+    out: dict = {}
     for rec in rob.closeness.to_dict(orient="records"):
-        rec["upper_name"] = names.get(rec["corridor_id"], rec["corridor_id"])
-        rec["lower_name"] = names.get(rec["next_id"], rec["next_id"])
-        rows.append(rec)
-    return rows
+        if rec.get("practically_tied"):
+            out[rec["corridor_id"]] = (
+                f"tied with next ({names.get(rec['next_id'], rec['next_id'])})"
+            )
+    return out
 
 
 def _text(value):

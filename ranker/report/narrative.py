@@ -32,7 +32,8 @@ def recommendation(result) -> list[str]:
     s1 = f"Fund {top} first"
     if len(names) > 1:
         s1 += f", then {names[1]}" + (f" and {names[2]}" if len(names) > 2 else "")
-    s1 += f", by {result.primary_method} with the '{result.weight_set}' weights."
+    label = method_labels([result.primary_method])[result.primary_method]
+    s1 += f" ({label}, weight set '{result.weight_set}')."
     rob = result.robustness
     if has_samples(rob):
         share = float(rob.first_rank.get(first, 0.0))
@@ -62,6 +63,7 @@ def agreement_sentence(result) -> str:
     if tau is None or len(methods) < 2:
         return "Only one method was run."
     p = result.primary_method
+    labels = method_labels(methods)
     parts = []
     for m in methods:
         if m == p:
@@ -69,9 +71,10 @@ def agreement_sentence(result) -> str:
         t = float(tau.at[p, m]) if m in tau.columns and p in tau.index else float("nan")
         same_top = s.ranks[m].idxmin() == s.rank.idxmin()
         parts.append(
-            f"{m} (Kendall's tau {t:.2f}; {'same' if same_top else 'a different'} first corridor)"
+            f"{labels[m]} (Kendall's tau {t:.2f}; "
+            f"{'same' if same_top else 'a different'} first corridor)"
         )
-    return f"Against {p}: " + "; ".join(parts) + "."
+    return f"Other methods against {labels[p]}: " + "; ".join(parts) + "."
 
 
 def strongest_weakest(result, cid) -> tuple[str, str]:
@@ -146,3 +149,10 @@ def consistency_text(c: dict | None) -> str:
     if c.get("suggestion"):
         text += f"; {c['suggestion']}"
     return text
+
+
+def method_labels(methods) -> dict:
+    """Method key to its label for people (TOPSIS, Weighted sum, VIKOR (Q))."""
+    from ..score import METHODS
+
+    return {m: METHODS[m].label if m in METHODS else m for m in methods}

@@ -110,6 +110,10 @@ class Robustness:
     stakeholders: dict | None
     closeness: pd.DataFrame
     warnings: list[str] = field(default_factory=list)
+    #: The weight vectors drawn for the Monte Carlo, shape (samples, k) [-], in the
+    #: matrix's criterion order; None when it was off. Later stages (the build plan)
+    #: re-use them so every analysis sees the same samples.
+    weight_draws: np.ndarray | None = None
 
     def to_json(self) -> dict:
         """Return a JSON-ready summary (plain types; NaN as null)."""
@@ -438,6 +442,7 @@ def stress_test(
     pairs = adjacent_pairs(g0)
     ss_w, ss_v, ss_c = np.random.SeedSequence(seed).spawn(3)
     index = pd.Index(ids, name="corridor_id")
+    draws = None
     if samples:
         draws = WEIGHT_SAMPLERS[sampling](
             w, samples, rng=np.random.default_rng(ss_w), concentration=float(concentration)
@@ -504,4 +509,5 @@ def stress_test(
         stakeholders=stakeholders,
         closeness=closeness,
         warnings=warns,
+        weight_draws=draws,
     )

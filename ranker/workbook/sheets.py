@@ -120,6 +120,10 @@ def parse_assumption(a: Assumption, cell: Cell) -> object:
         return U.parse_choice(value, a.choices)
     if a.kind == "list":
         return U.parse_words(value, a.choices)
+    if a.kind == "names":
+        return tuple(
+            w.strip() for w in str("" if value is None else value).split(",") if w.strip()
+        )
     share = a.unit in ("[-]", "[1/yr]")
     if a.kind == "int":
         x = U.parse_int(value, unit=a.unit)

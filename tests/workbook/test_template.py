@@ -118,7 +118,8 @@ def test_assumptions_prefilled_with_every_key(book):
     assert [r[0] for r in rows] == list(ASSUMPTIONS)
     for r in rows:
         a = ASSUMPTIONS[r[0]]
-        assert (r[1], r[2], r[3], r[4]) == (a.default, a.unit, a.note, a.group)
+        default = None if a.default == "" else a.default  # an empty default is a blank cell
+        assert (r[1], r[2], r[3], r[4]) == (default, a.unit, a.note, a.group)
     groups = [r[4] for r in rows]
     # grouped: each group's rows are contiguous
     assert len(set(groups)) == len(
@@ -177,7 +178,10 @@ def test_round_trip(tmp_path):
     assert inputs.scenarios["value"].tolist() == [420000.0]
     assert inputs.pairwise is None  # the template's matrix holds no judgment
     # every pre-filled assumption reads back as its typed default
-    assert inputs.assumptions == {k: parse_default(a) for k, a in ASSUMPTIONS.items()}
+    # a key whose default is blank reads as not set, so the default applies
+    assert inputs.assumptions == {
+        k: parse_default(a) for k, a in ASSUMPTIONS.items() if a.default != ""
+    }
     assert inputs.warnings == []
     assert inputs.where("Corridors", "length_mi", "C02") == "Corridors!D3"
     assert inputs.sheet_names[0] == INSTRUCTIONS
