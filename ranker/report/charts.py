@@ -162,3 +162,55 @@ def tipping_chart(tips: list[dict], criterion_labels: dict[str, str]) -> str:
     ax.set_xlim(0, 1)
     ax.set_xlabel("weight on the criterion [-]  (circle: now; diamond: the top corridor changes)")
     return _svg(fig)
+
+
+def plan_gantt(greedy: pd.DataFrame, optimised: pd.DataFrame, labels: dict[str, str]) -> str:
+    """Gantt-style chart: the years each corridor is paid for, optimised and greedy plans."""
+    plt = _plt()
+    funded = [
+        cid
+        for cid in optimised["corridor_id"]
+        if cid in set(optimised.dropna(subset=["year_funded"])["corridor_id"])
+        or cid in set(greedy.dropna(subset=["year_funded"])["corridor_id"])
+    ]
+    if not funded:
+        return ""
+    fig, ax = plt.subplots(figsize=(7.0, _height(len(funded)) + 0.4))
+    y = np.arange(len(funded))
+    for plan, colour, offset, height, fill in (
+        (optimised, OKABE_ITO[0], -0.18, 0.34, True),
+        (greedy, OKABE_ITO[1], 0.18, 0.34, False),
+    ):
+        rows = plan.set_index("corridor_id")
+        for yi, cid in zip(y, funded, strict=True):
+            if cid not in rows.index or pd.isna(rows.at[cid, "year_funded"]):
+                continue
+            start = rows.at[cid, "year_started"]
+            start = rows.at[cid, "year_funded"] if pd.isna(start) else start
+            end = rows.at[cid, "year_funded"] + 1
+            ax.barh(
+                yi + offset,
+                end - start,
+                left=start,
+                height=height,
+                color=colour if fill else "none",
+                edgecolor=colour,
+                linewidth=1.5,
+            )
+    ax.set_yticks(y, [labels.get(c, c) for c in funded])
+    ax.invert_yaxis()
+    ax.set_xlabel("year funded [year]")
+    ax.xaxis.get_major_locator().set_params(integer=True)
+    from matplotlib.patches import Patch
+
+    ax.legend(
+        handles=[
+            Patch(color=OKABE_ITO[0], label="optimised plan"),
+            Patch(facecolor="none", edgecolor=OKABE_ITO[1], label="greedy plan (by rank)"),
+        ],
+        loc="upper center",
+        bbox_to_anchor=(0.5, -0.15),
+        ncol=2,
+        frameon=False,
+    )
+    return _svg(fig)

@@ -56,9 +56,10 @@ def _cards(result, shown) -> list[dict]:
                     facts.append(
                         (label, narrative.fmt(s[key]) if key != "governing_rule" else s[key])
                     )
-        changes = [
-            t["sentence"] for t in tips if cid in (t.get("corridor_id"), t.get("other_id"))
-        ][:4]
+        mine = [t for t in tips if cid in (t.get("corridor_id"), t.get("other_id"))]
+        # the nearest tipping points first: those are where the argument is
+        mine.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
+        changes = [t["sentence"] for t in mine[:4]]
         cards.append(
             {
                 "id": cid,
@@ -99,6 +100,15 @@ def build_html(result) -> str:
                 folded_acceptability(rob.acceptability.loc[ranking.index]), labels
             )
             if has_samples(rob)
+            else ""
+        ),
+        "plan": (
+            charts.plan_gantt(
+                result.plan.greedy,
+                result.plan.optimised,
+                {cid: f"{r['rank']}. {r['name']}" for cid, r in full.iterrows()},
+            )
+            if result.plan is not None
             else ""
         ),
         "tipping": charts.tipping_chart(rob.tipping_points, crit_labels)
@@ -166,6 +176,9 @@ def build_html(result) -> str:
         "figures": figures,
         "cards": _cards(result, ranking.index),
         "shown_note": shown_note,
+        "stakeholders": rob.stakeholders if rob is not None else None,
+        "futures": result.futures,
+        "plan": _plan_context(result),
         "criteria": [
             {
                 "key": c.key,
@@ -199,6 +212,36 @@ def _close_calls(result) -> dict:
                 f"tied with next ({names.get(rec['next_id'], rec['next_id'])})"
             )
     return out
+
+
+def _plan_context(result) -> dict | None:
+    """Numbers and sentences of the build plan for the sheet."""
+    plan = result.plan
+    if plan is None:
+        return None
+    names = result.inputs.corridors["name"].astype(str)
+    first_year = int(plan.budget["year"].min())
+    funded_first = plan.optimised.dropna(subset=["year_funded"])
+    funded_first = funded_first[funded_first["year_funded"] == first_year]
+    share = plan.year_one_share
+    return {
+        "objective": plan.objective,
+        "gap": plan.gap,
+        "values": plan.objective_value,
+        "differences": plan.differences,
+        "coverage": (plan.coverage or {}).get("sentence", ""),
+        "first_year": first_year,
+        "first": [
+            {
+                "id": cid,
+                "name": names.get(cid, cid),
+                "share": float(share[cid]) if share is not None and cid in share else None,
+            }
+            for cid in funded_first["corridor_id"]
+        ],
+        "budget": plan.budget.to_dict(orient="records"),
+        "warnings": plan.warnings,
+    }
 
 
 def _text(value):

@@ -108,7 +108,7 @@ def fmt(value) -> str:
         return "n/a"
     if abs(v) >= 1e6:
         return f"{v / 1e6:,.1f} million"
-    if abs(v) >= 1000:
+    if abs(v) >= 1000 or v.is_integer():
         return f"{v:,.0f}"
     if abs(v) >= 10:
         return f"{v:.1f}"

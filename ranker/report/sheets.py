@@ -257,6 +257,49 @@ def robustness_sheet(writer, result) -> None:
                     ws.cell(row=r, column=cc).fill = WARN_FILL
 
 
+def more_robustness_sheet(writer, result) -> None:
+    """Weight intervals per corridor, central weights, confidence, stakeholders, futures."""
+    rob = result.robustness
+    if rob is None:
+        return
+    ws = writer.sheet("Weight ranges", "Over which weights does each corridor keep its rank?")
+    bottom = 2
+    if len(rob.rank_intervals):
+        _, _, bottom, _ = writer.table(ws, rob.rank_intervals, name="rank_intervals")
+    if has_samples(rob):
+        put(
+            ws,
+            bottom + 2,
+            1,
+            "Central weights (mean weights of the samples in which the corridor "
+            "ranks first) and confidence factors (SMAA-2)",
+        ).font = HEADER_FONT
+        central = rob.central_weights.copy()
+        central["confidence_factor"] = rob.confidence.reindex(central.index)
+        central = central.loc[[c for c in result.ranking.index if c in central.index]]
+        _, _, bottom, _ = writer.table(
+            ws, central, top=bottom + 3, index_label="corridor_id", name="central_weights"
+        )
+    st = rob.stakeholders
+    if st:
+        put(ws, bottom + 2, 1, "Rank by weight set, and the consensus order").font = HEADER_FONT
+        put(ws, bottom + 3, 1, st.get("sentence", ""))
+        ranks = pd.DataFrame(st["ranks"])
+        consensus = pd.DataFrame(st["consensus"]).set_index("corridor_id")
+        table = ranks.join(consensus, how="left").loc[consensus.index]
+        _, _, bottom, _ = writer.table(
+            ws, table, top=bottom + 4, index_label="corridor_id", name="stakeholders"
+        )
+    if result.futures:
+        f = result.futures
+        ws2 = writer.sheet("Futures", "Rank under each future of the Scenarios sheet")
+        put(ws2, 3, 1, f.get("sentence", ""))
+        table = pd.DataFrame(f["corridors"]).set_index("corridor_id")
+        ranks = pd.DataFrame(f["ranks"])
+        table = table.join(ranks, how="left")
+        writer.table(ws2, table, top=4, index_label="corridor_id", name="futures")
+
+
 def plan_sheet(writer, result) -> None:
     """Phased build plan: year by corridor, spend, remaining budget."""
     plan = result.plan
@@ -270,8 +313,22 @@ def plan_sheet(writer, result) -> None:
     )
     put(ws, bottom + 2, 1, "Spend by year and corridor").font = HEADER_FONT
     _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
-    for i, sentence in enumerate(plan.differences, start=bottom + 2):
+    lines = [f"Optimality gap of the optimised plan: {plan.gap:.2%}."] + list(plan.differences)
+    if plan.coverage and plan.coverage.get("sentence"):
+        lines.append(plan.coverage["sentence"])
+    lines += [f"warning: {w}" for w in plan.warnings]
+    for i, sentence in enumerate(lines, start=bottom + 2):
         put(ws, i, 1, sentence)
+    bottom += len(lines) + 2
+    corridors = plan.optimised.set_index("corridor_id").add_prefix("optimised_")
+    corridors = corridors.join(
+        plan.greedy.set_index("corridor_id")[["year_funded"]].rename(
+            columns={"year_funded": "greedy_year_funded"}
+        )
+    )
+    if plan.year_one_share is not None:
+        corridors["funded_in_year_one_share"] = plan.year_one_share.reindex(corridors.index)
+    writer.table(ws, corridors, top=bottom + 1, index_label="corridor_id", name="plan_corridors")
 
 
 def run_info_sheet(writer, result) -> None:
@@ -349,6 +406,7 @@ WRITERS = [
     methods_sheet,
     sizing_sheet,
     robustness_sheet,
+    more_robustness_sheet,
     plan_sheet,
     run_info_sheet,
 ]

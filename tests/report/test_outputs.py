@@ -26,6 +26,8 @@ RESULT_SHEETS = [
     "Sizing",
     "Adoption path",
     "Robustness",
+    "Weight ranges",
+    "Futures",
     "Phasing",
     "Run info",
 ]
@@ -80,6 +82,9 @@ def test_html_golden(demo_run):
     assert html.count('<article class="card">') == len(summary["ranking"])
     for c in result.criteria:
         assert c.label in html.split('id="charts"')[1].split('id="corridors"')[0], c.label
+    # the demo has a budget, scenarios and several weight sets: each gets its section
+    assert 'id="plan"' in html and "greedy plan (by rank)" in html
+    assert "Futures" in html and "Do the weight sets agree?" in html
     for words in (
         "Planning-level estimates only",
         "Confirm grid capacity",
