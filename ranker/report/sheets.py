@@ -11,7 +11,7 @@ import pandas as pd
 from ..assumptions import ASSUMPTIONS
 from ..derive import BUILT_IN
 from .narrative import consistency_text
-from .summary import folded_acceptability, has_samples
+from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
 #: Units of the built-in criteria, for headers.
@@ -22,6 +22,11 @@ CRITERION_UNITS = {
     "grid_headroom": "[-]",
     "terrain_penalty": "[-]",
 }
+
+
+def chart_height(bars: int) -> float:
+    """Height of a bar chart in cm for ``bars`` bars [cm]."""
+    return min(24.0, 3.0 + 0.55 * bars)
 
 
 def criterion_unit(key: str) -> str:
@@ -55,13 +60,15 @@ def ranking_sheet(writer, result) -> None:
     )
     primary = f"score_{result.primary_method}"
     col = left + list(table.reset_index().columns).index(primary)
+    last = min(bottom, top + SHOWN_CORRIDORS)  # a chart of thousands of bars helps nobody
     bar_chart(
         ws,
-        title=f"Score by corridor ({result.primary_method})",
+        title=f"Score by corridor ({result.primary_method}), first {last - top}",
         y_title="score [-]",
-        cats=(left + 1, top + 1, left + 1, bottom),
-        data=(col, top, col, bottom),
-        anchor=f"{_letter(right + 2)}{top}",
+        cats=(left + 2, top + 1, left + 2, last),
+        data=(col, top, col, last),
+        anchor=f"B{bottom + 3}",
+        height=chart_height(last - top),
     )
 
 
@@ -116,14 +123,16 @@ def normalised_sheet(writer, result) -> None:
         ws, contrib, top=bottom + 3, index_label="corridor_id", name="contributions"
     )
     if len(contrib.columns):
+        last = min(bottom2, top + SHOWN_CORRIDORS)
         bar_chart(
             ws,
             title="Weighted contribution of each criterion",
             y_title="score [-]",
-            cats=(left, top + 1, left, bottom2),
-            data=(left + 1, top, right, bottom2),
-            anchor=f"{_letter(right + 2)}{top}",
+            cats=(left, top + 1, left, last),
+            data=(left + 1, top, right, last),
+            anchor=f"B{bottom2 + 3}",
             stacked=True,
+            height=chart_height(last - top),
         )
 
 
