@@ -187,6 +187,24 @@ def methods_sheet(writer, result) -> None:
             _, _, bottom, _ = writer.table(
                 ws, s.agreement[key], top=bottom + 3, index_label="method", name=key
             )
+    if s.vikor:
+        v = s.vikor
+        put(
+            ws, bottom + 2, 1, f"VIKOR compromise (v = {v.get('v')}), Opricovic and Tzeng (2004)"
+        ).font = HEADER_FONT
+        put(ws, bottom + 3, 1, v.get("note", ""))
+        put(
+            ws,
+            bottom + 4,
+            1,
+            "acceptable advantage: "
+            + ("yes" if v.get("acceptable_advantage") else "no")
+            + "; acceptable stability: "
+            + ("yes" if v.get("acceptable_stability") else "no")
+            + "; compromise set: "
+            + ", ".join(v.get("compromise_set", [])),
+        )
+        bottom += 4
     movers = s.agreement.get("movers", [])
     put(
         ws, bottom + 2, 1, "Corridors that move more than one place between methods"

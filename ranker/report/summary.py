@@ -81,7 +81,14 @@ def summary_json(result) -> dict:
         "weights": {k: float(v) for k, v in result.weights.items()},
         "weight_overrides": dict(result.overrides),
         "primary_method": result.primary_method,
-        "methods": list(s.scores.columns),
+        "methods": {
+            "used": list(s.scores.columns),
+            "primary": result.primary_method,
+            "kendall": s.agreement["kendall"].to_dict() if "kendall" in s.agreement else {},
+            "spearman": s.agreement["spearman"].to_dict() if "spearman" in s.agreement else {},
+            "movers": s.agreement.get("movers", []),
+            "vikor": s.vikor,
+        },
         "seed": result.seed,
         "ranking": ranking,
         "criteria": {
@@ -105,11 +112,6 @@ def summary_json(result) -> dict:
         "robustness": robustness,
         "rank_acceptability": {},
         "excluded": result.excluded,
-        "agreement": {
-            "kendall": s.agreement["kendall"].to_dict() if "kendall" in s.agreement else {},
-            "spearman": s.agreement["spearman"].to_dict() if "spearman" in s.agreement else {},
-            "movers": s.agreement.get("movers", []),
-        },
         "ties": s.ties,
         "futures": result.futures,
         "plan": result.plan.to_json() if result.plan is not None else None,
