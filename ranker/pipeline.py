@@ -10,6 +10,7 @@ from __future__ import annotations
 import datetime as _dt
 import math
 from collections.abc import Callable, Mapping
+from dataclasses import dataclass
 from pathlib import Path
 
 import pandas as pd
@@ -83,29 +84,15 @@ def rank_inputs(
 ) -> Result:
     """Rank already-read inputs; see :func:`rank_workbook`."""
     from .score import score_matrix
-    from .score.screen import screen
-    from .score.weights import resolve_weight_sets
 
     if samples < 0:
         raise InputError.one("--samples", f"{samples} is negative", "give 0 or more samples")
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
-    warnings = list(inputs.warnings)
-    assumptions = resolve(inputs.assumptions)
+    p = prepare(inputs)
+    assumptions, matrix, kept = p.assumptions, p.matrix, p.kept
+    warnings = list(p.warnings)
     included = inputs.included
-    if not included:
-        raise InputError.one(
-            CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
-        )
-    matrix, provenance, derivation = build_matrix(inputs, assumptions)
-    if derivation is not None:
-        warnings.extend(derivation.warnings)
-
-    kept, excluded = screen(matrix, included, inputs)
-    # Objective (entropy, CRITIC) sets describe the corridors actually scored.
-    sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
-    for s in sets:
-        warnings.extend(s.warnings)
-    chosen = choose_weight_set(sets, weights)
+    chosen = choose_weight_set(p.weight_sets, weights)
     used, overrides = apply_overrides(chosen, weight_overrides, included)
 
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
@@ -118,7 +105,7 @@ def rank_inputs(
             included,
             scores,
             used,
-            sets,
+            p.weight_sets,
             assumptions,
             inputs,
             samples,
@@ -136,7 +123,7 @@ def rank_inputs(
 
     plan = None
     if inputs.budget is not None and len(inputs.budget):
-        plan = _plan(inputs, assumptions, matrix.loc[kept], scores, derivation, robustness)
+        plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
 
     return Result(
@@ -145,12 +132,12 @@ def rank_inputs(
         weight_set=chosen.name,
         weights=used,
         overrides=overrides,
-        weight_sets=sets,
+        weight_sets=p.weight_sets,
         criteria=included,
         matrix=matrix,
-        provenance=provenance,
-        derivation=derivation,
-        excluded=excluded,
+        provenance=p.provenance,
+        derivation=p.derivation,
+        excluded=p.excluded,
         scores=scores,
         robustness=robustness,
         futures=futures,
@@ -159,6 +146,47 @@ def rank_inputs(
         samples=samples,
         seed=seed,
         started=started,
+    )
+
+
+@dataclass
+class Prepared:
+    """What every run needs before scoring: the matrix, the screen, the weight sets."""
+
+    assumptions: dict
+    matrix: pd.DataFrame
+    provenance: dict[str, str]
+    derivation: object | None
+    kept: pd.Index
+    excluded: list[dict]
+    weight_sets: list
+    warnings: list[str]
+
+
+def prepare(inputs: Inputs) -> Prepared:
+    """Resolve assumptions, build the criteria matrix, screen, and resolve weight sets.
+
+    Shared by ``ranker check`` (which stops here) and ``ranker run``.
+    """
+    from .score.screen import screen
+    from .score.weights import resolve_weight_sets
+
+    assumptions = resolve(inputs.assumptions)
+    if not inputs.included:
+        raise InputError.one(
+            CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
+        )
+    matrix, provenance, derivation = build_matrix(inputs, assumptions)
+    kept, excluded = screen(matrix, inputs.included, inputs)
+    # Objective (entropy, CRITIC) sets describe the corridors actually scored.
+    sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
+    warnings = list(inputs.warnings)
+    if derivation is not None:
+        warnings.extend(derivation.warnings)
+    for s in sets:
+        warnings.extend(s.warnings)
+    return Prepared(
+        assumptions, matrix, provenance, derivation, kept, excluded, sets, _unique(warnings)
     )
 
 
@@ -174,32 +202,23 @@ def check_workbook(path: str | Path) -> str:
     InputError
         Every problem found.
     """
-    from .score.screen import screen
-    from .score.weights import resolve_weight_sets
     from .workbook.read import read_workbook
 
     inputs = read_workbook(Path(path))
-    assumptions = resolve(inputs.assumptions)
-    if not inputs.included:
-        raise InputError.one(
-            CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
-        )
-    matrix, provenance, derivation = build_matrix(inputs, assumptions)
-    kept, excluded = screen(matrix, inputs.included, inputs)
-    sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
-    derived = sum(1 for v in provenance.values() if v == "derived")
-    warnings = list(inputs.warnings) + (derivation.warnings if derivation is not None else [])
+    p = prepare(inputs)
+    excluded, sets, warnings = p.excluded, p.weight_sets, p.warnings
+    derived = sum(1 for v in p.provenance.values() if v == "derived")
     text = (
         f"{len(inputs.corridors)} corridors ({len({e['corridor_id'] for e in excluded})} "
         f"screened out), {len(inputs.included)} criteria ({derived} derived), "
         f"{len(sets)} weight sets: {', '.join(s.name for s in sets)}."
     )
     if warnings:
-        text += "\n" + "\n".join(f"warning: {w}" for w in _unique(warnings))
+        text += "\n" + "\n".join(f"warning: {w}" for w in warnings)
     return text
 
 
-def build_matrix(inputs: Inputs, assumptions: dict, *, quiet_given: bool = False):
+def build_matrix(inputs: Inputs, assumptions: dict):
     """Assemble the criteria matrix: given columns, then derived built-ins.
 
     Returns
