@@ -1,11 +1,15 @@
 """Normalise a decision matrix column by column.
 
-Each function takes ``matrix`` (alternatives x criteria) and ``is_benefit``
-and returns an array of the same shape. ``vector`` and ``sum`` keep the
-direction of the values (cost criteria are then handled by the method, not by
-inverting values); ``minmax``, ``max`` and ``linear`` map each column onto a
-benefit scale on which higher is better (1 at the best value, except for a
-cost column under ``max``, whose best value maps to ``1 - min/max``).
+Each function takes ``matrix`` (alternatives x criteria, shape (n, k)) and
+``is_benefit`` and returns an array of the same shape. A stack of matrices,
+shape (s, n, k), is normalised matrix by matrix: every statistic (norm,
+sum, min, max) is taken along axis -2, the alternatives of one matrix.
+
+``vector`` and ``sum`` keep the direction of the values (cost criteria are
+then handled by the method, not by inverting values); ``minmax``, ``max``
+and ``linear`` map each column onto a benefit scale on which higher is
+better (1 at the best value, except for a cost column under ``max``, whose
+best value maps to ``1 - min/max``).
 
 A column whose denominator is zero (all values zero, or a constant column for
 ``minmax``) is divided by 1 instead, so no function here ever divides by zero;
@@ -41,14 +45,14 @@ def normalize_vector(matrix: np.ndarray, is_benefit: np.ndarray | None = None) -
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
+    matrix : ndarray, shape (n, k) or (s, n, k)
         Decision matrix in the criteria's own units [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,), optional
         Ignored; accepted so every normalisation has one signature [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values [-].
 
     References
@@ -62,7 +66,7 @@ def normalize_vector(matrix: np.ndarray, is_benefit: np.ndarray | None = None) -
     array([[0.6],
            [0.8]])
     """
-    norm = np.sqrt((matrix * matrix).sum(axis=0))  # Eq. (1) of [1], p. 131
+    norm = np.sqrt((matrix * matrix).sum(axis=-2, keepdims=True))  # Eq. (1) of [1], p. 131
     return matrix / _safe(norm)
 
 
@@ -71,14 +75,14 @@ def normalize_sum(matrix: np.ndarray, is_benefit: np.ndarray | None = None) -> n
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
+    matrix : ndarray, shape (n, k) or (s, n, k)
         Decision matrix in the criteria's own units [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,), optional
         Ignored; accepted so every normalisation has one signature [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values, each column summing to 1 [-].
 
     References
@@ -92,7 +96,7 @@ def normalize_sum(matrix: np.ndarray, is_benefit: np.ndarray | None = None) -> n
     array([[0.25],
            [0.75]])
     """
-    total = matrix.sum(axis=0)
+    total = matrix.sum(axis=-2, keepdims=True)
     return matrix / _safe(total)
 
 
@@ -104,14 +108,14 @@ def normalize_minmax(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
+    matrix : ndarray, shape (n, k) or (s, n, k)
         Decision matrix in the criteria's own units [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values in [0, 1], 1 best [-].
 
     References
@@ -126,8 +130,8 @@ def normalize_minmax(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
     array([[0., 1.],
            [1., 0.]])
     """
-    lo = matrix.min(axis=0)
-    hi = matrix.max(axis=0)
+    lo = matrix.min(axis=-2, keepdims=True)
+    hi = matrix.max(axis=-2, keepdims=True)
     span = _safe(hi - lo)
     return np.where(is_benefit, (matrix - lo) / span, (hi - matrix) / span)
 
@@ -140,14 +144,14 @@ def normalize_max(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
+    matrix : ndarray, shape (n, k) or (s, n, k)
         Decision matrix in the criteria's own units [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values, higher is better; 1 at a benefit column's best [-].
 
     References
@@ -162,7 +166,7 @@ def normalize_max(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
     array([[0.25, 0.75],
            [1.  , 0.  ]])
     """
-    hi = _safe(matrix.max(axis=0))
+    hi = _safe(matrix.max(axis=-2, keepdims=True))
     return np.where(is_benefit, matrix / hi, 1.0 - matrix / hi)
 
 
@@ -177,14 +181,14 @@ def normalize_linear(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
+    matrix : ndarray, shape (n, k) or (s, n, k)
         Decision matrix, every value > 0 [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values in (0, 1], 1 best [-].
 
     References
@@ -199,8 +203,8 @@ def normalize_linear(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
     array([[0.25, 1.  ],
            [1.  , 0.25]])
     """
-    hi = _safe(matrix.max(axis=0))
-    lo = matrix.min(axis=0)
+    hi = _safe(matrix.max(axis=-2, keepdims=True))
+    lo = matrix.min(axis=-2, keepdims=True)
     with np.errstate(divide="ignore", invalid="ignore"):
         cost = lo / np.where(matrix == 0, np.nan, matrix)
     return np.where(is_benefit, matrix / hi, np.nan_to_num(cost, nan=1.0))
@@ -224,7 +228,7 @@ def normalize(matrix: np.ndarray, is_benefit: np.ndarray, method: str) -> np.nda
 
     Parameters
     ----------
-    matrix : array_like, shape (n, k)
+    matrix : array_like, shape (n, k) or (s, n, k)
         Decision matrix in the criteria's own units [unit of each criterion].
     is_benefit : array_like of bool, shape (k,)
         True where more is better [-].
@@ -233,7 +237,7 @@ def normalize(matrix: np.ndarray, is_benefit: np.ndarray, method: str) -> np.nda
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values [-].
 
     Examples

@@ -15,6 +15,7 @@ from __future__ import annotations
 import numpy as np
 
 from .ranks import TIE_RTOL
+from .stack import criterion_major, weighted_rows
 
 
 def vikor_regret(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
@@ -22,14 +23,15 @@ def vikor_regret(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix in the criteria's own units [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack taken matrix by matrix (best and worst
+        along axis -2), in the criteria's own units [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Distance in [0, 1]: 0 at the best value, 1 at the worst; 0 for a
         constant column [-].
 
@@ -41,8 +43,8 @@ def vikor_regret(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
     """
     matrix = np.asarray(matrix, dtype=float)
     is_benefit = np.asarray(is_benefit, dtype=bool)
-    hi = matrix.max(axis=0)
-    lo = matrix.min(axis=0)
+    hi = matrix.max(axis=-2, keepdims=True)
+    lo = matrix.min(axis=-2, keepdims=True)
     best = np.where(is_benefit, hi, lo)  # Step 1 of [1], f*_j
     worst = np.where(is_benefit, lo, hi)  # f-_j
     span = best - worst
@@ -70,14 +72,17 @@ def vikor_indices(
     :func:`vikor_regret`, and
     ``Q_i = v (S_i - S*) / (S- - S*) + (1 - v) (R_i - R*) / (R- - R*)``.
     A term whose range is zero (every alternative has the same S, or the
-    same R) counts 0, as in scikit-criteria.
+    same R) counts 0, as in scikit-criteria. A stack of matrices (s, n, k)
+    is taken matrix by matrix: each has its own f*, f-, S*, S-, R*, R-.
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix in the criteria's own units [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack of them, in the criteria's own units
+        [unit of each criterion].
     weights : ndarray, shape (k,) or (s, k)
-        Weights summing to 1 [-].
+        Weights summing to 1 [-]; with one matrix a 2-D array scores ``s``
+        weight vectors, with a stack row m weighs matrix m.
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
     v : float
@@ -87,7 +92,7 @@ def vikor_indices(
     -------
     S, R, Q : ndarray, shape (n,) or (s, n)
         Group utility, individual regret and compromise index; lower is
-        better for all three; Q in [0, 1] [-].
+        better for all three; Q in [0, 1]; (s, n) for a stack [-].
 
     References
     ----------
@@ -101,16 +106,20 @@ def vikor_indices(
     >>> q
     array([1., 0., 1.])
     """
-    d = vikor_regret(matrix, is_benefit)
+    d = vikor_regret(criterion_major(matrix), is_benefit)
     w = np.asarray(weights, dtype=float)
     w2 = np.atleast_2d(w)
-    s = w2 @ d.T  # step 2 of [1], S_j
+    if d.ndim == 2:
+        s = w2 @ d.T  # step 2 of [1], S_j
+        d = d[None]
+    else:
+        s = weighted_rows(d, w)  # step 2 of [1], S_j, matrix by matrix
     # R one criterion at a time keeps memory at (s, n) for batches of weights.
     r = np.zeros_like(s)
-    for j in range(d.shape[1]):
-        np.maximum(r, w2[:, j : j + 1] * d[None, :, j], out=r)  # step 2 of [1], R_j
+    for j in range(d.shape[-1]):
+        np.maximum(r, w2[:, j : j + 1] * d[:, :, j], out=r)  # step 2 of [1], R_j
     q = v * _rescale(s) + (1.0 - v) * _rescale(r)  # step 3 of [1], Q_j
-    if w.ndim == 1:
+    if w.ndim == 1 and np.ndim(matrix) == 2:
         return s[0], r[0], q[0]
     return s, r, q
 
@@ -126,10 +135,12 @@ def vikor(
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix in the criteria's own units [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack taken matrix by matrix, in the
+        criteria's own units [unit of each criterion].
     weights : ndarray, shape (k,) or (s, k)
-        Weights summing to 1 [-].
+        Weights summing to 1 [-]; with one matrix a 2-D array scores ``s``
+        weight vectors, with a stack row m weighs matrix m.
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
     v : float
@@ -138,7 +149,7 @@ def vikor(
     Returns
     -------
     ndarray, shape (n,) or (s, n)
-        Q in [0, 1], lower is better [-].
+        Q in [0, 1], lower is better; (s, n) for a stack [-].
 
     References
     ----------

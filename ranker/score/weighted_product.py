@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from .normalize import normalize_linear
+from .stack import criterion_major, weighted_rows
 
 
 def positive_shift(matrix: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
@@ -15,18 +16,19 @@ def positive_shift(matrix: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     ones). This is a convention of this tool, not of the published method,
     which needs positive ratio-scale values; a zero terrain penalty is a
     legal value, so a shift is needed rather than an error. Columns that are
-    all positive are left alone.
+    all positive are left alone. A stack (s, n, k) is shifted matrix by
+    matrix (statistics along axis -2).
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack of them [unit of each criterion].
 
     Returns
     -------
-    shifted : ndarray, shape (n, k)
+    shifted : ndarray, same shape as ``matrix``
         Matrix with every value > 0 [unit of each criterion].
-    was_shifted : ndarray of bool, shape (k,)
+    was_shifted : ndarray of bool, shape (k,) or (s, k)
         True for the columns that were shifted [-].
 
     Examples
@@ -36,12 +38,12 @@ def positive_shift(matrix: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
            [2., 3.]])
     """
     matrix = np.asarray(matrix, dtype=float)
-    lo = matrix.min(axis=0)
-    hi = matrix.max(axis=0)
+    lo = matrix.min(axis=-2, keepdims=True)
+    hi = matrix.max(axis=-2, keepdims=True)
     was_shifted = lo <= 0
     span = hi - lo
     offset = np.where(span > 0, span - lo, 1.0 - lo)
-    return np.where(was_shifted, matrix + offset, matrix), was_shifted
+    return np.where(was_shifted, matrix + offset, matrix), was_shifted[..., 0, :]
 
 
 def weighted_product_normalized(matrix: np.ndarray, is_benefit: np.ndarray) -> np.ndarray:
@@ -54,14 +56,15 @@ def weighted_product_normalized(matrix: np.ndarray, is_benefit: np.ndarray) -> n
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix in the criteria's own units [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack normalised matrix by matrix, in the
+        criteria's own units [unit of each criterion].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Values in (0, 1], 1 best [-].
 
     Examples
@@ -91,21 +94,24 @@ def weighted_product(
 
     Values must be positive ratio-scale quantities; a column holding a value
     <= 0 is moved first by :func:`positive_shift` (the public wrapper warns
-    when it does).
+    when it does). A stack of matrices (s, n, k) is scored matrix by matrix
+    in one call, each normalised (and shifted) on its own.
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix in the criteria's own units [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack of them, in the criteria's own units
+        [unit of each criterion].
     weights : ndarray, shape (k,) or (s, k)
-        Weights summing to 1 [-].
+        Weights summing to 1 [-]; with one matrix a 2-D array scores ``s``
+        weight vectors, with a stack row m weighs matrix m.
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
 
     Returns
     -------
     ndarray, shape (n,) or (s, n)
-        Score in (0, 1], higher is better [-].
+        Score in (0, 1], higher is better; (s, n) for a stack [-].
 
     References
     ----------
@@ -121,7 +127,5 @@ def weighted_product(
     >>> weighted_product(m, np.array([0.5, 0.5]), np.array([True, False]))
     array([0.25, 1.  ])
     """
-    log_r = np.log(weighted_product_normalized(matrix, is_benefit))
-    return np.exp(
-        np.asarray(weights, dtype=float) @ log_r.T
-    )  # weighted product of [2], in logarithms
+    log_r = np.log(weighted_product_normalized(criterion_major(matrix), is_benefit))
+    return np.exp(weighted_rows(log_r, weights))  # weighted product of [2], in logarithms

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from .normalize import BENEFIT_SCALED, normalize
+from .stack import criterion_major, weighted_rows
 
 
 def signed_normalized(
@@ -27,7 +28,7 @@ def signed_normalized(
 
     Returns
     -------
-    ndarray, shape (n, k)
+    ndarray, same shape as ``matrix``
         Normalised values as the weighted sum adds them [-].
 
     Examples
@@ -54,13 +55,17 @@ def weighted_sum(
     """Compute the weighted sum of normalised values, higher is better.
 
     ``score_i = sum_j w_j r_ij`` with ``r`` from :func:`signed_normalized`.
+    A stack of matrices (s, n, k) is scored matrix by matrix in one call,
+    each normalised on its own (along axis -2).
 
     Parameters
     ----------
-    matrix : ndarray, shape (n, k)
-        Decision matrix in the criteria's own units [unit of each criterion].
+    matrix : ndarray, shape (n, k) or (s, n, k)
+        Decision matrix, or a stack of them, in the criteria's own units
+        [unit of each criterion].
     weights : ndarray, shape (k,) or (s, k)
-        Weights summing to 1 [-].
+        Weights summing to 1 [-]; with one matrix a 2-D array scores ``s``
+        weight vectors, with a stack row m weighs matrix m.
     is_benefit : ndarray of bool, shape (k,)
         True where more is better [-].
     normalization : str
@@ -69,7 +74,8 @@ def weighted_sum(
     Returns
     -------
     ndarray, shape (n,) or (s, n)
-        Score, higher is better; in [0, 1] after ``minmax`` [-].
+        Score, higher is better; in [0, 1] after ``minmax``; (s, n) for a
+        stack [-].
 
     References
     ----------
@@ -84,8 +90,8 @@ def weighted_sum(
     >>> weighted_sum(m, np.array([0.25, 0.75]), np.array([True, False]))
     array([0., 1.])
     """
-    norm = signed_normalized(matrix, is_benefit, normalization=normalization)
-    return np.asarray(weights, dtype=float) @ norm.T  # additive value of [1]
+    norm = signed_normalized(criterion_major(matrix), is_benefit, normalization=normalization)
+    return weighted_rows(norm, weights)  # additive value of [1]
 
 
 def weighted_sum_contributions(

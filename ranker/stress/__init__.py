@@ -350,8 +350,11 @@ def stress_test(
         Criterion to True where more is better.
     kernel : callable
         ``kernel(matrix, weights, is_benefit, **kernel_options) -> scores``
-        with matrix (n, k), weights (k,) or (s, k), scores (n,) or (s, n)
-        [-] (for example :func:`ranker.score.topsis.topsis`).
+        with matrix (n, k), weights (k,) or (s, k), scores (n,) or (s, n);
+        and with a stack of matrices (s, n, k), weights (s, k) or (k,),
+        scores (s, n), each matrix scored on its own [-]. Every kernel of
+        :data:`ranker.score.METHODS` does both (for example
+        :func:`ranker.score.topsis.topsis`).
     higher_is_better : bool
         False for a score where lower is better (VIKOR's Q).
     kernel_options : dict, optional

@@ -40,7 +40,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .batch import Scorer, beat_thresholds, chunk_size, rank_bounds
+from ranker.score.stack import empty_stack
+
+from .batch import Scorer, beat_thresholds, chunk_size, first_share, rank_bounds
 
 #: Element budget for the confidence-factor draws: draws x winners x n x k [-].
 CONFIDENCE_BUDGET = 100_000_000
@@ -117,11 +119,13 @@ def perturb_values(
     ndarray, shape (count, n, k)
         ``x (1 + spread u)``, ``u ~ U(-1, 1)`` [same unit as matrix].
     """
-    out = np.broadcast_to(matrix, (count, *matrix.shape)).copy()
+    out = empty_stack(count, *matrix.shape)  # the layout the kernels prefer
+    out[...] = matrix
     live = np.nonzero(spread > 0)[0]
     if live.size:
         u = rng.random((count, matrix.shape[0], live.size)) * 2.0 - 1.0
-        out[:, :, live] *= 1.0 + spread[live] * u
+        for c, j in enumerate(live):  # one contiguous criterion slab at a time
+            out[:, :, j] *= 1.0 + spread[j] * u[:, :, c]
     return out
 
 
@@ -165,11 +169,22 @@ class Acceptability:
 
 
 def _scores_for(scorer, matrix, weights, spread, rng):
-    """Score one chunk of samples: weights (c, k), values shaken where spread > 0."""
+    """Score one chunk of samples: weights (c, k), values shaken where spread > 0.
+
+    Shaken values are drawn and scored a stack of :func:`chunk_size` (n, k)
+    matrices at a time; the stream gives the same values however they are cut.
+    """
     if not np.any(spread > 0):
         return scorer.weights(matrix, weights)
-    mats = perturb_values(matrix, spread, weights.shape[0], rng=rng)
-    return scorer.stack(mats, weights)
+    n, k = matrix.shape
+    out = np.empty((weights.shape[0], n))
+    step = chunk_size(n, k)
+    for start in range(0, weights.shape[0], step):
+        w = weights[start : start + step]
+        out[start : start + len(w)] = scorer.stack(
+            perturb_values(matrix, spread, len(w), rng=rng), w
+        )
+    return out
 
 
 def rank_acceptability(
@@ -233,10 +248,12 @@ def rank_acceptability(
     diff_acc = np.zeros(n * (n + 1))
     first_sum = np.zeros(n)
     central_sum = np.zeros((n, k))
-    diffs = np.empty((s, len(pairs)), dtype=np.float32)
+    # Pair x sample, so that each pair's percentiles come from one contiguous row.
+    diffs = np.empty((len(pairs), s), dtype=np.float32)
     swaps = np.zeros(len(pairs))
     slots = (np.arange(n) * (n + 1))[None, :]
-    step = chunk_size(n, k)
+    # A chunk of samples is (c, n) scores; shaken values are stacked in smaller pieces.
+    step = chunk_size(n, 1)
     for start in range(0, s, step):
         w = w_all[start : start + step]
         g = _scores_for(scorer, x, w, spread, rng_values)
@@ -245,12 +262,14 @@ def rank_acceptability(
         # Spread each sample over the tied positions: +share at low, -share after high.
         diff_acc += np.bincount((slots + low - 1).ravel(), share.ravel(), n * (n + 1))
         diff_acc -= np.bincount((slots + high).ravel(), share.ravel(), n * (n + 1))
-        first = np.where(low == 1, share, 0.0)
-        first_sum += first.sum(axis=0)
-        central_sum += first.T @ w
+        # Only the first-placed corridors of each sample add to b^1 and the central weights.
+        row, col = np.nonzero(low == 1)
+        first = share[row, col]
+        first_sum += np.bincount(col, first, n)
+        central_sum += np.stack([np.bincount(col, first * w[row, j], n) for j in range(k)], axis=1)
         if len(pairs):
             ga, gb = g[:, pairs[:, 0]], g[:, pairs[:, 1]]
-            diffs[start : start + len(w)] = ga - gb
+            diffs[:, start : start + len(w)] = (ga - gb).T
             swaps += (gb > beat_thresholds(ga)).sum(axis=0)
         if progress is not None:
             progress(min(s, start + step), s)
@@ -261,7 +280,7 @@ def rank_acceptability(
     notes: list[str] = []
     confidence, draws = _confidence(scorer, x, central, spread, rng_confidence, s, notes)
     if len(pairs) and s:
-        low_q, high_q = np.percentile(diffs, [5.0, 95.0], axis=0)
+        low_q, high_q = np.percentile(diffs, [5.0, 95.0], axis=1)
     else:
         low_q = high_q = np.full(len(pairs), np.nan)
     return Acceptability(
@@ -301,18 +320,12 @@ def _confidence(scorer, x, central, spread, rng, samples, notes):
             f"not {samples:,}."
         )
     wins = np.zeros(winners.size)
-    step = max(1, chunk_size(n, k) // winners.size)
+    step = chunk_size(n, k)
     for start in range(0, draws, step):
         c = min(step, draws - start)
         mats = perturb_values(x, spread, c, rng=rng)
-        if scorer.stack_supported(k):
-            rep = np.repeat(mats, winners.size, axis=0)
-            g = scorer.stack(rep, np.tile(cw, (c, 1))).reshape(c, winners.size, n)
-        else:
-            g = np.stack([scorer.weights(m, cw) for m in mats])
-        low, high = rank_bounds(g.reshape(c * winners.size, n))
-        low = low.reshape(c, winners.size, n)[:, rows, winners]
-        high = high.reshape(c, winners.size, n)[:, rows, winners]
-        wins += np.where(low == 1, 1.0 / (high - low + 1), 0.0).sum(axis=0)
+        # Every winner's central weights score the same value draws.
+        for r, i in enumerate(winners):
+            wins[r] += first_share(scorer.stack(mats, cw[r]), i).sum()
     confidence[winners] = wins / draws
     return confidence, draws

@@ -12,17 +12,13 @@ Two pieces every analysis shares:
   *oriented*: higher is always better (a lower-is-better score such as
   VIKOR's Q is negated).
 
-How a stack is scored is found out once per kernel by trying each way on a
-tiny random problem and comparing with one-by-one calls (to 1e-10):
-
-1. the kernel takes the stack (s, m, k) itself;
-2. else, for small problems (m x k <= :data:`BLOCK_MAX_CELLS`), side by side:
-   the matrices become column blocks of one (m, B k) matrix scored under B
-   weight rows, each zero outside its own block. This is exact for kernels
-   that normalise column by column and in which a zero weight removes a
-   column (TOPSIS, weighted sum and product, VIKOR); a chunk whose scores
-   come back non-finite is redone one by one;
-3. else one matrix at a time.
+Every kernel of :data:`ranker.score.methods.METHODS` takes a stack of
+matrices, shape (s, m, k), and scores it matrix by matrix (each normalised
+on its own), so a stack is scored in one kernel call per chunk: the
+Monte Carlo with value uncertainty, the replaced, cloned and left-out
+variants of the rank-reversal checks and the two-corridor sub-problems of
+tests 2 and 3 all go through :meth:`Scorer.stack`. Chunks are sized so that
+no intermediate array holds more than :data:`ELEMENT_BUDGET` numbers.
 
 Tie rule (documented once here, used everywhere in ``ranker.stress``):
 corridor ``a`` beats ``b`` when ``g_a - g_b > TIE_RTOL * max(|g_a|, |g_b|)``;
@@ -43,12 +39,11 @@ import numpy as np
 from ranker.score.ranks import TIE_RTOL
 
 #: Largest number of float64 elements one kernel call is asked to build per
-#: intermediate array (a stack of s matrices of n x k counts s*n*k) [-].
-ELEMENT_BUDGET = 4_000_000
-#: Largest m x k for which small problems are scored side by side [-].
-BLOCK_MAX_CELLS = 128
-#: Elements one side-by-side call may build, B^2 m k [-].
-BLOCK_BUDGET = 100_000
+#: intermediate array (a stack of s matrices of n x k counts s*n*k) [-]. At
+#: 2 MiB an array the kernel's temporaries stay in the processor's cache:
+#: measured about twice as fast per element as 32 MiB chunks, while the
+#: per-call overhead stays negligible.
+ELEMENT_BUDGET = 262_144
 
 
 def beat_thresholds(goodness: np.ndarray) -> np.ndarray:
@@ -156,6 +151,38 @@ def rank_bounds(goodness: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return _low_high(goodness)
 
 
+def first_share(goodness: np.ndarray, i: int) -> np.ndarray:
+    """Share of first place corridor ``i`` takes in each row of scores [-].
+
+    1 / (size of its tie group) where nothing beats it, else 0: the value
+    :func:`rank_bounds` gives as ``1 / (high - low + 1)`` where ``low == 1``,
+    by the same two comparisons (something beats i; i beats something) but
+    without sorting, in ``O(s n)``.
+
+    Parameters
+    ----------
+    goodness : ndarray, shape (s, n)
+        Oriented scores, higher is better [-].
+    i : int
+        Corridor index.
+
+    Returns
+    -------
+    ndarray, shape (s,)
+        Share of first place in each row [-].
+
+    Examples
+    --------
+    >>> first_share(np.array([[0.9, 0.5], [0.5, 0.9], [0.7, 0.7]]), 0)
+    array([1. , 0. , 0.5])
+    """
+    g = np.atleast_2d(np.asarray(goodness, dtype=float))
+    gi = g[:, i : i + 1]
+    beaten = (g > beat_thresholds(gi)).any(axis=1)  # low > 1
+    beats = (-g > beat_thresholds(-gi)).sum(axis=1)  # as the high bound counts it
+    return np.where(beaten, 0.0, 1.0 / (g.shape[1] - beats))
+
+
 def chunk_size(rows: int, cols: int, *, budget: int | None = None) -> int:
     """Return how many (rows x cols) problems one kernel call may take [-].
 
@@ -173,7 +200,10 @@ class Scorer:
     ----------
     kernel : callable
         ``kernel(matrix, weights, is_benefit, **options) -> scores``; matrix
-        (n, k), weights (k,) or (s, k), scores (n,) or (s, n) [-].
+        (n, k) with weights (k,) or (s, k), scores (n,) or (s, n); or a
+        stack of matrices (s, n, k) with weights (s, k) or (k,), scores
+        (s, n), each matrix scored on its own, as every kernel of
+        :data:`ranker.score.methods.METHODS` does [-].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better.
     higher_is_better : bool
@@ -186,19 +216,24 @@ class Scorer:
     is_benefit: np.ndarray
     higher_is_better: bool = True
     options: dict = field(default_factory=dict)
-    _stacks: bool | None = None
-    _blocks: bool | None = None
 
     def _orient(self, scores: np.ndarray) -> np.ndarray:
         scores = np.asarray(scores, dtype=float)
         return scores if self.higher_is_better else -scores
 
     def raw(self, matrix: np.ndarray, weights: np.ndarray) -> np.ndarray:
-        """Score one matrix under one or many weight vectors, as the kernel does [-]."""
+        """Score one matrix or a stack under its weights, as the kernel does [-]."""
         return np.asarray(self.kernel(matrix, weights, self.is_benefit, **self.options), float)
 
     def weights(self, matrix: np.ndarray, weights: np.ndarray) -> np.ndarray:
-        """Score one matrix (n, k) under weights (s, k), in chunks; oriented (s, n) [-]."""
+        """Score one matrix (n, k) under weights (s, k), in chunks; oriented (s, n) [-].
+
+        A chunk holds :func:`chunk_size` ``(n, k)`` weight rows, so the
+        kernel's ``(s, k) @ (k, n)`` products stay at most
+        :data:`ELEMENT_BUDGET` multiply-adds: OpenBLAS runs products that
+        small on one thread, and its threads, on a machine busy with other
+        work, were measured to make whole analyses two to three times slower.
+        """
         w = np.atleast_2d(weights)
         n, k = matrix.shape
         step = chunk_size(n, k)
@@ -210,61 +245,42 @@ class Scorer:
             )
         return out
 
-    def stack_supported(self, k: int) -> bool:
-        """Whether the kernel scores a stack (s, n, k) of matrices in one call."""
-        if self._stacks is None:
-            self._stacks = _probe_stacks(self, k)
-        return self._stacks
-
-    def blocks_supported(self, k: int) -> bool:
-        """Whether small problems can be scored side by side (see the module notes)."""
-        if self._blocks is None:
-            self._blocks = _probe_blocks(self, k)
-        return self._blocks
-
     def stack(self, matrices: np.ndarray, weights: np.ndarray) -> np.ndarray:
-        """Score matrices (s, m, k), each under its own weights (s, k) or one (k,); oriented (s, m) [-]."""
+        """Score matrices (s, m, k) under weights (s, k) or one (k,); oriented (s, m) [-].
+
+        Matrix i is scored under weight row i (or the one vector), one
+        kernel call per chunk of :func:`chunk_size` matrices.
+
+        Raises
+        ------
+        ValueError
+            When the kernel does not return one score per alternative of
+            each matrix (a kernel that cannot take a stack).
+        """
         mats = np.asarray(matrices, dtype=float)
         s, m, k = mats.shape
-        w = np.broadcast_to(np.asarray(weights, dtype=float), (s, k))
+        w = np.asarray(weights, dtype=float)
         out = np.empty((s, m))
-        if s and self.stack_supported(k):
-            step = chunk_size(m, k)
-            for start in range(0, s, step):
-                stop = min(s, start + step)
-                raw = self.raw(mats[start:stop], np.ascontiguousarray(w[start:stop]))
-                out[start:stop] = self._orient(raw).reshape(stop - start, m)
-            return out
-        if s > 1 and m * k <= BLOCK_MAX_CELLS and self.blocks_supported(k):
-            step = max(1, int(np.sqrt(BLOCK_BUDGET / (m * k))))
-            for start in range(0, s, step):
-                stop = min(s, start + step)
-                out[start:stop] = self._side_by_side(mats[start:stop], w[start:stop])
-            return out
-        for i in range(s):
-            out[i] = self._orient(self.raw(mats[i], w[i]))
+        step = chunk_size(m, k)
+        for start in range(0, s, step):
+            stop = min(s, start + step)
+            raw = self.raw(mats[start:stop], w if w.ndim == 1 else w[start:stop])
+            if raw.shape != (stop - start, m):
+                raise ValueError(
+                    f"the scoring kernel returned shape {raw.shape} for a stack of "
+                    f"{stop - start} matrices of {m} x {k}; it must score a stack (s, n, k) "
+                    "matrix by matrix, as the kernels of ranker.score.METHODS do"
+                )
+            out[start:stop] = self._orient(raw)
         return out
-
-    def _side_by_side(self, mats: np.ndarray, w: np.ndarray) -> np.ndarray:
-        """Score B small matrices as column blocks of one matrix; oriented (B, m)."""
-        b, m, k = mats.shape
-        wide = mats.transpose(1, 0, 2).reshape(m, b * k)
-        block_w = np.zeros((b, b * k))
-        rows = np.repeat(np.arange(b), k)
-        block_w[rows, np.arange(b * k)] = w.ravel()
-        raw = np.asarray(
-            self.kernel(wide, block_w, np.tile(self.is_benefit, b), **self.options), dtype=float
-        ).reshape(b, m)
-        if not np.all(np.isfinite(raw)):
-            raw = np.stack([self.raw(mats[i], w[i]) for i in range(b)])
-        return self._orient(raw)
 
 
 def score_variants(scorer: Scorer, weights, count, rows, k, build) -> np.ndarray:
     """Score ``count`` variant problems of ``rows`` x ``k``, built a chunk at a time.
 
     ``build(start, stop)`` returns the stack (stop - start, rows, k) of
-    variants; memory stays bounded however many variants there are.
+    variants; each chunk is scored in one kernel call, so memory stays
+    bounded however many variants there are.
 
     Returns
     -------
@@ -272,36 +288,8 @@ def score_variants(scorer: Scorer, weights, count, rows, k, build) -> np.ndarray
         Oriented scores [-].
     """
     out = np.empty((count, rows))
-    step = chunk_size(rows, k) if scorer.stack_supported(k) else 256
+    step = chunk_size(rows, k)
     for start in range(0, count, step):
         stop = min(count, start + step)
         out[start:stop] = scorer.stack(build(start, stop), weights)
     return out
-
-
-def _probe_stacks(scorer: Scorer, k: int) -> bool:
-    """Try a stack of three tiny matrices; true if it equals one-by-one scoring."""
-    rng = np.random.default_rng(7)
-    mats = rng.uniform(1.0, 10.0, size=(3, 4, k))
-    w = rng.dirichlet(np.ones(k), size=3)
-    try:
-        stacked = np.asarray(scorer.raw(mats, w), dtype=float)
-        single = np.stack([scorer.raw(mats[i], w[i]) for i in range(3)])
-    except Exception:  # a kernel that cannot take a stack may fail in any way
-        return False
-    return stacked.shape == single.shape and bool(
-        np.allclose(stacked, single, rtol=1e-10, atol=1e-12)
-    )
-
-
-def _probe_blocks(scorer: Scorer, k: int) -> bool:
-    """Try three tiny matrices side by side; true if it equals one-by-one scoring."""
-    rng = np.random.default_rng(11)
-    mats = rng.uniform(1.0, 10.0, size=(3, 4, k))
-    w = rng.dirichlet(np.ones(k), size=3)
-    try:
-        blocked = scorer._side_by_side(mats, w)
-        single = np.stack([scorer._orient(scorer.raw(mats[i], w[i])) for i in range(3)])
-    except Exception:  # a kernel that mixes columns may fail in any way
-        return False
-    return bool(np.allclose(blocked, single, rtol=1e-10, atol=1e-12))

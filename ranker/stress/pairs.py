@@ -5,11 +5,9 @@ rows of the matrix, same weights); the winner of each pair gives a strict
 preference, a tie gives none. :mod:`ranker.stress.reversal` turns the
 relation into the verdicts of Wang & Triantaphyllou's tests 2 and 3 [1]_.
 
-Documented rule: when the kernel can score two-corridor problems neither as
-a stack nor side by side (see :mod:`ranker.stress.batch`) and there are more
-than :data:`MAX_PAIRS_ONE_BY_ONE` pairs, only the pairs of corridors within
-a fixed distance of each other in the full order, and the first corridor
-against every other, are scored.
+Every pair is scored: the n (n - 1) / 2 two-corridor problems form a stack
+(p, 2, k) that the kernel scores a chunk at a time (see
+:mod:`ranker.stress.batch`).
 
 References
 ----------
@@ -26,9 +24,6 @@ import numpy as np
 
 from .batch import Scorer, rank_batch, score_variants
 
-#: Most two-corridor problems scored one call at a time [-].
-MAX_PAIRS_ONE_BY_ONE = 50_000
-
 
 @dataclass
 class PairPreferences:
@@ -40,8 +35,6 @@ class PairPreferences:
         The corridors of each pair (a < b by index).
     sign : ndarray of int, shape (p,)
         +1 where a wins its pair, -1 where b wins, 0 for a tie.
-    complete : bool
-        True when every pair was scored.
     prefer : ndarray, shape (n, n)
         1 where the row corridor beats the column corridor on their own.
     cycles : int
@@ -51,26 +44,11 @@ class PairPreferences:
     a: np.ndarray
     b: np.ndarray
     sign: np.ndarray
-    complete: bool
     prefer: np.ndarray
     cycles: int
 
 
-def pairs_to_check(ranks: np.ndarray, fast: bool):
-    """All pairs, or (one call at a time, many corridors) near pairs plus the first."""
-    n = ranks.size
-    ia, ib = np.triu_indices(n, 1)
-    if fast or ia.size <= MAX_PAIRS_ONE_BY_ONE:
-        return ia, ib, True
-    pos = np.argsort(np.argsort(ranks, kind="stable"), kind="stable")
-    window = max(1, MAX_PAIRS_ONE_BY_ONE // n - 1)
-    near = (np.abs(pos[ia] - pos[ib]) <= window) | (pos[ia] == 0) | (pos[ib] == 0)
-    return ia[near], ib[near], False
-
-
-def pair_preferences(
-    scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, ranks: np.ndarray
-) -> PairPreferences:
+def pair_preferences(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray) -> PairPreferences:
     """Score every two-corridor sub-problem and count preference cycles.
 
     Parameters
@@ -81,8 +59,6 @@ def pair_preferences(
         Decision matrix in the criteria's own units.
     weights : ndarray, shape (k,)
         Weights [-].
-    ranks : ndarray of int, shape (n,)
-        Full-problem ranks (to choose pairs when not all are scored) [-].
 
     Returns
     -------
@@ -90,8 +66,7 @@ def pair_preferences(
     """
     x = np.asarray(matrix, dtype=float)
     n, k = x.shape
-    fast = scorer.stack_supported(k) or scorer.blocks_supported(k)
-    ia, ib, complete = pairs_to_check(ranks, fast)
+    ia, ib = np.triu_indices(n, 1)
 
     def build(start, stop):
         return np.stack([x[ia[start:stop]], x[ib[start:stop]]], axis=1)
@@ -103,7 +78,7 @@ def pair_preferences(
     prefer[ib[sign < 0], ia[sign < 0]] = 1.0
     # Each 3-cycle appears three times on the diagonal of P^3.
     cycles = int(round(np.trace(prefer @ prefer @ prefer) / 3))
-    return PairPreferences(ia, ib, sign, complete, prefer, cycles)
+    return PairPreferences(ia, ib, sign, prefer, cycles)
 
 
 def three_cycles(prefer: np.ndarray, limit: int) -> list[tuple[int, int, int]]:

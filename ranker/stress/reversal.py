@@ -25,11 +25,10 @@ Five checks, each re-scoring the problem with the same weights:
 A swap is a pair whose strict order reverses (A above B before, B above A
 after); a pair moving into or out of a tie is not a swap. At most
 :data:`MAX_DETAILS` swaps are listed per check (the count is always given).
-When the kernel can score two-corridor problems neither as a stack nor side
-by side (see :mod:`ranker.stress.batch`) and there are more than
-:data:`ranker.stress.pairs.MAX_PAIRS_ONE_BY_ONE` pairs, tests 2 and 3 check the pairs of
-corridors within a fixed distance in the full order and the first corridor
-against every other, and say so.
+The variants of each check (every replaced, cloned or left-out problem, and
+every two-corridor sub-problem of tests 2 and 3) are scored as stacks, a
+chunk per kernel call (see :mod:`ranker.stress.batch`); all pairs are
+always checked.
 
 References
 ----------
@@ -48,6 +47,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
+
+from ranker.score.stack import empty_stack
 
 from .batch import rank_batch, score_variants
 from .pairs import pair_preferences, three_cycles
@@ -129,74 +130,95 @@ def worsen(matrix: np.ndarray, is_benefit: np.ndarray, *, fraction: float = WORS
     return np.where((x >= 0) & (moved < 0), 0.0, np.where((x <= 0) & (moved > 0), 0.0, moved))
 
 
-def _reorders(r0, ranks, keeps):
-    """Swapped index pairs per variant, for the variants that reorder anything.
+class _Swaps:
+    """The swaps of every variant: counts for all, pairs on demand.
 
     Sorting each variant's kept corridors by their old rank (then new rank),
     a swap is a later corridor with a better new rank. Only corridors with a
     worse new rank somewhere before them, or a better one after them, can be
-    part of a swap; the pairs are found among those alone.
+    part of a swap; pairs are counted, and listed when asked for, among
+    those alone.
 
-    Returns
-    -------
-    list of (variant, a, b)
-        ``a`` and ``b`` index arrays: a above b before, below it after.
+    Attributes
+    ----------
+    counts : ndarray of int, shape (v,)
+        Swaps per variant [-].
+    top : ndarray of int, shape (v,)
+        Swaps per variant whose upper corridor was first before [-].
     """
-    v, size = ranks.shape
-    if not v:
-        return []
-    big = size + 1
-    old = np.full((v, size), big, dtype=np.int64)
-    new = np.full((v, size), big, dtype=np.int64)
-    for i, keep in enumerate(keeps):
-        old[i, keep] = r0[keep]
-        new[i, keep] = ranks[i, keep]
-    order = np.argsort(old * (size + 2) + new, axis=1, kind="stable")
-    after = np.take_along_axis(new, order, axis=1)
-    moved = np.nonzero((np.diff(after, axis=1) < 0).any(axis=1))[0]
-    if not moved.size:
-        return []
-    after, order = after[moved], order[moved]
-    before_max = np.maximum.accumulate(
-        np.concatenate([after[:, :1], after[:, :-1]], axis=1), axis=1
-    )
-    after_min = np.minimum.accumulate(
-        np.concatenate([after[:, 1:], after[:, -1:]], axis=1)[:, ::-1], axis=1
-    )[:, ::-1]
-    flagged = (before_max > after) | (after_min < after)
-    out = []
-    for row, var in enumerate(moved):
-        m = order[row, flagged[row]]
-        o, w = old[var, m], new[var, m]
+
+    def __init__(self, r0, ranks, kept, is_best):
+        v, size = ranks.shape
+        big = size + 1
+        self.old = np.where(kept, r0[None, :], big).astype(np.int64)
+        self.new = np.where(kept, ranks, big).astype(np.int64)
+        self.counts = np.zeros(v, dtype=np.int64)
+        self.top = np.zeros(v, dtype=np.int64)
+        self._members: dict[int, np.ndarray] = {}
+        if not v:
+            return
+        order = np.argsort(self.old * (size + 2) + self.new, axis=1, kind="stable")
+        after = np.take_along_axis(self.new, order, axis=1)
+        moved = np.nonzero((np.diff(after, axis=1) < 0).any(axis=1))[0]
+        if not moved.size:
+            return
+        after, order = after[moved], order[moved]
+        before_max = np.maximum.accumulate(
+            np.concatenate([after[:, :1], after[:, :-1]], axis=1), axis=1
+        )
+        after_min = np.minimum.accumulate(
+            np.concatenate([after[:, 1:], after[:, -1:]], axis=1)[:, ::-1], axis=1
+        )[:, ::-1]
+        flagged = (before_max > after) | (after_min < after)
+        for row, var in enumerate(moved):
+            m = order[row, flagged[row]]
+            self._members[int(var)] = m
+            o, w = self.old[var, m], self.new[var, m]
+            self.counts[var] = np.count_nonzero(
+                (o[:, None] < o[None, :]) & (w[:, None] > w[None, :])
+            )
+        for a in np.nonzero(is_best)[0]:
+            oa, wa = self.old[:, a : a + 1], self.new[:, a : a + 1]
+            self.top += ((self.old > oa) & (self.new < wa)).sum(axis=1)
+
+    def pairs(self, var: int) -> tuple[np.ndarray, np.ndarray]:
+        """Swapped pairs (a above b before, below it after) of one variant, in sorted order."""
+        m = self._members.get(int(var))
+        if m is None:
+            return np.zeros(0, dtype=int), np.zeros(0, dtype=int)
+        o, w = self.old[var, m], self.new[var, m]
         ia, ib = np.nonzero((o[:, None] < o[None, :]) & (w[:, None] > w[None, :]))
-        out.append((var, m[ia], m[ib]))
-    return out
+        return m[ia], m[ib]
 
 
-def _collect(ids, changed_list, r0, g0, ranks, goods, keeps, best):
+def _collect(ids, changed_list, r0, g0, ranks, goods, kept, best):
     """Swap records for each variant; variant v changed corridor changed_list[v].
 
-    Returns the records (at most MAX_DETAILS, those costing first place
-    first), the number of swaps, the corridors whose change cost first
-    place, the corridors whose change reordered anything, and the number of
-    swaps that cost first place.
+    ``kept`` (variants x corridors, bool) marks the corridors each variant's
+    order is compared on. Returns the records (at most MAX_DETAILS, those
+    costing first place first), the number of swaps, the corridors whose
+    change cost first place, the corridors whose change reordered anything,
+    and the number of swaps that cost first place.
     """
     changed_list = list(changed_list)
-    count, lost, top_count, moved = 0, [], 0, []
     is_best = np.zeros(len(r0), dtype=bool)
     is_best[sorted(best)] = True
+    sw = _Swaps(np.asarray(r0), ranks, kept, is_best)
+    moved = [ids[changed_list[v]] for v in np.nonzero(sw.counts)[0]]
+    lost = [ids[changed_list[v]] for v in np.nonzero(sw.top)[0]]
     top_found, other_found = [], []
-    for v, a, b in _reorders(r0, ranks, keeps):
-        count += a.size
-        moved.append(ids[changed_list[v]])
-        top = is_best[a]
-        top_count += int(top.sum())
-        if top.any():
-            lost.append(ids[changed_list[v]])
-        top_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(top)[0])
+    # Variant by variant, pairs in sorted order: swaps costing first place first.
+    for v in np.nonzero(sw.top)[0]:
+        if len(top_found) >= MAX_DETAILS:
+            break
+        a, b = sw.pairs(v)
+        top_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(is_best[a])[0])
+    for v in np.nonzero(sw.counts - sw.top)[0]:
         room = MAX_DETAILS - len(other_found)
-        if room > 0:
-            other_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(~top)[0][:room])
+        if room <= 0 or len(top_found) >= MAX_DETAILS:
+            break
+        a, b = sw.pairs(v)
+        other_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(~is_best[a])[0][:room])
     records = []
     for v, a, b in (top_found + other_found)[:MAX_DETAILS]:
         records.append(
@@ -212,7 +234,7 @@ def _collect(ids, changed_list, r0, g0, ranks, goods, keeps, best):
             }
         )
     records.sort(key=lambda r: (not r["affects_first"], r["ranks_before"]))
-    return records, count, lost, moved, top_count
+    return records, int(sw.counts.sum()), lost, moved, int(sw.top.sum())
 
 
 def replace_worse(
@@ -256,17 +278,21 @@ def replace_worse(
         targets = sorted(rows)
     unchanged = [j for j in targets if np.array_equal(rows[j], x[j])]
 
+    target_rows = np.array([rows[j] for j in targets]).reshape(len(targets), k)
+    target_idx = np.asarray(targets, dtype=int)
+
     def build(start, stop):
-        mats = np.broadcast_to(x, (stop - start, n, k)).copy()
-        for v, j in enumerate(targets[start:stop]):
-            mats[v, j] = rows[j]
+        mats = empty_stack(stop - start, n, k)
+        mats[...] = x
+        mats[np.arange(stop - start), target_idx[start:stop]] = target_rows[start:stop]
         return mats
 
     goods = score_variants(scorer, weights, len(targets), n, k, build)
     ranks = rank_batch(goods) if targets else np.zeros((0, n), dtype=int)
-    keeps = [np.delete(np.arange(n), j) for j in targets]
+    kept = np.ones((len(targets), n), dtype=bool)
+    kept[np.arange(len(targets)), target_idx] = False
     details, count, lost, moved, top_count = _collect(
-        ids, targets, r0, g0, ranks, goods, keeps, best
+        ids, targets, r0, g0, ranks, goods, kept, best
     )
     passed = not lost
     count -= top_count
@@ -304,17 +330,18 @@ def clone(scorer, matrix, weights, ids, namer) -> Check:
     best = set(np.nonzero(r0 == 1)[0].tolist())
 
     def build(start, stop):
-        mats = np.empty((stop - start, n + 1, k))
+        mats = empty_stack(stop - start, n + 1, k)
         mats[:, :n] = x
         mats[:, n] = x[start:stop]
         return mats
 
     goods = score_variants(scorer, weights, n, n + 1, k, build)
     ranks = rank_batch(goods)
-    keeps = [np.arange(n)] * n
+    kept = np.ones((n, n + 1), dtype=bool)
+    kept[:, n] = False  # the copy takes no part in the comparison
     r0x, g0x = np.append(r0, 0), np.append(g0, 0.0)
     details, count, lost, changed, _ = _collect(
-        ids + ["(copy)"], range(n), r0x, g0x, ranks, goods, keeps, best
+        ids + ["(copy)"], range(n), r0x, g0x, ranks, goods, kept, best
     )
     if not count:
         sentence = (
@@ -345,19 +372,24 @@ def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
             "With fewer than three corridors, removing one leaves nothing to reorder.",
         )
 
+    # Row r of variant i is corridor r, or r + 1 from the removed one on.
+    rest = np.arange(n - 1)[None, :]
+    kept = rest + (rest >= np.arange(n)[:, None])  # (n, n - 1) corridor indices
+
     def build(start, stop):
-        return np.stack([np.delete(x, i, axis=0) for i in range(start, stop)])
+        mats = empty_stack(stop - start, n - 1, k)
+        mats[...] = x[kept[start:stop]]
+        return mats
 
     short = score_variants(scorer, weights, n, n - 1, k, build)
-    short_ranks = rank_batch(short)
     # Put the results back in full index space; the removed corridor gets 0.
+    variant = np.arange(n)[:, None]
     ranks = np.zeros((n, n), dtype=int)
     goods = np.zeros((n, n))
-    for i in range(n):
-        rest = np.delete(np.arange(n), i)
-        ranks[i, rest], goods[i, rest] = short_ranks[i], short[i]
-    keeps = [np.delete(np.arange(n), i) for i in range(n)]
-    details, count, lost, removed, _ = _collect(ids, range(n), r0, g0, ranks, goods, keeps, best)
+    ranks[variant, kept] = rank_batch(short)
+    goods[variant, kept] = short
+    present = ~np.eye(n, dtype=bool)
+    details, count, lost, removed, _ = _collect(ids, range(n), r0, g0, ranks, goods, present, best)
     if not count:
         sentence = "Removing any one corridor leaves the order of the rest unchanged."
     else:
@@ -384,17 +416,9 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
     if n < 2:
         one = "A single corridor has no pairs to compare."
         return Check("transitivity", True, [], one), Check("pairwise_agreement", True, [], one)
-    pp = pair_preferences(scorer, x, weights, r0)
-    ia, ib, pair_sign, complete, cycles = pp.a, pp.b, pp.sign, pp.complete, pp.cycles
+    pp = pair_preferences(scorer, x, weights)
+    ia, ib, pair_sign, cycles = pp.a, pp.b, pp.sign, pp.cycles
     full_sign = np.sign(r0[ib] - r0[ia])
-    scope = (
-        ""
-        if complete
-        else (
-            f" ({ia.size:,} of {n * (n - 1) // 2:,} pairs checked: neighbours in the order "
-            "and the first against all)"
-        )
-    )
     if n < 3:
         trans = Check(
             "transitivity",
@@ -408,7 +432,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             True,
             [],
             "Compared two at a time, the corridors never form a cycle "
-            f"(A over B over C over A): test 2 of Wang & Triantaphyllou is met{scope}.",
+            "(A over B over C over A): test 2 of Wang & Triantaphyllou is met.",
         )
     else:
         found = three_cycles(pp.prefer, MAX_DETAILS)
@@ -420,7 +444,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             details,
             f"Compared two at a time, {cycles} cycle(s) appear, for example {a} beats "
             f"{b}, {b} beats {c} and {c} beats {a}: test 2 of Wang & Triantaphyllou "
-            f"fails{scope}.",
+            "fails.",
             cycles,
         )
     bad = np.nonzero(pair_sign != full_sign)[0]
@@ -443,7 +467,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             True,
             [],
             "Every two-corridor comparison agrees with the full order: test 3 of "
-            f"Wang & Triantaphyllou is met{scope}.",
+            "Wang & Triantaphyllou is met.",
         )
     else:
         d = details[0]
@@ -456,7 +480,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             f"order; e.g. between {namer.corridor(d['corridor_id'])} "
             f"(ranked {d['full_ranks'][0]}) and {namer.corridor(d['other_id'])} "
             f"(ranked {d['full_ranks'][1]}) on their own, {who}: test 3 of "
-            f"Wang & Triantaphyllou fails{scope}.",
+            "Wang & Triantaphyllou fails.",
             int(bad.size),
         )
     return trans, agree

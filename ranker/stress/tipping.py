@@ -110,11 +110,6 @@ class Sweep:
     notes: list[str] = field(default_factory=list)
 
 
-def _tsign(gi: np.ndarray, gj: np.ndarray) -> np.ndarray:
-    """+1 where i beats j, -1 where j beats i, 0 where tied (the tie rule)."""
-    return (gi > beat_thresholds(gj)).astype(int) - (gj > beat_thresholds(gi)).astype(int)
-
-
 def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: int) -> Sweep:
     """Find, for every corridor, the weight interval of criterion ``c`` keeping its rank.
 
@@ -315,17 +310,22 @@ def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, print0, code):
 def _first_flip(ga: np.ndarray, gb: np.ndarray, i: np.ndarray):
     """Earliest partner whose order with i flips between rows ga and gb.
 
-    Returns the interpolated fraction of the way from a to b (inf if none)
-    and the partner (-1 if none).
+    Returns the interpolated fraction of the way from a to b (clipped to
+    [0, 1]; 1 where nothing flips) and the partner (-1 if none).
     """
     rows = np.arange(len(i))
-    da = ga[rows, i][:, None] - ga
-    db = gb[rows, i][:, None] - gb
-    flips = _tsign(ga[rows, i][:, None], ga) != _tsign(gb[rows, i][:, None], gb)
+    ai, bi = ga[rows, i][:, None], gb[rows, i][:, None]
+    # The sign of the tie rule (i beats j, or j beats i) differs between a and b.
+    flips = (ai > beat_thresholds(ga)) != (bi > beat_thresholds(gb))
+    flips |= (ga > beat_thresholds(ai)) != (gb > beat_thresholds(bi))
     flips[rows, i] = False
+    r, j = np.nonzero(flips)
+    da = ai[r, 0] - ga[r, j]
+    db = bi[r, 0] - gb[r, j]
     with np.errstate(divide="ignore", invalid="ignore"):
-        frac = np.where(flips, da / (da - db), np.inf)
-    frac = np.where(np.isnan(frac), 0.5, np.clip(frac, 0.0, 1.0))
+        cut = da / (da - db)
+    frac = np.ones(flips.shape)  # a partner that does not flip counts as the far end
+    frac[r, j] = np.where(np.isnan(cut), 0.5, np.clip(cut, 0.0, 1.0))
     j = np.argmin(frac, axis=1)
     best = frac[rows, j]
     return best, np.where(np.isfinite(best), j, -1)

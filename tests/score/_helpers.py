@@ -33,6 +33,23 @@ def decision_problems(draw, *, min_n=3, max_n=10, min_k=2, max_k=6, varied=True)
     return matrix, raw / raw.sum(), is_benefit
 
 
+@st.composite
+def stacked_problems(draw, *, max_s=5, min_n=2, max_n=9, max_k=6):
+    """Draw (stack, weights, is_benefit): s matrices (s, n, k) and weights (s, k).
+
+    Columns may be constant and values may repeat, so the zero-range guards
+    of every normalisation are exercised too.
+    """
+    s = draw(st.integers(1, max_s))
+    n = draw(st.integers(min_n, max_n))
+    k = draw(st.integers(1, max_k))
+    stack = draw(hnp.arrays(np.float64, (s, n, k), elements=_VALUES))
+    raw = draw(hnp.arrays(np.float64, (s, k), elements=st.integers(0, 100).map(float)))
+    raw[:, 0] += 1.0  # every row keeps a positive weight
+    is_benefit = draw(hnp.arrays(np.bool_, k))
+    return stack, raw / raw.sum(axis=1, keepdims=True), is_benefit
+
+
 def make_inputs(
     criteria: list[CriterionSpec],
     weight_sets: list[WeightSet],

@@ -1,16 +1,20 @@
-"""Batch ranking by sorting equals the pairwise reference; the kernel wrapper stacks."""
+"""Batch ranking by sorting equals the pairwise reference; the kernel wrapper scores stacks."""
 
 from __future__ import annotations
 
 import numpy as np
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from hypothesis.extra.numpy import arrays
 
+from ranker.assumptions import resolve
+from ranker.score.methods import METHODS
 from ranker.score.ranks import rank_scores
 from ranker.score.topsis import topsis
 from ranker.score.weighted_sum import weighted_sum
-from ranker.stress.batch import Scorer, rank_batch, rank_bounds
+from ranker.stress import batch
+from ranker.stress.batch import Scorer, first_share, rank_batch, rank_bounds
 
 # Values drawn from a small pool so that exact ties and near-ties (inside
 # and just outside the 1e-12 relative tolerance) are common.
@@ -60,16 +64,62 @@ def _stacking_weighted_sum(matrix, weights, is_benefit):
     return w @ norm.T
 
 
-def test_scorer_detects_a_kernel_that_takes_stacks():
-    """A stack-capable kernel is used in one call; a 2-D one falls back to a loop."""
+def test_scorer_stack_equals_an_independent_stacking_kernel():
+    """The registry's weighted sum on a stack equals a separately written stacking one."""
     rng = np.random.default_rng(1)
     b = np.array([True, False, True])
     mats = rng.uniform(1, 9, size=(7, 5, 3))
     w = rng.dirichlet(np.ones(3), size=7)
-    stack = Scorer(_stacking_weighted_sum, b)
-    plain = Scorer(weighted_sum, b)
-    assert stack.stack_supported(3) and not plain.stack_supported(3)
-    assert np.allclose(stack.stack(mats, w), plain.stack(mats, w), rtol=1e-12)
+    ours = Scorer(weighted_sum, b).stack(mats, w)
+    assert np.allclose(ours, Scorer(_stacking_weighted_sum, b).stack(mats, w), rtol=1e-12)
+
+
+@pytest.mark.parametrize("key", sorted(METHODS))
+def test_scorer_stacks_every_method_in_one_call_per_chunk(key, monkeypatch):
+    """Each chunk of a stack is one kernel call, and equals scoring matrix by matrix."""
+    method = METHODS[key]
+    calls = []
+
+    def counted(matrix, weights, is_benefit, **opts):
+        calls.append(np.ndim(matrix))
+        return method.kernel(matrix, weights, is_benefit, **opts)
+
+    rng = np.random.default_rng(2)
+    b = np.array([True, False, True, False])
+    mats = rng.uniform(1, 9, size=(23, 6, 4))
+    w = rng.dirichlet(np.ones(4), size=23)
+    opts = method.kernel_options(resolve({}))
+    sc = Scorer(counted, b, method.higher_is_better, opts)
+    monkeypatch.setattr(batch, "ELEMENT_BUDGET", 6 * 4 * 10)  # 10 matrices per call
+    stacked = sc.stack(mats, w)
+    assert calls == [3, 3, 3]
+    sign = 1.0 if method.higher_is_better else -1.0
+    one_by_one = np.stack([sign * method.kernel(mats[i], w[i], b, **opts) for i in range(23)])
+    np.testing.assert_allclose(stacked, one_by_one, rtol=1e-12, atol=1e-13)
+    shared = sc.stack(mats, w[0])
+    one_w = np.stack([sign * method.kernel(m, w[0], b, **opts) for m in mats])
+    np.testing.assert_allclose(shared, one_w, rtol=1e-12, atol=1e-13)
+
+
+def test_scorer_names_a_kernel_that_cannot_take_a_stack():
+    """A kernel written for one (n, k) matrix only is refused with a message, not misused."""
+
+    def one_matrix_only(matrix, weights, is_benefit):
+        return np.asarray(weights) @ np.asarray(matrix).reshape(-1, len(is_benefit)).T
+
+    mats = np.ones((3, 4, 2))
+    with pytest.raises(ValueError, match="must score a stack"):
+        Scorer(one_matrix_only, np.array([True, True])).stack(mats, np.array([0.5, 0.5]))
+
+
+@settings(max_examples=200, deadline=None, derandomize=True)
+@given(st.one_of(tied, spread), st.integers(0, 8))
+def test_first_share_equals_the_rank_bounds(scores, i):
+    """Share of first place = 1 / (high - low + 1) where low == 1, else 0."""
+    i = i % scores.shape[1]
+    low, high = rank_bounds(scores)
+    expected = np.where(low[:, i] == 1, 1.0 / (high[:, i] - low[:, i] + 1), 0.0)
+    assert np.array_equal(first_share(scores, i), expected)
 
 
 def test_scorer_orients_lower_is_better():

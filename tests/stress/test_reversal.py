@@ -15,11 +15,20 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from ranker.assumptions import resolve
+from ranker.score.methods import METHODS
 from ranker.score.ranks import rank_scores
 from ranker.score.topsis import topsis
 from ranker.score.weighted_sum import weighted_sum
 from ranker.stress.batch import Scorer
-from ranker.stress.reversal import all_checks, clone, pairwise, replace_worse, worsen
+from ranker.stress.reversal import (
+    all_checks,
+    clone,
+    leave_one_out,
+    pairwise,
+    replace_worse,
+    worsen,
+)
 from ranker.stress.words import Namer
 
 from ._helpers import skc_dm, skc_topsis_pipeline
@@ -201,3 +210,67 @@ def test_sentences_and_json_shape():
         rec = c.to_json()
         assert {"check", "passed", "details", "sentence"} <= set(rec)
         assert isinstance(rec["passed"], bool) and rec["sentence"]
+
+
+def _brute_swaps(r0, ranks, kept):
+    """Swapped pairs (a above b before, below after) among the kept corridors, by loops."""
+    return {(a, b) for a in kept for b in kept if r0[a] < r0[b] and ranks[a] > ranks[b]}
+
+
+@pytest.mark.parametrize("key", sorted(METHODS))
+@settings(max_examples=8, deadline=None, derandomize=True)
+@given(seed=st.integers(0, 10_000))
+def test_stacked_checks_equal_scoring_each_variant_alone(key, seed):
+    """Test 1, clones and leave-one-out scored as stacks give the swaps of one-by-one scoring.
+
+    Each modified matrix is scored on its own with the 2-D kernel and the
+    swaps are counted pair by pair (the definition in the module notes).
+    """
+    method = METHODS[key]
+    opts = method.kernel_options(resolve({}))
+    rng = np.random.default_rng(seed)
+    n, k = 14, 3
+    x = rng.integers(1, 30, size=(n, k)).astype(float)  # coarse values: near ties occur
+    b = rng.random(k) < 0.5
+    w = rng.dirichlet(np.ones(k))
+    ids = [f"C{i}" for i in range(n)]
+    sc = Scorer(method.kernel, b, method.higher_is_better, opts)
+    sign = 1.0 if method.higher_is_better else -1.0
+
+    def ranks_of(m):
+        return rank_scores(sign * method.kernel(m, w, b, **opts))
+
+    r0 = ranks_of(x)
+    first = {i for i in range(n) if r0[i] == 1}
+    worse = worsen(x, b)
+    expected = {"replace_worse": [], "clone": [], "leave_one_out": []}
+    for j in range(n):
+        rest = [i for i in range(n) if i != j]
+        if j not in first:
+            m = x.copy()
+            m[j] = worse[j]
+            expected["replace_worse"].append((j, _brute_swaps(r0, ranks_of(m), rest)))
+        expected["clone"].append((j, _brute_swaps(r0, ranks_of(np.vstack([x, x[j]])), range(n))))
+        short = np.zeros(n, dtype=int)
+        short[rest] = ranks_of(np.delete(x, j, axis=0))
+        expected["leave_one_out"].append((j, _brute_swaps(r0, short, rest)))
+    checks = {
+        "replace_worse": replace_worse(sc, x, w, ids, NAMER),
+        "clone": clone(sc, x, w, ids, NAMER),
+        "leave_one_out": leave_one_out(sc, x, w, ids, NAMER),
+    }
+    for name, check in checks.items():
+        swaps = expected[name]
+        total = sum(len(s) for _, s in swaps)
+        top = sum(1 for _, s in swaps for a, _ in s if a in first)
+        lost = [ids[j] for j, s in swaps if any(a in first for a, _ in s)]
+        assert check.changed == [ids[j] for j, s in swaps if s]
+        assert check.first_lost == lost
+        if name == "replace_worse":  # counts replacements that cost first place
+            assert check.count == len(lost)
+            assert (f"Lower down, {total - top:,} pair(s)" in check.sentence) == (total > top)
+        else:
+            assert check.count == total
+        listed = {(d["changed"], d["corridor_id"], d["other_id"]) for d in check.details}
+        every = {(ids[j], ids[a], ids[c]) for j, s in swaps for a, c in s}
+        assert listed <= every and len(listed) == min(total, len(check.details))
