@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import errno
 import os
+import secrets
+import shutil
 import tempfile
 import zipfile
 from pathlib import Path
@@ -61,34 +63,98 @@ def check_out_dir(out_dir: Path) -> None:
         )
 
 
+def _default_mode() -> int:
+    """Permission bits a newly created file gets here (0o666 less the umask)."""
+    mask = os.umask(0)
+    os.umask(mask)
+    return 0o666 & ~mask
+
+
+def _remove(path) -> None:
+    try:
+        os.unlink(path)
+    except OSError:
+        pass
+
+
+def _keep_aside(path: Path) -> Path:
+    """Keep the existing output under a hidden name, so a failed move can put it back."""
+    while True:
+        bak = path.with_name(f".{path.name}.{secrets.token_hex(4)}.bak")
+        try:
+            os.link(path, bak)  # no moment without a file at ``path``
+            return bak
+        except FileExistsError:
+            continue
+        except OSError:  # a file system without hard links
+            if bak.exists():
+                continue
+            shutil.copy2(path, bak)
+            return bak
+
+
 def write_all_atomic(files: dict[Path, bytes]) -> None:
     """Write several files, each to a temporary name, then move all into place.
 
-    A failure before the moves leaves no output behind and nothing replaced.
+    Every target is checked first (:func:`check_replaceable`). Each file is
+    written and flushed to disk under a hidden temporary name in its own
+    folder, then moved over its target. A failure at any step (a full disk, a
+    read-only folder, a file held open by another program) removes every
+    temporary file and puts back any output already replaced, so either all
+    files are new or none is, and nothing half-written is left behind.
+
+    Raises
+    ------
+    InputError
+        Naming the output that could not be written and how to fix it.
     """
+    for path in files:
+        check_replaceable(path)
+    mode = _default_mode()
     temps: dict[Path, str] = {}
+    backups: dict[Path, Path] = {}
+    moved: list[Path] = []
+    current: Path | None = None
     try:
         for path, data in files.items():
-            check_replaceable(path)
+            current = path
             fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
             temps[path] = tmp
             with os.fdopen(fd, "wb") as f:
+                if hasattr(os, "fchmod"):
+                    os.fchmod(f.fileno(), mode)  # mkstemp makes 0600; outputs are shared
                 f.write(data)
                 f.flush()
                 os.fsync(f.fileno())
         for path, tmp in temps.items():
+            current = path
+            if path.exists():
+                backups[path] = _keep_aside(path)
             os.replace(tmp, path)
-    except OSError as exc:
+            moved.append(path)
+    except BaseException as exc:  # undo on any failure, then report it
+        for path in moved:
+            if path in backups:
+                try:
+                    os.replace(backups.pop(path), path)
+                except OSError:  # keep the hidden copy rather than lose the old output
+                    pass
+            else:
+                _remove(path)
+        for path, bak in backups.items():
+            if path not in moved:  # the old output is still in place
+                _remove(bak)
         for tmp in temps.values():
-            try:
-                os.unlink(tmp)
-            except OSError:
-                pass
-        raise _os_error(exc) from exc
+            _remove(tmp)
+        if isinstance(exc, OSError):
+            raise _os_error(exc, current) from exc
+        raise
+    for bak in backups.values():
+        _remove(bak)
 
 
-def _os_error(exc: OSError) -> InputError:
-    where = exc.filename or "output"
+def _os_error(exc: OSError, path: Path | None = None) -> InputError:
+    where = str(path) if path is not None else (exc.filename or "output")
     if exc.errno == errno.ENOSPC:
         return InputError.one(
             str(where), "the disk is full", "free some space or choose another --out"

@@ -20,6 +20,9 @@ from .errors import InputError, Problem, Problems
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
 
+#: Most Monte Carlo samples a run takes (memory grows with samples x corridors).
+MAX_SAMPLES = 1_000_000
+
 
 def rank_workbook(
     path: str | Path,
@@ -87,6 +90,12 @@ def rank_inputs(
 
     if samples < 0:
         raise InputError.one("--samples", f"{samples} is negative", "give 0 or more samples")
+    if samples > MAX_SAMPLES:
+        raise InputError.one(
+            "--samples",
+            f"{samples:,} is over the limit of {MAX_SAMPLES:,}",
+            f"give at most {MAX_SAMPLES:,} samples",
+        )
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
     p = prepare(inputs)
     assumptions, matrix, kept = p.assumptions, p.matrix, p.kept
@@ -99,7 +108,12 @@ def rank_inputs(
     warnings.extend(scores.warnings)
 
     robustness = None
-    if len(kept) >= 2:
+    if len(kept) >= 2 and not any(w > 0 for w in scores.weights.values()):
+        warnings.append(
+            "No criterion with a weight above 0 separates the corridors; "
+            "robustness analysis skipped."
+        )
+    elif len(kept) >= 2:
         robustness = _stress(
             matrix.loc[kept],
             included,
@@ -177,6 +191,14 @@ def prepare(inputs: Inputs) -> Prepared:
             CRITERIA, "no criterion is included", "set include to yes for at least one criterion"
         )
     matrix, provenance, derivation = build_matrix(inputs, assumptions)
+    has_budget = inputs.budget is not None and len(inputs.budget)
+    if has_budget and "capital_cost" not in matrix and "capital_cost" not in inputs.corridors:
+        raise InputError.one(
+            "Budget",
+            "a build plan needs each corridor's capital cost",
+            "include capital_cost on Criteria (derived or as a Corridors column), "
+            "or remove the Budget sheet",
+        )
     kept, excluded = screen(matrix, inputs.included, inputs)
     # Objective (entropy, CRITIC) sets describe the corridors actually scored.
     sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
@@ -373,14 +395,8 @@ def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
 
     if "capital_cost" in matrix.columns:
         capital = matrix["capital_cost"]
-    elif "capital_cost" in inputs.corridors.columns:
+    else:  # prepare() made sure the column exists
         capital = inputs.corridors.loc[matrix.index, "capital_cost"].astype(float)
-    else:
-        raise InputError.one(
-            "Budget",
-            "a build plan needs each corridor's capital cost",
-            "include capital_cost on Criteria (derived or as a Corridors column), or remove the Budget sheet",
-        )
     primary = str(assumptions["primary_method"])
     score = scores.scores[primary]
     if primary == "vikor":

@@ -163,8 +163,12 @@ def milp_kernel(
     if n == 0 or big_t == 0:
         return MilpArrays(np.full(n, -1), 0.0, 0.0, 0.0, 0, "nothing to plan", 0.0)
     # Scale money and value to order one so the solver's tolerances mean the same at any size.
-    money = max(float(budget.max(initial=0.0)), float(cost.max(initial=0.0)), 1.0)
-    c = cost / money
+    # A corridor dearer than the whole budget can never be funded; leaving its cost in the
+    # scale would push every other coefficient below the solver's tolerance.
+    never = cost > budget.sum()
+    value = np.where(never[:, None], 0.0, value)
+    money = max(float(budget.max(initial=0.0)), float(cost[~never].max(initial=0.0)), 1.0)
+    c = np.minimum(cost, 2 * budget.sum() + 1) / money
     b = budget / money
     worth = max(float(value.max(initial=0.0)), 1e-300)
     v = value / worth

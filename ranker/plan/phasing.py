@@ -267,10 +267,15 @@ def build_plan(
         )
         c = completion_from_payments(p, m.completed)
         if not feasible(a.cost, c, a.budget, cumulative=cumulative):
-            raise RuntimeError("the solver's plan breaks the budget; please report this input")
-        v = _total(value, c)
-        # An optimum no better than the greedy plan: show the greedy plan, it is optimal too.
-        use_greedy = v <= got["greedy"] + 1e-9 * max(abs(v), 1e-300)
+            warnings.append(
+                "The optimiser's plan did not fit the budget (numerical trouble with very "
+                "different costs); the greedy plan is shown as the optimised plan."
+            )
+            use_greedy = True
+        else:
+            v = _total(value, c)
+            # An optimum no better than the greedy plan: show the greedy plan, it is optimal too.
+            use_greedy = v <= got["greedy"] + 1e-9 * max(abs(v), 1e-300)
     if use_greedy:
         c, p, v = done["greedy"], pay["greedy"], got["greedy"]
     done["optimised"], pay["optimised"], got["optimised"] = c, p, v

@@ -110,7 +110,8 @@ def contribution_bars(
     ax.set_yticks(y, labels)
     ax.invert_yaxis()
     ax.set_xlabel("weighted-sum score [-], split by criterion")
-    ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.18), ncol=3, frameon=False)
+    if ax.get_legend_handles_labels()[0]:
+        ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.18), ncol=3, frameon=False)
     return _svg(fig)
 
 

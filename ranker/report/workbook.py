@@ -155,6 +155,7 @@ class SheetWriter:
                     text += " "
                 seen.add(text)
                 cell.value = text
+                cell.data_type = "s"  # a heading is text, whatever it starts with
             tab = Table(displayName=table_name, ref=ref)
             tab.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
             ws.add_table(tab)
@@ -251,6 +252,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     from . import sheets
 
     wb = load_workbook(result.inputs.path, data_only=False, keep_vba=False, keep_links=False)
+    wb.template = False  # an .xltx input still gives an ordinary workbook
     for name in previous_result_sheets(wb) + [STATE_SHEET]:
         if name in wb.sheetnames:
             del wb[name]

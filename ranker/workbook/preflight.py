@@ -1,13 +1,18 @@
 """Check the input file itself before any spreadsheet code opens it.
 
-:func:`check_file` refuses, naming the file: a missing file or a folder, an
-empty file, an ``.xls``, ``.csv``, ``.ods``, ``.xlsb`` or random bytes, an
-encrypted workbook (OLE compound file, signature D0CF11E0), a damaged zip, a
-file over the size limits of :data:`LIMITS`, a zip member that would unpack
-far larger than it is stored (sizes come from the zip directory, so nothing is
-unpacked first), and any XML part that declares entities (spreadsheet
-programs never write them; this stops "billion laughs" expansion even before
-defusedxml, which openpyxl parses with, would).
+:func:`check_file` refuses, naming the file: a missing file, a folder, a
+device or pipe, an empty file, an ``.xls``, ``.csv``, ``.ods``, ``.xlsb``, a
+web page or random bytes, an encrypted workbook (OLE compound file,
+signature D0CF11E0), a damaged zip, a file over the size limits of
+:data:`LIMITS`, a zip member that would unpack far larger than it is stored,
+a shared-strings part too large to read whole (sizes come from the zip
+directory, so nothing is unpacked first), a member encrypted inside the zip
+or packed by a method spreadsheet programs never use, any XML part that
+declares entities or hides its prolog behind more than ``prolog_bytes``
+(spreadsheet programs never write either; this stops "billion laughs"
+expansion even before defusedxml, which openpyxl parses with, would), and a
+member whose data is damaged or not the size the directory says (every
+member is unpacked once, a chunk at a time, after the size checks).
 
 It also maps each contract sheet to its XML part and scans that part for
 what read-only openpyxl cannot see: merged ranges, hidden rows and columns,
@@ -18,6 +23,7 @@ from __future__ import annotations
 
 import re
 import zipfile
+import zlib
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -53,6 +59,12 @@ class Limits:
         Most rows of one contract sheet, header included [-].
     columns : int
         Most columns of one contract sheet [-].
+    shared_strings_bytes : int
+        Largest uncompressed shared-strings part (the text of every cell of
+        every sheet, which is read whole before any sheet) [B].
+    prolog_bytes : int
+        Longest XML prolog (what comes before the first element) of one part;
+        spreadsheet programs write well under a hundred bytes [B].
     """
 
     file_bytes: int = 50 * 1024**2
@@ -62,6 +74,8 @@ class Limits:
     members: int = 10_000
     rows: int = 100_000
     columns: int = 200
+    shared_strings_bytes: int = 32 * 1024**2
+    prolog_bytes: int = 1024**2
 
 
 #: The limits in force.
@@ -77,6 +91,11 @@ _ATTR = re.compile(rb'(\w+)="([^"]*)"')
 _NS_MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 _NS_REL = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
 _NS_PKG = "{http://schemas.openxmlformats.org/package/2006/relationships}"
+_NS_CT = "{http://schemas.openxmlformats.org/package/2006/content-types}"
+_SHARED_STRINGS_CT = (
+    "application/vnd.openxmlformats-officedocument.spreadsheetml.sharedStrings+xml"
+)
+_UNSAFE = "rebuild the workbook from a fresh template and paste the values in"
 RESAVE = "open it in Excel or LibreOffice and save it as Excel Workbook (.xlsx)"
 
 
@@ -135,8 +154,14 @@ def fail(path: Path, what: str, fix: str) -> InputError:
 def preflight(path: Path, limits: Limits) -> _Preflight:
     if not path.exists():
         raise fail(path, "file not found", "check the file name and the folder")
-    if not path.is_file():
+    if path.is_dir():
         raise fail(path, "is a folder, not a file", "give the path of the .xlsx workbook")
+    if not path.is_file():  # a device, a pipe or a socket: reading it may never end
+        raise fail(
+            path,
+            "is not a regular file (a device, pipe or socket)",
+            "give the path of the .xlsx workbook saved on disk",
+        )
     size = path.stat().st_size
     if size > limits.file_bytes:
         raise fail(
@@ -166,7 +191,7 @@ def preflight(path: Path, limits: Limits) -> _Preflight:
     try:
         with zipfile.ZipFile(path) as zf:
             return _check_zip(path, zf, limits)
-    except zipfile.BadZipFile:
+    except (zipfile.BadZipFile, zlib.error, EOFError):
         raise fail(path, "is damaged (the zip container cannot be read)", RESAVE) from None
 
 
@@ -174,12 +199,13 @@ def _not_zip_what(path: Path, head: bytes) -> str:
     ext = path.suffix.lower()
     if head[:2] == b"PK":
         return "is damaged or incomplete (its zip container cannot be read)"
+    if head[:5].lower() in (b"<?xml", b"<html", b"<!doc") or head[:2] == b"\xff\xfe":
+        # Spreadsheet programs save web pages and XML Spreadsheet 2003 under .xls too.
+        return "is an XML or web page file (perhaps XML Spreadsheet 2003), not an .xlsx workbook"
     if ext in (".csv", ".txt", ".tsv"):
         return f"is a text file ({ext}), not an Excel workbook"
     if ext == ".xls":
         return "is not in the .xlsx format"
-    if head[:5] in (b"<?xml", b"<html", b"<!DOC") or head[:2] == b"\xff\xfe":
-        return "is an XML or web page file (perhaps XML Spreadsheet 2003), not an .xlsx workbook"
     try:
         head.decode("ascii")
         text = True
@@ -205,7 +231,7 @@ def _check_zip(path: Path, zf: zipfile.ZipFile, limits: Limits) -> _Preflight:
                 path,
                 f"part {info.filename} would unpack more than {limits.member_ratio:,.0f} times "
                 "larger than it is stored; refused as a possible decompression bomb",
-                "rebuild the workbook from a fresh template and paste the values in",
+                _UNSAFE,
             )
     if total > limits.unzipped_bytes:
         raise fail(
@@ -214,11 +240,14 @@ def _check_zip(path: Path, zf: zipfile.ZipFile, limits: Limits) -> _Preflight:
             f"{limits.unzipped_bytes / 1024**2:,.0f} MB limit",
             "remove unused sheets, pictures and formatting, or split the corridors into two runs",
         )
+    _check_methods(path, infos)
     names = {i.filename for i in infos}
     _check_kind(path, zf, names)
     for info in infos:
         if info.filename.lower().endswith(_XML_PARTS):
-            _scan_prolog(path, zf, info.filename)
+            _scan_prolog(path, zf, info.filename, limits)
+    _check_shared_strings(path, zf, names, limits)
+    _unpack_all(path, zf, infos)
     out: list[str] = []
     if "xl/vbaProject.bin" in names or path.suffix.lower() in (".xlsm", ".xltm"):
         out.append(
@@ -229,9 +258,54 @@ def _check_zip(path: Path, zf: zipfile.ZipFile, limits: Limits) -> _Preflight:
     return _Preflight(out + dupes, parts)
 
 
+#: Compression methods spreadsheet programs write (zipfile also reads bzip2 and lzma).
+_METHODS = (zipfile.ZIP_STORED, zipfile.ZIP_DEFLATED)
+
+
+def _check_methods(path: Path, infos: list[zipfile.ZipInfo]) -> None:
+    """Refuse members that are encrypted or packed in a way no spreadsheet program uses."""
+    for info in infos:
+        if info.flag_bits & 0x1:
+            raise fail(
+                path,
+                f"part {info.filename} is encrypted inside the zip, which spreadsheet "
+                "programs never do",
+                RESAVE,
+            )
+        if info.compress_type not in _METHODS:
+            raise fail(
+                path,
+                f"part {info.filename} is packed with zip method {info.compress_type}, which "
+                "spreadsheet programs do not write",
+                RESAVE,
+            )
+
+
+def _unpack_all(path: Path, zf: zipfile.ZipFile, infos: list[zipfile.ZipInfo]) -> None:
+    """Unpack every member once, in chunks, checking its checksum; keep nothing.
+
+    Runs after the size checks, so at most ``limits.unzipped_bytes`` are
+    unpacked and at most one chunk is held; a member that is damaged, or
+    longer or shorter than the zip directory says, is refused here rather
+    than deep inside a later reader.
+    """
+    for info in infos:
+        try:
+            with zf.open(info) as fh:
+                while fh.read(1024**2):
+                    pass
+        except (zipfile.BadZipFile, zlib.error, EOFError, ValueError):
+            raise _damaged(path, info.filename) from None
+
+
+def _damaged(path: Path, member: str) -> InputError:
+    return fail(path, f"is damaged (part {member} cannot be unpacked)", RESAVE)
+
+
 def _check_kind(path: Path, zf: zipfile.ZipFile, names: set[str]) -> None:
     if "mimetype" in names:
-        mime = zf.read("mimetype")[:100]
+        with zf.open("mimetype") as fh:
+            mime = fh.read(100)
         if b"opendocument" in mime:
             raise fail(
                 path,
@@ -251,7 +325,8 @@ def _check_kind(path: Path, zf: zipfile.ZipFile, names: set[str]) -> None:
         elif "ppt/presentation.xml" in names:
             what = "is a PowerPoint file, not an Excel workbook"
         raise fail(path, what, "give the .xlsx workbook made from `ranker template`")
-    head = zf.read("xl/workbook.xml")[:2000]
+    with zf.open("xl/workbook.xml") as fh:
+        head = fh.read(2000)
     if b"purl.oclc.org/ooxml/spreadsheetml" in head:
         raise fail(
             path,
@@ -260,26 +335,82 @@ def _check_kind(path: Path, zf: zipfile.ZipFile, names: set[str]) -> None:
         )
 
 
-def _scan_prolog(path: Path, zf: zipfile.ZipFile, member: str) -> None:
-    """Refuse DOCTYPE/ENTITY declarations: Excel never writes them."""
-    prolog = b""
-    with zf.open(member) as fh:
-        while len(prolog) < 1024**2:
-            chunk = fh.read(16384)
-            if not chunk:
-                break
-            prolog += chunk
-            m = re.search(rb"<[A-Za-z_]", prolog)
-            if m:
-                prolog = prolog[: m.start()]
-                break
+def _scan_prolog(path: Path, zf: zipfile.ZipFile, member: str, limits: Limits) -> None:
+    """Refuse DOCTYPE/ENTITY declarations: Excel never writes them.
+
+    The prolog is read in chunks up to the first element, in UTF-8 or, after a
+    byte-order mark or a zero byte, UTF-16; a prolog longer than
+    ``limits.prolog_bytes`` is refused too, so no padding can push a
+    declaration out of sight.
+    """
+    try:
+        prolog = _read_prolog(path, zf, member, limits)
+    except (zipfile.BadZipFile, zlib.error, EOFError):
+        raise _damaged(path, member) from None
     if b"<!DOCTYPE" in prolog or b"<!ENTITY" in prolog:
         raise fail(
             path,
             f"part {member} declares XML entities, which spreadsheet programs never write; "
             "refused for safety",
-            "rebuild the workbook from a fresh template and paste the values in",
+            _UNSAFE,
         )
+
+
+def _read_prolog(path: Path, zf: zipfile.ZipFile, member: str, limits: Limits) -> bytes:
+    prolog = b""
+    with zf.open(member) as fh:
+        while True:
+            chunk = fh.read(16384)
+            if not chunk:
+                break
+            prolog += chunk
+            text = _as_utf8(prolog)
+            m = re.search(rb"<[A-Za-z_]", text)
+            if m:
+                return text[: m.start()]
+            if len(prolog) > limits.prolog_bytes:
+                raise fail(
+                    path,
+                    f"part {member} starts with more than {limits.prolog_bytes:,} bytes before "
+                    "its first element, which spreadsheet programs never write; refused for "
+                    "safety",
+                    _UNSAFE,
+                )
+    return _as_utf8(prolog)
+
+
+def _as_utf8(data: bytes) -> bytes:
+    """Re-encode the start of a UTF-16 XML part as UTF-8 (other data is returned as is)."""
+    head = data[:4]
+    if head[:2] in (b"\xff\xfe", b"\xfe\xff"):
+        codec, data = ("utf-16-le" if head[:2] == b"\xff\xfe" else "utf-16-be"), data[2:]
+    elif head[:2] == b"<\x00":
+        codec = "utf-16-le"
+    elif head[:2] == b"\x00<":
+        codec = "utf-16-be"
+    else:
+        return data
+    return data[: len(data) // 2 * 2].decode(codec, errors="replace").encode("utf-8")
+
+
+def _check_shared_strings(path: Path, zf: zipfile.ZipFile, names: set[str], limits: Limits):
+    """Refuse a shared-strings part too large to read whole (sizes from the zip directory)."""
+    members = {"xl/sharedStrings.xml"} & names
+    if "[Content_Types].xml" in names:
+        types = _xml(path, zf, "[Content_Types].xml")
+        for o in types.iter(f"{_NS_CT}Override"):
+            if o.get("ContentType") == _SHARED_STRINGS_CT:
+                members.add(o.get("PartName", "").lstrip("/"))
+    for member in sorted(members & names):
+        size = zf.getinfo(member).file_size
+        if size > limits.shared_strings_bytes:
+            raise fail(
+                path,
+                f"part {member} (the text of the cells) would unpack to "
+                f"{size / 1024**2:,.0f} MB, over the "
+                f"{limits.shared_strings_bytes / 1024**2:,.0f} MB limit",
+                "delete unused sheets and text, or split the corridors into two runs",
+            )
 
 
 def _xml(path: Path, zf: zipfile.ZipFile, member: str):

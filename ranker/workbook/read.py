@@ -6,8 +6,8 @@ Two public entry points:
   file itself before any spreadsheet code touches it: that it exists, is an
   ``.xlsx`` (not ``.xls``, ``.csv``, an encrypted file or random bytes),
   within the size limits of :data:`LIMITS`, free of XML entity declarations,
-  and not a decompression bomb (sizes are read from the zip directory, before
-  anything is unpacked).
+  not a decompression bomb (sizes are read from the zip directory, before
+  anything is unpacked) and whole (every part unpacks to its stated size).
 - :func:`read_workbook` runs :func:`check_file`, then reads every contract
   sheet (openpyxl read-only, cached values), then types and cross-checks the
   tables (:mod:`ranker.workbook.sheets`, :mod:`ranker.workbook.criteria`).

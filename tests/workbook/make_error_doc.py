@@ -10,6 +10,8 @@ cannot drift from what the reader says.
 
 from __future__ import annotations
 
+import importlib
+import importlib.util
 import sys
 import tempfile
 from pathlib import Path
@@ -44,6 +46,65 @@ def _messages() -> list[tuple[str, str, str, list[str]]]:
                 lines = ["(no error)"]
             out.append((case.name, case.where, case.builder.__doc__, lines))
     return out
+
+
+def _hardening():
+    """Return tests/hardening's ``cases``, ``hostile`` and ``_cli`` modules.
+
+    They are loaded under the name the test runner gives that package
+    (``hardening`` under pytest, ``tests.hardening`` under ``python -m``), so
+    there is one copy of each.
+    """
+    prefix = __package__.rpartition(".")[0] if __package__ else ""
+    name = f"{prefix}.hardening" if prefix else "hardening"
+    if name not in sys.modules:
+        folder = Path(__file__).resolve().parents[1] / "hardening"
+        spec = importlib.util.spec_from_file_location(
+            name, folder / "__init__.py", submodule_search_locations=[str(folder)]
+        )
+        package = importlib.util.module_from_spec(spec)
+        sys.modules[name] = package
+        spec.loader.exec_module(package)
+    return tuple(importlib.import_module(f"{name}.{m}") for m in ("cases", "hostile", "_cli"))
+
+
+def end_to_end() -> tuple[list, list]:
+    """The end-to-end cases and hostile files whose behaviour is settled (no known bug)."""
+    cases, hostile, _ = _hardening()
+    return [s for s in cases.STAGES if not s.bug], [s for s in hostile.HOSTILE if not s.bug]
+
+
+def _run_messages(entries) -> list[tuple[str, str, int, list[str], bool]]:
+    """Run each entry through ``ranker run``; keep what the planner reads on the terminal."""
+    _, _, cli = _hardening()
+    out = []
+    with tempfile.TemporaryDirectory() as tmp:
+        for entry in entries:
+            folder = Path(tmp) / entry.name
+            folder.mkdir()
+            (folder / "out").mkdir()
+            path, extra = entry.build(folder)
+            if "--out" not in extra:
+                extra = [*extra, "--out", str(folder / "out")]
+            if "--samples" not in extra:
+                extra = [*extra, "--samples", "0"]
+            outcome = cli.run("run", path, *extra)
+            if outcome.code == 2:
+                lines = outcome.problems
+            else:
+                lines = [f"warning: {w}" for w in outcome.warnings if entry.says in w]
+            lines = [line.replace(str(folder), "<folder>") for line in lines]
+            out.append((entry.name, entry.about, outcome.code, lines, bool(entry.check_bug)))
+    return out
+
+
+def _entry_lines(name: str, about: str, code: int, msgs: list[str], run_only: bool) -> list[str]:
+    head = f"- **{about}** (`{name}`)"
+    if code == 0:
+        head += " Runs (exit 0), saying:"
+    if run_only:
+        head += " Only `ranker run` reports this so far, not `ranker check`."
+    return [head, "", "  ```", *(f"  {m}" for m in msgs), "  ```", ""]
 
 
 def _group(where: str) -> str:
@@ -82,12 +143,18 @@ def render() -> str:
         f"| parts in the .xlsx | {LIMITS.members:,} |",
         f"| rows per sheet (header included) | {LIMITS.rows:,} |",
         f"| columns per sheet | {LIMITS.columns} |",
+        f"| unpacked size of the shared strings (the text of all cells) "
+        f"| {LIMITS.shared_strings_bytes // mb} MB |",
+        f"| bytes before the first element of an XML part | {LIMITS.prolog_bytes // mb} MB |",
         f"| Pairwise judgments | 1/9 to {JUDGMENT_HIGH:g}; filled reciprocal pairs agree within "
         f"{RECIPROCAL_TOLERANCE:.0%} |",
         "",
-        "The sizes are read from the zip directory before anything is unpacked. XML entity "
-        "declarations (which spreadsheet programs never write) are refused before the sheets "
-        "are parsed, and the parser itself (defusedxml) forbids them as well.",
+        "The sizes are read from the zip directory before anything is unpacked; then every "
+        "part is unpacked once, a chunk at a time, to check it is whole. A part that is "
+        "encrypted inside the zip or packed by a method other than stored or deflate is "
+        "refused. XML entity declarations (which spreadsheet programs never write) are "
+        "refused before the sheets are parsed, in UTF-8 or UTF-16, and the parser itself "
+        "(defusedxml) forbids them as well.",
         "",
         "## How cells are read",
         "",
@@ -145,6 +212,57 @@ def render() -> str:
             lines += [f"- **{about}** (`{name}`)", "", "  ```"]
             lines += [f"  {m}" for m in msgs]
             lines += ["  ```", ""]
+    stages, hostile = end_to_end()
+    lines += [
+        "",
+        "## What the later stages catch",
+        "",
+        "These pass the reader; `ranker run` stops at the stage that needs the missing or "
+        "inconsistent input, with exit code 2, and writes nothing. Problems with the run's "
+        "options name the option. `ranker check` reports the workbook's problems too (it "
+        "takes no run options). Each entry is built in `tests/hardening/cases.py` and run end "
+        "to end by the tests.",
+        "",
+    ]
+    legal = []
+    for entry in _run_messages(stages):
+        if entry[2] == 0:
+            legal.append(entry)
+        else:
+            lines += _entry_lines(*entry)
+    lines += [
+        "## Edge cases that run",
+        "",
+        "Legal but unusual inputs run to the end (exit code 0) and say what they mean:",
+        "",
+    ]
+    for entry in legal:
+        lines += _entry_lines(*entry)
+    lines += [
+        "## Hostile and foreign files",
+        "",
+        "Refused before any sheet is read, quickly and in bounded memory (a macro-enabled "
+        "workbook is read, without its macros). Each entry is built in "
+        "`tests/hardening/hostile.py`.",
+        "",
+    ]
+    for entry in _run_messages(hostile):
+        lines += _entry_lines(*entry)
+    lines += [
+        "## Output files",
+        "",
+        "- The outputs are written to hidden temporary files in the output folder and moved "
+        "into place only when all are complete; when anything fails (a full disk, a "
+        "read-only folder, a file held open by another program) the temporary files are "
+        "removed and any output already replaced is put back, so the pair is either all new "
+        "or as it was.",
+        "- An existing file named like an output is replaced only when ranker wrote it (it "
+        "carries ranker's marker); otherwise the run stops with exit code 2 and leaves it "
+        "as it is, and the other output as well.",
+        "- The input workbook is only read; macros are never copied into the outputs, and text "
+        "that a spreadsheet would take for a formula (starting with `=`, `+`, `-`, `@`, a tab "
+        "or a carriage return) is written as text.",
+    ]
     return "\n".join(lines).rstrip() + "\n"
 
 

@@ -1,9 +1,9 @@
-"""docs/input-errors.md is generated from the corpus and must match it."""
+"""docs/input-errors.md is generated from the corpus and the end-to-end cases and must match."""
 
 from __future__ import annotations
 
 from .corpus import CASES
-from .make_error_doc import DOC, render
+from .make_error_doc import DOC, end_to_end, render
 
 
 def test_error_doc_matches_corpus():
@@ -13,3 +13,7 @@ def test_error_doc_matches_corpus():
     )
     for case in CASES:
         assert f"(`{case.name}`)" in text
+    stages, hostile = end_to_end()
+    assert len(stages) >= 20 and len(hostile) >= 15
+    for entry in [*stages, *hostile]:
+        assert f"(`{entry.name}`)" in text
