@@ -194,7 +194,14 @@ def build_html(result) -> str:
         "consistency": narrative.consistency_text,
         "assumptions": assumptions,
         "caution": CAUTION,
-        "excluded": result.excluded,
+        "excluded": [
+            {
+                **e,
+                "name": str(result.inputs.corridors["name"].get(e["corridor_id"], "")),
+                "label": crit_labels.get(e["criterion"], e["criterion"]),
+            }
+            for e in result.excluded
+        ],
     }
     return _environment().get_template("sheet.html.j2").render(**context)
 

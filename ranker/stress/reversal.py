@@ -27,8 +27,10 @@ after); a pair moving into or out of a tie is not a swap. At most
 :data:`MAX_DETAILS` swaps are listed per check (the count is always given).
 The variants of each check (every replaced, cloned or left-out problem, and
 every two-corridor sub-problem of tests 2 and 3) are scored as stacks, a
-chunk per kernel call (see :mod:`ranker.stress.batch`); all pairs are
-always checked.
+chunk per kernel call (see :mod:`ranker.stress.batch`), and compared a pass
+of variants at a time (see :mod:`ranker.stress.swaps`), so memory does not
+grow with the square of the number of corridors; all pairs are always
+checked.
 
 References
 ----------
@@ -45,6 +47,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import partial
 
 import numpy as np
 
@@ -52,12 +55,15 @@ from ranker.score.stack import empty_stack
 
 from .batch import rank_batch, score_variants
 from .pairs import pair_preferences, three_cycles
+from .swaps import Collector, passes
 from .words import Namer
 
 #: Most swaps listed per check (all are counted) [-].
 MAX_DETAILS = 200
 #: Default worsening for test 1, as a share of each criterion's range [-].
 WORSEN_FRACTION = 0.05
+#: Pairs compared per block in test 3 [-].
+PAIR_BLOCK = 1_000_000
 
 
 @dataclass
@@ -130,113 +136,6 @@ def worsen(matrix: np.ndarray, is_benefit: np.ndarray, *, fraction: float = WORS
     return np.where((x >= 0) & (moved < 0), 0.0, np.where((x <= 0) & (moved > 0), 0.0, moved))
 
 
-class _Swaps:
-    """The swaps of every variant: counts for all, pairs on demand.
-
-    Sorting each variant's kept corridors by their old rank (then new rank),
-    a swap is a later corridor with a better new rank. Only corridors with a
-    worse new rank somewhere before them, or a better one after them, can be
-    part of a swap; pairs are counted, and listed when asked for, among
-    those alone.
-
-    Attributes
-    ----------
-    counts : ndarray of int, shape (v,)
-        Swaps per variant [-].
-    top : ndarray of int, shape (v,)
-        Swaps per variant whose upper corridor was first before [-].
-    """
-
-    def __init__(self, r0, ranks, kept, is_best):
-        v, size = ranks.shape
-        big = size + 1
-        self.old = np.where(kept, r0[None, :], big).astype(np.int64)
-        self.new = np.where(kept, ranks, big).astype(np.int64)
-        self.counts = np.zeros(v, dtype=np.int64)
-        self.top = np.zeros(v, dtype=np.int64)
-        self._members: dict[int, np.ndarray] = {}
-        if not v:
-            return
-        order = np.argsort(self.old * (size + 2) + self.new, axis=1, kind="stable")
-        after = np.take_along_axis(self.new, order, axis=1)
-        moved = np.nonzero((np.diff(after, axis=1) < 0).any(axis=1))[0]
-        if not moved.size:
-            return
-        after, order = after[moved], order[moved]
-        before_max = np.maximum.accumulate(
-            np.concatenate([after[:, :1], after[:, :-1]], axis=1), axis=1
-        )
-        after_min = np.minimum.accumulate(
-            np.concatenate([after[:, 1:], after[:, -1:]], axis=1)[:, ::-1], axis=1
-        )[:, ::-1]
-        flagged = (before_max > after) | (after_min < after)
-        for row, var in enumerate(moved):
-            m = order[row, flagged[row]]
-            self._members[int(var)] = m
-            o, w = self.old[var, m], self.new[var, m]
-            self.counts[var] = np.count_nonzero(
-                (o[:, None] < o[None, :]) & (w[:, None] > w[None, :])
-            )
-        for a in np.nonzero(is_best)[0]:
-            oa, wa = self.old[:, a : a + 1], self.new[:, a : a + 1]
-            self.top += ((self.old > oa) & (self.new < wa)).sum(axis=1)
-
-    def pairs(self, var: int) -> tuple[np.ndarray, np.ndarray]:
-        """Swapped pairs (a above b before, below it after) of one variant, in sorted order."""
-        m = self._members.get(int(var))
-        if m is None:
-            return np.zeros(0, dtype=int), np.zeros(0, dtype=int)
-        o, w = self.old[var, m], self.new[var, m]
-        ia, ib = np.nonzero((o[:, None] < o[None, :]) & (w[:, None] > w[None, :]))
-        return m[ia], m[ib]
-
-
-def _collect(ids, changed_list, r0, g0, ranks, goods, kept, best):
-    """Swap records for each variant; variant v changed corridor changed_list[v].
-
-    ``kept`` (variants x corridors, bool) marks the corridors each variant's
-    order is compared on. Returns the records (at most MAX_DETAILS, those
-    costing first place first), the number of swaps, the corridors whose
-    change cost first place, the corridors whose change reordered anything,
-    and the number of swaps that cost first place.
-    """
-    changed_list = list(changed_list)
-    is_best = np.zeros(len(r0), dtype=bool)
-    is_best[sorted(best)] = True
-    sw = _Swaps(np.asarray(r0), ranks, kept, is_best)
-    moved = [ids[changed_list[v]] for v in np.nonzero(sw.counts)[0]]
-    lost = [ids[changed_list[v]] for v in np.nonzero(sw.top)[0]]
-    top_found, other_found = [], []
-    # Variant by variant, pairs in sorted order: swaps costing first place first.
-    for v in np.nonzero(sw.top)[0]:
-        if len(top_found) >= MAX_DETAILS:
-            break
-        a, b = sw.pairs(v)
-        top_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(is_best[a])[0])
-    for v in np.nonzero(sw.counts - sw.top)[0]:
-        room = MAX_DETAILS - len(other_found)
-        if room <= 0 or len(top_found) >= MAX_DETAILS:
-            break
-        a, b = sw.pairs(v)
-        other_found.extend((v, int(a[p]), int(b[p])) for p in np.nonzero(~is_best[a])[0][:room])
-    records = []
-    for v, a, b in (top_found + other_found)[:MAX_DETAILS]:
-        records.append(
-            {
-                "changed": ids[changed_list[v]],
-                "corridor_id": ids[a],
-                "other_id": ids[b],
-                "ranks_before": [int(r0[a]), int(r0[b])],
-                "ranks_after": [int(ranks[v][a]), int(ranks[v][b])],
-                "score_gap_before": float(g0[a] - g0[b]),
-                "score_gap_after": float(goods[v][a] - goods[v][b]),
-                "affects_first": bool(is_best[a]),
-            }
-        )
-    records.sort(key=lambda r: (not r["affects_first"], r["ranks_before"]))
-    return records, int(sw.counts.sum()), lost, moved, int(sw.top.sum())
-
-
 def replace_worse(
     scorer, matrix, weights, ids, namer, *, fraction=WORSEN_FRACTION, replacements=None
 ) -> Check:
@@ -281,19 +180,20 @@ def replace_worse(
     target_rows = np.array([rows[j] for j in targets]).reshape(len(targets), k)
     target_idx = np.asarray(targets, dtype=int)
 
-    def build(start, stop):
+    def build(start, stop, offset=0):
+        start, stop = start + offset, stop + offset
         mats = empty_stack(stop - start, n, k)
         mats[...] = x
         mats[np.arange(stop - start), target_idx[start:stop]] = target_rows[start:stop]
         return mats
 
-    goods = score_variants(scorer, weights, len(targets), n, k, build)
-    ranks = rank_batch(goods) if targets else np.zeros((0, n), dtype=int)
-    kept = np.ones((len(targets), n), dtype=bool)
-    kept[np.arange(len(targets)), target_idx] = False
-    details, count, lost, moved, top_count = _collect(
-        ids, targets, r0, g0, ranks, goods, kept, best
-    )
+    col = Collector(ids, targets, r0, g0, best, MAX_DETAILS)
+    for s, e in passes(len(targets), n, k):
+        goods = score_variants(scorer, weights, e - s, n, k, partial(build, offset=s))
+        kept = np.ones((e - s, n), dtype=bool)
+        kept[np.arange(e - s), target_idx[s:e]] = False
+        col.add(s, rank_batch(goods), goods, kept)
+    details, count, lost, moved, top_count = col.result()
     passed = not lost
     count -= top_count
     if not targets:
@@ -329,20 +229,20 @@ def clone(scorer, matrix, weights, ids, namer) -> Check:
     r0 = rank_batch(g0)
     best = set(np.nonzero(r0 == 1)[0].tolist())
 
-    def build(start, stop):
+    def build(start, stop, offset=0):
         mats = empty_stack(stop - start, n + 1, k)
         mats[:, :n] = x
-        mats[:, n] = x[start:stop]
+        mats[:, n] = x[start + offset : stop + offset]
         return mats
 
-    goods = score_variants(scorer, weights, n, n + 1, k, build)
-    ranks = rank_batch(goods)
-    kept = np.ones((n, n + 1), dtype=bool)
-    kept[:, n] = False  # the copy takes no part in the comparison
     r0x, g0x = np.append(r0, 0), np.append(g0, 0.0)
-    details, count, lost, changed, _ = _collect(
-        ids + ["(copy)"], range(n), r0x, g0x, ranks, goods, kept, best
-    )
+    col = Collector(ids + ["(copy)"], range(n), r0x, g0x, best, MAX_DETAILS)
+    for s, e in passes(n, n + 1, k):
+        goods = score_variants(scorer, weights, e - s, n + 1, k, partial(build, offset=s))
+        kept = np.ones((e - s, n + 1), dtype=bool)
+        kept[:, n] = False  # the copy takes no part in the comparison
+        col.add(s, rank_batch(goods), goods, kept)
+    details, count, lost, changed, _ = col.result()
     if not count:
         sentence = (
             "Adding an exact copy of any one corridor leaves the order of the others unchanged."
@@ -372,24 +272,30 @@ def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
             "With fewer than three corridors, removing one leaves nothing to reorder.",
         )
 
-    # Row r of variant i is corridor r, or r + 1 from the removed one on.
     rest = np.arange(n - 1)[None, :]
-    kept = rest + (rest >= np.arange(n)[:, None])  # (n, n - 1) corridor indices
 
-    def build(start, stop):
+    def build(start, stop, offset=0):
         mats = empty_stack(stop - start, n - 1, k)
-        mats[...] = x[kept[start:stop]]
+        mats[...] = x[kept_rows(start + offset, stop + offset)]
         return mats
 
-    short = score_variants(scorer, weights, n, n - 1, k, build)
-    # Put the results back in full index space; the removed corridor gets 0.
-    variant = np.arange(n)[:, None]
-    ranks = np.zeros((n, n), dtype=int)
-    goods = np.zeros((n, n))
-    ranks[variant, kept] = rank_batch(short)
-    goods[variant, kept] = short
-    present = ~np.eye(n, dtype=bool)
-    details, count, lost, removed, _ = _collect(ids, range(n), r0, g0, ranks, goods, present, best)
+    def kept_rows(start, stop):
+        # Row r of variant i is corridor r, or r + 1 from the removed one on.
+        return rest + (rest >= np.arange(start, stop)[:, None])  # corridor indices
+
+    col = Collector(ids, range(n), r0, g0, best, MAX_DETAILS)
+    for s, e in passes(n, n - 1, k):
+        short = score_variants(scorer, weights, e - s, n - 1, k, partial(build, offset=s))
+        # Put the results back in full index space; the removed corridor gets 0.
+        variant, kept = np.arange(e - s)[:, None], kept_rows(s, e)
+        ranks = np.zeros((e - s, n), dtype=int)
+        goods = np.zeros((e - s, n))
+        ranks[variant, kept] = rank_batch(short)
+        goods[variant, kept] = short
+        present = np.ones((e - s, n), dtype=bool)
+        present[np.arange(e - s), np.arange(s, e)] = False
+        col.add(s, ranks, goods, present)
+    details, count, lost, removed, _ = col.result()
     if not count:
         sentence = "Removing any one corridor leaves the order of the rest unchanged."
     else:
@@ -418,7 +324,6 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
         return Check("transitivity", True, [], one), Check("pairwise_agreement", True, [], one)
     pp = pair_preferences(scorer, x, weights)
     ia, ib, pair_sign, cycles = pp.a, pp.b, pp.sign, pp.cycles
-    full_sign = np.sign(r0[ib] - r0[ia])
     if n < 3:
         trans = Check(
             "transitivity",
@@ -447,9 +352,16 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             "fails.",
             cycles,
         )
-    bad = np.nonzero(pair_sign != full_sign)[0]
+    bad, bad_count = [], 0
+    for start in range(0, ia.size, PAIR_BLOCK):
+        stop = start + PAIR_BLOCK
+        full_sign = np.sign(r0[ib[start:stop]] - r0[ia[start:stop]])
+        found = np.nonzero(pair_sign[start:stop] != full_sign)[0]
+        bad_count += found.size
+        if len(bad) < MAX_DETAILS:
+            bad.extend((found[: MAX_DETAILS - len(bad)] + start).tolist())
     details = []
-    for p in bad[:MAX_DETAILS]:
+    for p in bad:
         a, b = (ia[p], ib[p]) if r0[ia[p]] <= r0[ib[p]] else (ib[p], ia[p])
         winner = None if pair_sign[p] == 0 else ids[ia[p] if pair_sign[p] > 0 else ib[p]]
         details.append(
@@ -461,7 +373,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
                 "score_gap_full": float(g0[a] - g0[b]),
             }
         )
-    if not bad.size:
+    if not bad_count:
         agree = Check(
             "pairwise_agreement",
             True,
@@ -476,12 +388,12 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             "pairwise_agreement",
             False,
             details,
-            f"{bad.size} of {ia.size} two-corridor comparisons disagree with the full "
+            f"{bad_count} of {ia.size} two-corridor comparisons disagree with the full "
             f"order; e.g. between {namer.corridor(d['corridor_id'])} "
             f"(ranked {d['full_ranks'][0]}) and {namer.corridor(d['other_id'])} "
             f"(ranked {d['full_ranks'][1]}) on their own, {who}: test 3 of "
             "Wang & Triantaphyllou fails.",
-            int(bad.size),
+            int(bad_count),
         )
     return trans, agree
 

@@ -48,6 +48,8 @@ GRID_POINTS = 201
 TOLERANCE = 1e-6
 #: Largest relative deviation from a line for a kernel to count as affine [-].
 LINEAR_RTOL = 1e-9
+#: Corridors per block of the closed-form crossing search [-].
+AFFINE_ROWS = 256
 
 
 def sweep_weights(weights: np.ndarray, criterion: int, t: np.ndarray) -> np.ndarray:
@@ -160,23 +162,31 @@ def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: 
 
 
 def _crossings_affine(a: np.ndarray, b: np.ndarray, t0: float):
-    """Closed-form crossings of the score lines ``a + b t`` nearest to ``t0``."""
+    """Closed-form crossings of the score lines ``a + b t`` nearest to ``t0``.
+
+    Taken :data:`AFFINE_ROWS` corridors at a time against all the others,
+    so no (n x n) array is ever held.
+    """
     n = a.size
-    da = a[:, None] - a[None, :]
-    db = b[:, None] - b[None, :]
-    scale = np.maximum(np.abs(a)[:, None], np.abs(a)[None, :]) + np.abs(db) + 1e-300
-    moving = np.abs(db) > TIE_RTOL * scale
-    with np.errstate(divide="ignore", invalid="ignore"):
-        cross = np.where(moving, -da / np.where(moving, db, 1.0), np.nan)  # D_ij(t*) = 0
-    np.fill_diagonal(cross, np.nan)
-    inside = (cross >= 0.0) & (cross <= 1.0)
-    above = np.where(inside & (cross >= t0), cross, np.inf)
-    below = np.where(inside & (cross <= t0), cross, -np.inf)
-    high_by = np.argmin(above, axis=1)
-    low_by = np.argmax(below, axis=1)
-    rows = np.arange(n)
-    high = above[rows, high_by]
-    low = below[rows, low_by]
+    low, high = np.empty(n), np.empty(n)
+    low_by, high_by = np.empty(n, dtype=np.int64), np.empty(n, dtype=np.int64)
+    for start in range(0, n, AFFINE_ROWS):
+        rows = np.arange(start, min(n, start + AFFINE_ROWS))
+        da = a[rows, None] - a[None, :]
+        db = b[rows, None] - b[None, :]
+        scale = np.maximum(np.abs(a)[rows, None], np.abs(a)[None, :]) + np.abs(db) + 1e-300
+        moving = np.abs(db) > TIE_RTOL * scale
+        with np.errstate(divide="ignore", invalid="ignore"):
+            cross = np.where(moving, -da / np.where(moving, db, 1.0), np.nan)  # D_ij(t*) = 0
+        cross[np.arange(rows.size), rows] = np.nan
+        inside = (cross >= 0.0) & (cross <= 1.0)
+        above = np.where(inside & (cross >= t0), cross, np.inf)
+        below = np.where(inside & (cross <= t0), cross, -np.inf)
+        hb = np.argmin(above, axis=1)
+        lb = np.argmax(below, axis=1)
+        local = np.arange(rows.size)
+        high[rows], low[rows] = above[local, hb], below[local, lb]
+        high_by[rows], low_by[rows] = hb, lb
     high_by = np.where(np.isfinite(high), high_by, -1)
     low_by = np.where(np.isfinite(low), low_by, -1)
     return (
