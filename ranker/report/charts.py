@@ -26,13 +26,17 @@ OKABE_ITO = [
 ]
 
 
-def _plt():
+def _figure(width: float, height: float):
+    """Return a new figure and its axes, drawn by the SVG backend.
+
+    Uses matplotlib's object API rather than pyplot, so no global figure
+    manager (and no GUI backend) is ever loaded.
+    """
     import matplotlib
+    from matplotlib.backends.backend_svg import FigureCanvasSVG
+    from matplotlib.figure import Figure
 
-    matplotlib.use("svg", force=True)
-    import matplotlib.pyplot as plt
-
-    plt.rcParams.update(
+    matplotlib.rcParams.update(
         {
             "font.size": 9,
             "svg.fonttype": "none",
@@ -41,7 +45,9 @@ def _plt():
             "svg.hashsalt": "ranker",
         }
     )
-    return plt
+    fig = Figure(figsize=(width, height))
+    FigureCanvasSVG(fig)
+    return fig, fig.add_subplot()
 
 
 _COUNTER = [0]
@@ -55,7 +61,6 @@ def reset_ids() -> None:
 def _svg(fig) -> str:
     buf = io.StringIO()
     fig.savefig(buf, format="svg", bbox_inches="tight", metadata={"Date": None})
-    _plt().close(fig)
     text = buf.getvalue()
     text = text[text.index("<svg") :]
     text = re.sub(r"<metadata>.*?</metadata>", "", text, flags=re.S)
@@ -74,8 +79,7 @@ def _height(n: int) -> float:
 
 def score_bars(labels: list[str], scores: np.ndarray, *, method: str) -> str:
     """Horizontal bars of each corridor's score, rank 1 at the top."""
-    plt = _plt()
-    fig, ax = plt.subplots(figsize=(7.0, _height(len(labels))))
+    fig, ax = _figure(7.0, _height(len(labels)))
     y = np.arange(len(labels))
     ax.barh(y, scores, color=OKABE_ITO[0])
     ax.set_yticks(y, labels)
@@ -91,8 +95,7 @@ def contribution_bars(
     contributions: pd.DataFrame, labels: list[str], criterion_labels: dict[str, str]
 ) -> str:
     """Stacked bars of each criterion's weighted-sum contribution per corridor."""
-    plt = _plt()
-    fig, ax = plt.subplots(figsize=(7.0, _height(len(labels)) + 0.6))
+    fig, ax = _figure(7.0, _height(len(labels)) + 0.6)
     y = np.arange(len(labels))
     left = np.zeros(len(labels))
     for i, key in enumerate(contributions.columns):
@@ -117,9 +120,8 @@ def contribution_bars(
 
 def acceptability_heatmap(acceptability: pd.DataFrame, labels: list[str]) -> str:
     """Heatmap of the rank acceptability matrix (share of samples per rank)."""
-    plt = _plt()
     n = len(labels)
-    fig, ax = plt.subplots(figsize=(min(9.0, 1.2 + 0.45 * n), _height(n)))
+    fig, ax = _figure(min(9.0, 1.2 + 0.45 * n), _height(n))
     data = acceptability.to_numpy(dtype=float)
     im = ax.imshow(data, cmap="cividis", vmin=0, vmax=1, aspect="auto")
     ax.set_yticks(np.arange(n), labels)
@@ -147,12 +149,11 @@ def acceptability_heatmap(acceptability: pd.DataFrame, labels: list[str]) -> str
 
 def tipping_chart(tips: list[dict], criterion_labels: dict[str, str]) -> str:
     """For the most sensitive weights: current weight and where the top corridor changes."""
-    plt = _plt()
     rows = [t for t in tips if t.get("kind") == "top"]
     if not rows:
         return ""
     rows = sorted(rows, key=lambda t: abs(t["weight_at"] - t["current_weight"]))[:8]
-    fig, ax = plt.subplots(figsize=(7.0, _height(len(rows))))
+    fig, ax = _figure(7.0, _height(len(rows)))
     y = np.arange(len(rows))
     for yi, t in zip(y, rows, strict=True):
         ax.plot([t["current_weight"], t["weight_at"]], [yi, yi], color="#999999", lw=1.5)
@@ -167,7 +168,6 @@ def tipping_chart(tips: list[dict], criterion_labels: dict[str, str]) -> str:
 
 def plan_gantt(greedy: pd.DataFrame, optimised: pd.DataFrame, labels: dict[str, str]) -> str:
     """Gantt-style chart: the years each corridor is paid for, optimised and greedy plans."""
-    plt = _plt()
     funded = [
         cid
         for cid in optimised["corridor_id"]
@@ -176,7 +176,7 @@ def plan_gantt(greedy: pd.DataFrame, optimised: pd.DataFrame, labels: dict[str, 
     ]
     if not funded:
         return ""
-    fig, ax = plt.subplots(figsize=(7.0, _height(len(funded)) + 0.4))
+    fig, ax = _figure(7.0, _height(len(funded)) + 0.4)
     y = np.arange(len(funded))
     for plan, colour, offset, height, fill in (
         (optimised, OKABE_ITO[0], -0.18, 0.34, True),
