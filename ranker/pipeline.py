@@ -132,7 +132,7 @@ def rank_inputs(
 
     futures = None
     if inputs.scenarios is not None and len(inputs.scenarios):
-        futures = _futures(inputs, used, scores, weights)
+        futures = _futures(inputs, used, scores)
         warnings.extend(futures.get("warnings", []))
 
     plan = None
@@ -370,7 +370,7 @@ def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, 
     )
 
 
-def _futures(inputs: Inputs, used, scores, weights_name):
+def _futures(inputs: Inputs, used, scores):
     from .score import score_matrix
     from .score.screen import screen
     from .stress import futures

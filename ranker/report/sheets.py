@@ -9,19 +9,10 @@ from __future__ import annotations
 import pandas as pd
 
 from ..assumptions import ASSUMPTIONS
-from ..derive import BUILT_IN
+from ..workbook.schema import BUILTIN_CRITERIA
 from .narrative import consistency_text
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
-
-#: Units of the built-in criteria, for headers.
-CRITERION_UNITS = {
-    "policy_readiness": "[0-100]",
-    "capital_cost": "[USD]",
-    "charging_revenue": "[USD]",
-    "grid_headroom": "[-]",
-    "terrain_penalty": "[-]",
-}
 
 
 def chart_height(bars: int) -> float:
@@ -31,7 +22,7 @@ def chart_height(bars: int) -> float:
 
 def criterion_unit(key: str) -> str:
     """Return the unit of a criterion for headers ("" where unknown)."""
-    return CRITERION_UNITS.get(key, "")
+    return BUILTIN_CRITERIA[key].unit if key in BUILTIN_CRITERIA else ""
 
 
 def ranking_sheet(writer, result) -> None:
@@ -438,4 +429,4 @@ WRITERS = [
     run_info_sheet,
 ]
 
-__all__ = ["WRITERS", "BUILT_IN", "criterion_unit"]
+__all__ = ["WRITERS", "criterion_unit"]
