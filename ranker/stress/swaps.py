@@ -1,0 +1,203 @@
+"""Swaps between two rankings, counted for many variants of one problem.
+
+A swap is a pair of corridors whose strict order reverses between the
+original ranking and a variant's (A above B before, B above A after); a pair
+moving into or out of a tie is not a swap. Sorted by the original rank (then
+the new one), the swaps are the strict inversions of the new ranks, counted
+in ``O(m log^2 m)`` by divide and conquer (the merge step of merge sort;
+Knuth, The Art of Computer Programming vol. 3, 2nd ed., 1998, sec. 5.1.1 and
+5.2.4) instead of comparing every pair. :class:`Collector` takes the
+variants of a rank-reversal check a pass at a time (see :func:`passes`), so
+memory stays at a few (variants x corridors) arrays of one pass, and keeps
+at most ``limit`` example swaps.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .batch import chunk_size
+
+#: Variant problems scored and compared per pass of the swap counter: about
+#: this many corridor entries per pass, so the (variants x corridors) arrays
+#: of a check stay near 16 MiB each however many corridors there are [-].
+VARIANT_BUDGET = 2_000_000
+#: Below this many corridors an inversion count compares every pair [-].
+_DIRECT = 256
+#: Pairs i < j of a sequence up to _DIRECT long (the strict upper triangle).
+_UPPER = np.triu(np.ones((_DIRECT, _DIRECT), dtype=bool), 1)
+
+
+def inversions(seq: np.ndarray) -> int:
+    """Number of pairs i < j with ``seq[i] > seq[j]`` (strict), by divide and conquer.
+
+    ``O(m log^2 m)``: the two halves are counted on their own, and the pairs
+    across them by a sorted search (the merge step of merge sort).
+    """
+    m = seq.size
+    if m <= _DIRECT:
+        return int(np.count_nonzero((seq[:, None] > seq[None, :]) & _UPPER[:m, :m]))
+    half = m // 2
+    left, right = seq[:half], seq[half:]
+    not_above = np.searchsorted(np.sort(left), right, side="right")
+    cross = int(half * right.size - not_above.sum())
+    return inversions(left) + inversions(right) + cross
+
+
+def _pair_rows(o, w, rows):
+    """Swapped pairs (i, j) of member rows ``rows``, row-major, in row blocks."""
+    for start in range(0, rows.size, _DIRECT):
+        block = rows[start : start + _DIRECT]
+        ia, ib = np.nonzero((o[block, None] < o[None, :]) & (w[block, None] > w[None, :]))
+        yield block[ia], ib
+
+
+class _Swaps:
+    """The swaps of a pass of variants: counts for all, pairs on demand.
+
+    Sorting each variant's kept corridors by their old rank (then new rank),
+    a swap is a later corridor with a better new rank: the swaps are the
+    strict inversions of the new ranks in that order. Only corridors with a
+    worse new rank somewhere before them, or a better one after them, can be
+    part of a swap; inversions are counted, and pairs listed when asked for,
+    among those alone.
+
+    Attributes
+    ----------
+    counts : ndarray of int, shape (v,)
+        Swaps per variant [-].
+    top : ndarray of int, shape (v,)
+        Swaps per variant whose upper corridor was first before [-].
+    """
+
+    def __init__(self, r0, ranks, kept, is_best):
+        v, size = ranks.shape
+        big = size + 1
+        self.old = np.where(kept, r0[None, :], big).astype(np.int64)
+        self.new = np.where(kept, ranks, big).astype(np.int64)
+        self.counts = np.zeros(v, dtype=np.int64)
+        self.top = np.zeros(v, dtype=np.int64)
+        self._members: dict[int, np.ndarray] = {}
+        if not v:
+            return
+        order = np.argsort(self.old * (size + 2) + self.new, axis=1, kind="stable")
+        after = np.take_along_axis(self.new, order, axis=1)
+        moved = np.nonzero((np.diff(after, axis=1) < 0).any(axis=1))[0]
+        if not moved.size:
+            return
+        after, order = after[moved], order[moved]
+        before_max = np.maximum.accumulate(
+            np.concatenate([after[:, :1], after[:, :-1]], axis=1), axis=1
+        )
+        after_min = np.minimum.accumulate(
+            np.concatenate([after[:, 1:], after[:, -1:]], axis=1)[:, ::-1], axis=1
+        )[:, ::-1]
+        flagged = (before_max > after) | (after_min < after)
+        for row, var in enumerate(moved):
+            self._members[int(var)] = order[row, flagged[row]]
+            self.counts[var] = inversions(after[row, flagged[row]])
+        for a in np.nonzero(is_best)[0]:
+            oa, wa = self.old[:, a : a + 1], self.new[:, a : a + 1]
+            self.top += ((self.old > oa) & (self.new < wa)).sum(axis=1)
+
+    def pairs(self, var: int, upper=None, limit=None) -> tuple[np.ndarray, np.ndarray]:
+        """Swapped pairs (a above b before, below it after) of one variant, in sorted order.
+
+        ``upper`` (bool per corridor) keeps the pairs whose upper corridor
+        it marks; ``limit`` stops after that many pairs.
+        """
+        m = self._members.get(int(var))
+        if m is None:
+            return np.zeros(0, dtype=int), np.zeros(0, dtype=int)
+        o, w = self.old[var, m], self.new[var, m]
+        rows = np.arange(m.size) if upper is None else np.nonzero(upper[m])[0]
+        got_a, got_b, total = [], [], 0
+        for ia, ib in _pair_rows(o, w, rows):
+            got_a.append(m[ia])
+            got_b.append(m[ib])
+            total += ia.size
+            if limit is not None and total >= limit:
+                break
+        if not got_a:
+            return np.zeros(0, dtype=int), np.zeros(0, dtype=int)
+        a, b = np.concatenate(got_a), np.concatenate(got_b)
+        return (a, b) if limit is None else (a[:limit], b[:limit])
+
+
+class Collector:
+    """Swap records of a check's variants, fed a pass of variants at a time.
+
+    Variant ``v`` changed corridor ``changed_list[v]``; ``kept`` (variants x
+    corridors, bool) marks the corridors each variant's order is compared
+    on. :meth:`result` gives the records (at most ``limit``, those costing
+    first place first), the number of swaps, the corridors whose change cost
+    first place, the corridors whose change reordered anything, and the
+    number of swaps that cost first place.
+    """
+
+    def __init__(self, ids, changed_list, r0, g0, best, limit):
+        self.ids, self.changed, self.limit = ids, list(changed_list), limit
+        self.r0, self.g0 = np.asarray(r0), np.asarray(g0)
+        self.is_best = np.zeros(len(self.r0), dtype=bool)
+        self.is_best[sorted(best)] = True
+        self.count = self.top_count = 0
+        self.moved, self.lost = [], []
+        self.top_found, self.other_found = [], []
+
+    def _record(self, v, a, b, ranks, goods):
+        return {
+            "changed": self.ids[self.changed[v]],
+            "corridor_id": self.ids[a],
+            "other_id": self.ids[b],
+            "ranks_before": [int(self.r0[a]), int(self.r0[b])],
+            "ranks_after": [int(ranks[a]), int(ranks[b])],
+            "score_gap_before": float(self.g0[a] - self.g0[b]),
+            "score_gap_after": float(goods[a] - goods[b]),
+            "affects_first": bool(self.is_best[a]),
+        }
+
+    def add(self, start, ranks, goods, kept):
+        """Take variants ``start, start + 1, ...`` (their ranks, scores and kept masks)."""
+        sw = _Swaps(self.r0, ranks, kept, self.is_best)
+        self.count += int(sw.counts.sum())
+        self.top_count += int(sw.top.sum())
+        self.moved.extend(self.ids[self.changed[start + v]] for v in np.nonzero(sw.counts)[0])
+        self.lost.extend(self.ids[self.changed[start + v]] for v in np.nonzero(sw.top)[0])
+        # Variant by variant, pairs in sorted order: swaps costing first place first.
+        for v in np.nonzero(sw.top)[0]:
+            if len(self.top_found) >= self.limit:
+                break
+            a, b = sw.pairs(v, upper=self.is_best)
+            self.top_found.extend(
+                self._record(start + v, int(p), int(q), ranks[v], goods[v])
+                for p, q in zip(a, b, strict=True)
+            )
+        for v in np.nonzero(sw.counts - sw.top)[0]:
+            room = self.limit - len(self.other_found)
+            if room <= 0:
+                break
+            a, b = sw.pairs(v, upper=~self.is_best, limit=room)
+            self.other_found.extend(
+                self._record(start + v, int(p), int(q), ranks[v], goods[v])
+                for p, q in zip(a, b, strict=True)
+            )
+
+    def result(self):
+        """Records, swap count, first-losing corridors, reordering corridors, top swaps."""
+        records = (self.top_found + self.other_found)[: self.limit]
+        records.sort(key=lambda r: (not r["affects_first"], r["ranks_before"]))
+        return records, self.count, self.lost, self.moved, self.top_count
+
+
+def passes(count, rows, k):
+    """Variant ranges ``(start, stop)`` of one pass each, aligned to kernel chunks."""
+    step = chunk_size(rows, k)
+    per = step * max(1, VARIANT_BUDGET // max(1, rows * step))
+    return [(s, min(count, s + per)) for s in range(0, count, per)]
+
+
+def collect(ids, changed_list, r0, g0, ranks, goods, kept, best, limit):
+    """Swap records of every variant at once (see :class:`Collector`)."""
+    col = Collector(ids, changed_list, r0, g0, best, limit)
+    col.add(0, ranks, goods, kept)
+    return col.result()
