@@ -7,7 +7,6 @@ from pathlib import Path
 
 import jinja2
 
-from ..assumptions import ASSUMPTIONS
 from ..files import HTML_MARKER
 from . import charts, narrative
 from .sheets import criterion_unit
@@ -121,18 +120,7 @@ def build_html(result) -> str:
         if len(full) > len(ranking)
         else ""
     )
-    given = set(result.inputs.assumptions)
-    assumptions = [
-        {
-            "key": k,
-            "value": _text(result.assumptions[k]),
-            "unit": a.unit,
-            "note": a.note,
-            "set_by": "workbook" if k in given else "default",
-        }
-        for k, a in ASSUMPTIONS.items()
-        if k in result.assumptions
-    ]
+    assumptions = narrative.assumptions_used(result)
     methods = list(s.scores.columns)
     primary = result.primary_method
     others = [m for m in methods if m != primary]
@@ -249,11 +237,3 @@ def _plan_context(result) -> dict | None:
         "budget": plan.budget.to_dict(orient="records"),
         "warnings": plan.warnings,
     }
-
-
-def _text(value):
-    if isinstance(value, tuple):
-        return ", ".join(value)
-    if isinstance(value, bool):
-        return "yes" if value else "no"
-    return value

@@ -156,3 +156,29 @@ def method_labels(methods) -> dict:
     from ..score import METHODS
 
     return {m: METHODS[m].label if m in METHODS else m for m in methods}
+
+
+def assumptions_used(result) -> list[dict]:
+    """Every assumption with the value used, its unit, note and whether the workbook set it."""
+    from ..assumptions import ASSUMPTIONS
+
+    given = set(result.inputs.assumptions)
+    rows = []
+    for k, a in ASSUMPTIONS.items():
+        if k not in result.assumptions:
+            continue
+        value = result.assumptions[k]
+        if isinstance(value, tuple):
+            value = ", ".join(value)
+        elif isinstance(value, bool):
+            value = "yes" if value else "no"
+        rows.append(
+            {
+                "key": k,
+                "value": value,
+                "unit": a.unit,
+                "set_by": "workbook" if k in given else "default",
+                "note": a.note,
+            }
+        )
+    return rows

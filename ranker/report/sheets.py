@@ -8,9 +8,8 @@ from __future__ import annotations
 
 import pandas as pd
 
-from ..assumptions import ASSUMPTIONS
 from ..workbook.schema import BUILTIN_CRITERIA
-from .narrative import consistency_text
+from .narrative import assumptions_used, consistency_text
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
@@ -382,31 +381,10 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 1, w)
     row = row + 2 + max(1, len(result.warnings))
     put(ws, row, 1, "Assumptions used").font = HEADER_FONT
-    given = set(result.inputs.assumptions)
-    table = pd.DataFrame(
-        [
-            {
-                "key": k,
-                "value": _text(result.assumptions[k]),
-                "unit": a.unit,
-                "set by": "workbook" if k in given else "default",
-                "note": a.note,
-            }
-            for k, a in ASSUMPTIONS.items()
-            if k in result.assumptions
-        ]
-    )
+    table = pd.DataFrame(assumptions_used(result)).rename(columns={"set_by": "set by"})
     writer.table(ws, table, top=row + 1, name="assumptions_used")
     ws.column_dimensions["A"].width = 26
     ws.column_dimensions["B"].width = 70
-
-
-def _text(value) -> object:
-    if isinstance(value, tuple):
-        return ", ".join(value)
-    if isinstance(value, bool):
-        return "yes" if value else "no"
-    return value
 
 
 def _letter(col: int) -> str:
