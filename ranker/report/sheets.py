@@ -7,6 +7,7 @@ To add a sheet, write ``def my_sheet(writer, result)`` here and append it to
 from __future__ import annotations
 
 import pandas as pd
+from openpyxl.utils import get_column_letter
 
 from ..workbook.schema import BUILTIN_CRITERIA
 from .narrative import assumptions_used, consistency_text
@@ -246,7 +247,9 @@ def robustness_sheet(writer, result) -> None:
             name="acceptability",
             formats={c: "0%" for c in acc.columns},
         )
-        colour_scale(ws, f"{_letter(left + 1)}{top + 1}:{_letter(right)}{bottom}")
+        colour_scale(
+            ws, f"{get_column_letter(left + 1)}{top + 1}:{get_column_letter(right)}{bottom}"
+        )
         row = bottom + 2
     else:
         put(ws, row, 1, "Monte Carlo turned off (--samples 0).")
@@ -385,12 +388,6 @@ def run_info_sheet(writer, result) -> None:
     writer.table(ws, table, top=row + 1, name="assumptions_used")
     ws.column_dimensions["A"].width = 26
     ws.column_dimensions["B"].width = 70
-
-
-def _letter(col: int) -> str:
-    from openpyxl.utils import get_column_letter
-
-    return get_column_letter(col)
 
 
 #: Result sheets in the order they are written.
