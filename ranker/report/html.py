@@ -77,7 +77,6 @@ def _cards(result, shown) -> list[dict]:
 
 def build_html(result) -> str:
     """Return the justification sheet for ``result`` as HTML text."""
-    charts.reset_ids()
     full = result.ranking
     # Charts and cards show the leading corridors; every corridor is in the table.
     ranking = full.iloc[:SHOWN_CORRIDORS]
