@@ -7,7 +7,6 @@ in :mod:`ranker.derive.adoption`.
 from __future__ import annotations
 
 import numpy as np
-from scipy.special import expit
 
 
 def ev_price_annual_decline(
@@ -171,4 +170,5 @@ def new_sales_share_logit(
     utility = (
         np.asarray(annual_cost_diesel_usd) - np.asarray(annual_cost_ev_usd) + preference_offset_usd
     ) / spread_usd
-    return expit(utility)  # binary logit of [1], [2]
+    # Binary logit of [1], [2], 1 / (1 + exp(-u)), written so no exp overflows.
+    return np.exp(-np.logaddexp(0.0, -np.asarray(utility, dtype=float)))

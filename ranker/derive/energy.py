@@ -27,10 +27,15 @@ needed, and a closed loop (``h_d = h_c``) gives ``m g h_c (1/eta - rho)``.
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import foot, g, hour, kilo, pound
 
-#: Joules in one kilowatt-hour [J/kWh].
-J_PER_KWH = kilo * hour
+#: Standard acceleration of gravity, exact by definition (3rd CGPM, 1901) [m/s^2].
+G_M_PER_S2 = 9.80665
+#: The international foot, 12 inches of 0.0254 m (1959 agreement), exact [m].
+M_PER_FT = 12 * 0.0254
+#: The international avoirdupois pound, 7000 grains of 64.79891 mg (1959 agreement) [kg].
+KG_PER_LB = 7000 * 64.79891e-6
+#: Joules in one kilowatt-hour, 1000 W x 3600 s [J/kWh].
+J_PER_KWH = 1000.0 * 3600.0
 
 
 def flat_energy_per_mile(length_mi: np.ndarray, *, energy_kwh_per_mi: float) -> np.ndarray:
@@ -91,9 +96,9 @@ def potential_energy_gravity(mass_lb: float | np.ndarray, height_ft: np.ndarray)
     >>> round(float(potential_energy_gravity(80_000.0, 100 / 0.3048)), 3)
     9.885
     """
-    mass_kg = np.asarray(mass_lb, dtype=float) * pound
-    height_m = np.asarray(height_ft, dtype=float) * foot
-    return mass_kg * g * height_m / J_PER_KWH
+    mass_kg = np.asarray(mass_lb, dtype=float) * KG_PER_LB
+    height_m = np.asarray(height_ft, dtype=float) * M_PER_FT
+    return mass_kg * G_M_PER_S2 * height_m / J_PER_KWH
 
 
 def climb_energy_two_way(

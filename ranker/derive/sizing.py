@@ -20,7 +20,6 @@ from __future__ import annotations
 from collections.abc import Callable
 
 import numpy as np
-from scipy.special import gammaincc, gammaln, xlogy
 
 
 def _ceil(x: np.ndarray) -> np.ndarray:
@@ -145,9 +144,11 @@ def blocking_probability_erlang_b(
 ) -> np.ndarray:
     """Compute the Erlang B blocking probability of an M/M/c/c system [-].
 
-    ``B(c, A) = (A^c / c!) / sum_{k=0}^{c} A^k / k!``, evaluated as the
-    Poisson ratio ``pmf(c; A) / cdf(c; A)`` with the regularised upper
-    incomplete gamma function, so that it vectorises over any ``c``.
+    ``B(c, A) = (A^c / c!) / sum_{k=0}^{c} A^k / k!``, evaluated by the
+    recursion ``B(0) = 1``, ``B(k) = A B(k-1) / (k + A B(k-1))`` [3], which
+    never overflows; one array step per server, each over only the stations
+    with at least that many servers. A test checks it against the Poisson
+    ratio ``pmf(c; A) / cdf(c; A)`` computed with scipy's special functions.
 
     Parameters
     ----------
@@ -175,13 +176,25 @@ def blocking_probability_erlang_b(
     >>> round(float(blocking_probability_erlang_b(3, 2.0)), 4)
     0.2105
     """
-    c = np.asarray(servers, dtype=float)
-    a = np.asarray(offered_load_erlang, dtype=float)
-    log_pmf = xlogy(c, a) - a - gammaln(c + 1.0)
-    cdf = gammaincc(c + 1.0, a)  # P(Poisson(A) <= c) = Q(c + 1, A)
-    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        b = np.exp(log_pmf) / cdf  # Erlang's loss formula of [1]
-    return np.where(cdf > 0.0, np.minimum(b, 1.0), 1.0)
+    c, a = np.broadcast_arrays(
+        np.asarray(servers, dtype=float), np.asarray(offered_load_erlang, dtype=float)
+    )
+    finite = np.isfinite(a)  # no finite answer: blocked (1), as the limit A -> inf
+    flat_c = np.where(finite, c, 0.0).ravel()
+    order = np.argsort(-flat_c, kind="stable")  # most servers first
+    cs = flat_c[order]
+    load = np.where(finite, a, 0.0).ravel()[order]
+    b = np.ones(cs.size)
+    top = int(cs[0]) if cs.size else 0
+    # active[k - 1]: how many stations have at least k servers (a prefix of the order)
+    active = np.searchsorted(-cs, -np.arange(1.0, top + 1.0), side="right")
+    for k in range(1, top + 1):
+        m = active[k - 1]
+        x = load[:m] * b[:m]
+        b[:m] = x / (k + x)  # Erlang's loss formula [1] by the recursion of [3]
+    out = np.empty(cs.size)
+    out[order] = b
+    return np.where(finite, out.reshape(c.shape), 1.0)
 
 
 def wait_probability_erlang_c(servers: np.ndarray, offered_load_erlang: np.ndarray) -> np.ndarray:

@@ -7,10 +7,10 @@ curve; the fleet grows at a fixed rate. The adoption models of
 
 from __future__ import annotations
 
+import math
 from typing import NamedTuple
 
 import numpy as np
-from scipy.special import gamma
 
 # Ages beyond which the survival curve is treated as zero: where S < 1e-12, but never more
 # than 20 mean lives (a shrinking fleet with a long-tailed curve would otherwise weight
@@ -50,7 +50,7 @@ def survival_weibull(age_yr: np.ndarray, *, mean_life_yr: float, shape: float) -
     >>> survival_weibull([0.0, 15.0], mean_life_yr=15.0, shape=1.0).round(4)
     array([1.    , 0.3679])
     """
-    scale = mean_life_yr / gamma(1.0 + 1.0 / shape)  # mean of the Weibull law of [1]
+    scale = mean_life_yr / math.gamma(1.0 + 1.0 / shape)  # mean of the Weibull law of [1]
     a = np.asarray(age_yr, dtype=float)
     return np.exp(-((a / scale) ** shape))
 
@@ -144,7 +144,7 @@ def stock_turnover_vintage(
     rate = np.log1p(growth_rate_per_yr)
     fleet_target = np.exp(rate * dt * np.arange(n + 1))
 
-    scale = mean_life_yr / gamma(1.0 + 1.0 / shape)
+    scale = mean_life_yr / math.gamma(1.0 + 1.0 / shape)
     max_age = min(
         scale * (-np.log(_SURVIVAL_FLOOR)) ** (1.0 / shape), _MAX_AGE_IN_LIVES * mean_life_yr
     )

@@ -4,8 +4,9 @@ Each corridor may say which two places it joins (``connects`` on the
 ``Corridors`` sheet, text such as ``Northport-Lakeside``). The funded
 corridors of a plan, year by year, form a graph whose nodes are places and
 whose edges are corridors; the endpoints are joined when they all lie in one
-connected component. Components are found with
-:func:`scipy.sparse.csgraph.connected_components`.
+connected component. Components are kept by a disjoint-set forest (union
+by size, path halving [2]) as corridors are added year by year; a test
+checks it against :func:`scipy.sparse.csgraph.connected_components`.
 
 The endpoints are the places named in ``coverage_endpoints``; when that is
 empty, every place named in any corridor's ``connects`` (the whole network
@@ -15,6 +16,8 @@ References
 ----------
 .. [1] R. Tarjan, "Depth-first search and linear graph algorithms", SIAM
    Journal on Computing 1(2):146-160, 1972. doi:10.1137/0201010
+.. [2] R. E. Tarjan and J. van Leeuwen, "Worst-case analysis of set union
+   algorithms", Journal of the ACM 31(2):245-281, 1984.
 """
 
 from __future__ import annotations
@@ -23,8 +26,6 @@ import re
 
 import numpy as np
 import pandas as pd
-from scipy import sparse
-from scipy.sparse.csgraph import connected_components
 
 from ..workbook.tables import ASSUMPTIONS, CORRIDORS
 from .checks import _fail
@@ -113,21 +114,36 @@ def first_joined(
 
     References
     ----------
-    .. [1] R. Tarjan, "Depth-first search and linear graph algorithms", SIAM
-       Journal on Computing 1(2):146-160, 1972. doi:10.1137/0201010
+    .. [1] R. E. Tarjan and J. van Leeuwen, "Worst-case analysis of set union
+       algorithms", Journal of the ACM 31(2):245-281, 1984.
 
     Examples
     --------
     >>> first_joined(np.array([[0, 1], [1, 2]]), 3, np.array([0, 2]), np.array([0, 1]), 2)
     1
     """
+    parent = list(range(n_nodes))
+    size = [1] * n_nodes
+
+    def root(a: int) -> int:
+        while parent[a] != a:
+            parent[a] = parent[parent[a]]  # path halving of [1]
+            a = parent[a]
+        return a
+
     has = (edges[:, 0] >= 0) & (completed >= 0)
+    by_year = [edges[has & (completed == t)].tolist() for t in range(n_years)]
+    targets = [int(e) for e in ends]
     for t in range(n_years):
-        live = has & (completed <= t)
-        e = edges[live]
-        graph = sparse.csr_matrix((np.ones(len(e)), (e[:, 0], e[:, 1])), shape=(n_nodes, n_nodes))
-        _, labels = connected_components(graph, directed=False)
-        if np.all(labels[ends] == labels[ends[0]]):
+        for a, b in by_year[t]:
+            ra, rb = root(a), root(b)
+            if ra != rb:  # union by size of [1]
+                if size[ra] < size[rb]:
+                    ra, rb = rb, ra
+                parent[rb] = ra
+                size[ra] += size[rb]
+        first = root(targets[0])
+        if all(root(e) == first for e in targets[1:]):
             return t
     return -1
 

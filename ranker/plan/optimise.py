@@ -39,7 +39,7 @@ enough, Jackson [3]). That is the balance form again, the balance being
 money not yet tied to a finished corridor. :mod:`ranker.plan.schedule`
 turns the completion years back into payments.
 
-The program is solved by HiGHS [4] through :func:`scipy.optimize.milp`.
+The program is solved by HiGHS [4] through its own binding (:mod:`.highs`).
 
 References
 ----------
@@ -63,8 +63,8 @@ import time
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import sparse
-from scipy.optimize import Bounds, LinearConstraint, milp
+
+from .highs import Rows, solve_milp
 
 #: Relative gap at which the solver may stop and call the plan optimal [-].
 MIP_REL_GAP = 1e-7
@@ -89,7 +89,7 @@ class MilpArrays:
         ``(bound - value) / |value|`` as reported by the solver; 0 when
         proven optimal to its tolerance [-].
     status : int
-        :func:`scipy.optimize.milp` status (0 optimal, 1 limit reached) [-].
+        :func:`scipy.optimize.milp`'s status codes (0 optimal, 1 limit reached) [-].
     message : str
         The solver's message.
     seconds : float
@@ -177,17 +177,14 @@ def milp_kernel(
         objective, upper, integrality, constraints = _complete_by_form(c, v, b)
     else:
         objective, upper, integrality, constraints = _per_year_form(c, v, b)
-    nvar = objective.size
-    options = {"mip_rel_gap": float(mip_rel_gap), "disp": False, "presolve": True}
-    if time_limit is not None:
-        options["time_limit"] = float(time_limit)
     start = time.perf_counter()
-    res = milp(
+    res = solve_milp(
         objective,
+        upper=upper,
         integrality=integrality,
-        bounds=Bounds(np.zeros(nvar), upper),
-        constraints=constraints,
-        options=options,
+        rows=constraints,
+        mip_rel_gap=float(mip_rel_gap),
+        time_limit=None if time_limit is None else float(time_limit),
     )
     seconds = time.perf_counter() - start
     if res.x is None:
@@ -217,11 +214,11 @@ def _per_year_form(c: np.ndarray, v: np.ndarray, b: np.ndarray):
     var = np.arange(nx)
     corridor = np.repeat(np.arange(n), big_t)
     year = np.tile(np.arange(big_t), n)
-    once = sparse.csr_matrix((np.ones(nx), (corridor, var)), shape=(n, nx))
-    spend = sparse.csr_matrix((np.repeat(c, big_t), (year, var)), shape=(big_t, nx))
     constraints = [
-        LinearConstraint(once, -np.inf, 1.0),  # sum_t x[i, t] <= 1
-        LinearConstraint(spend, -np.inf, b),  # sum_i c_i x[i, t] <= B_t
+        Rows(corridor, var, np.ones(nx), np.full(n, -np.inf), np.ones(n)),  # sum_t x[i, t] <= 1
+        Rows(
+            year, var, np.repeat(c, big_t), np.full(big_t, -np.inf), b
+        ),  # sum_i c_i x[i, t] <= B_t
     ]
     objective = -np.where(allowed, v, 0.0).ravel()
     return objective, allowed.ravel().astype(float), np.ones(nx), constraints
@@ -238,29 +235,26 @@ def _complete_by_form(c: np.ndarray, v: np.ndarray, b: np.ndarray):
     var = np.arange(nx)
     year = np.tile(np.arange(big_t), n)
     # b[t] + sum_i c_i y[i, t] = B_0 + ... + B_t: the balance equation summed over years
-    balance = sparse.csr_matrix(
-        (
-            np.concatenate([np.repeat(c, big_t), np.ones(big_t)]),
-            (
-                np.concatenate([year, np.arange(big_t)]),
-                np.concatenate([var, nx + np.arange(big_t)]),
-            ),
-        ),
-        shape=(big_t, nx + big_t),
+    balance = Rows(
+        np.concatenate([year, np.arange(big_t)]),
+        np.concatenate([var, nx + np.arange(big_t)]),
+        np.concatenate([np.repeat(c, big_t), np.ones(big_t)]),
+        budget_to,
+        budget_to,
     )
     later = var[year > 0]
     k = later.size
     # y[i, t] - y[i, t-1] >= 0, i.e. x[i, t] >= 0
-    steps = sparse.csr_matrix(
-        (
-            np.concatenate([np.ones(k), -np.ones(k)]),
-            (np.concatenate([np.arange(k), np.arange(k)]), np.concatenate([later, later - 1])),
-        ),
-        shape=(k, nx + big_t),
+    steps = Rows(
+        np.concatenate([np.arange(k), np.arange(k)]),
+        np.concatenate([later, later - 1]),
+        np.concatenate([np.ones(k), -np.ones(k)]),
+        np.zeros(k),
+        np.full(k, np.inf),
     )
-    constraints = [LinearConstraint(balance, budget_to, budget_to)]
+    constraints = [balance]
     if k:
-        constraints.append(LinearConstraint(steps, 0.0, np.inf))
+        constraints.append(steps)
     gain = v.copy()
     gain[:, :-1] -= v[:, 1:]  # v[i, t] - v[i, t+1]
     objective = np.concatenate([-np.where(allowed, gain, 0.0).ravel(), np.zeros(big_t)])

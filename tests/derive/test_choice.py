@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from ranker.derive.choice import ev_price_wright_learning, new_sales_share_logit
 
@@ -26,3 +28,14 @@ def test_wright_learning_cuts_the_gap_per_doubling():
         learning_rate=0.15,
     )
     np.testing.assert_allclose(np.diff(np.log(p - 100.0)), np.log(0.85))
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.floats(-1e6, 1e6), st.floats(-1e6, 1e6), st.floats(1.0, 1e5))
+def test_logit_equals_scipy_expit(diesel, ev, spread):
+    """The share is scipy.special.expit of the utility (the library logistic),
+    also far in the tails where a naive 1 / (1 + exp(-u)) overflows."""
+    from scipy.special import expit
+
+    got = new_sales_share_logit(ev, diesel, preference_offset_usd=0.0, spread_usd=spread)
+    assert float(got) == pytest.approx(float(expit((diesel - ev) / spread)), rel=1e-12, abs=1e-300)

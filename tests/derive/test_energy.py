@@ -101,3 +101,16 @@ def test_doubling_length_with_per_mile_terrain_doubles_energy(length, climb_per_
     e2, t2 = per_pass(2 * length)
     np.testing.assert_allclose(e2, 2 * e1, rtol=1e-12)
     np.testing.assert_allclose(t2, t1, rtol=1e-12, atol=1e-15)
+
+
+def test_unit_constants_are_scipys():
+    """Exact SI definitions (CGPM 1901 for g; the 1959 international foot and
+    pound), as scipy.constants carries them (CODATA)."""
+    import scipy.constants as sc
+
+    from ranker.derive import energy
+
+    assert energy.G_M_PER_S2 == sc.g
+    assert energy.M_PER_FT == sc.foot
+    assert energy.KG_PER_LB == sc.pound
+    assert energy.J_PER_KWH == sc.kilo * sc.hour

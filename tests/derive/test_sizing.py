@@ -61,6 +61,30 @@ def test_erlang_b_matches_the_recursion(c, a):
     )
 
 
+@settings(max_examples=100, deadline=None)
+@given(
+    c=st.lists(st.integers(0, 300), min_size=1, max_size=40),
+    a=st.lists(st.floats(0.0, 400.0), min_size=1, max_size=40),
+)
+def test_erlang_b_equals_scipys_poisson_ratio(c, a):
+    """Vectorised over mixed server counts: B = pmf(c; A) / cdf(c; A) with
+    scipy.special's xlogy, gammaln and gammaincc (the library formulation)."""
+    from scipy.special import gammaincc, gammaln, xlogy
+
+    n = min(len(c), len(a))
+    cs, loads = np.array(c[:n], float), np.array(a[:n], float)
+    cdf = gammaincc(cs + 1.0, loads)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        ref = np.exp(xlogy(cs, loads) - loads - gammaln(cs + 1.0)) / cdf
+    ref = np.where(cdf > 0.0, np.minimum(ref, 1.0), 1.0)
+    np.testing.assert_allclose(
+        blocking_probability_erlang_b(cs, loads), ref, rtol=1e-9, atol=1e-300
+    )
+    grid = blocking_probability_erlang_b(cs[:, None], loads[None, :])  # broadcasting
+    assert grid.shape == (n, n)
+    np.testing.assert_allclose(np.diag(grid), ref, rtol=1e-9, atol=1e-300)
+
+
 @settings(max_examples=200, deadline=None)
 @given(c=st.integers(1, 60), frac=st.floats(0.01, 0.99))
 def test_erlang_c_matches_the_textbook_sum(c, frac):

@@ -87,20 +87,3 @@ def greedy_reference(cost, order, budget, *, carry_over, allow_split):
                 left = 0.0
         carry = left if carry_over else 0.0
     return np.array(completed), np.array(started), np.array(pay)
-
-
-def components_reference(n_nodes, edges):
-    """Connected-component label per node by union-find (path halving)."""
-    parent = list(range(n_nodes))
-
-    def find(a):
-        while parent[a] != a:
-            parent[a] = parent[parent[a]]
-            a = parent[a]
-        return a
-
-    for a, b in edges:
-        ra, rb = find(a), find(b)
-        if ra != rb:
-            parent[ra] = rb
-    return [find(a) for a in range(n_nodes)]
