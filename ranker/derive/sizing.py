@@ -144,11 +144,16 @@ def blocking_probability_erlang_b(
 ) -> np.ndarray:
     """Compute the Erlang B blocking probability of an M/M/c/c system [-].
 
-    ``B(c, A) = (A^c / c!) / sum_{k=0}^{c} A^k / k!``, evaluated by the
-    recursion ``B(0) = 1``, ``B(k) = A B(k-1) / (k + A B(k-1))`` [3], which
-    never overflows; one array step per server, each over only the stations
-    with at least that many servers. A test checks it against the Poisson
-    ratio ``pmf(c; A) / cdf(c; A)`` computed with scipy's special functions.
+    ``B(c, A) = (A^c / c!) / sum_{k=0}^{c} A^k / k!``. Up to
+    :data:`RECURSION_MAX_SERVERS` servers it is evaluated by the recursion
+    ``B(0) = 1``, ``B(k) = A B(k-1) / (k + A B(k-1))`` [3], which never
+    overflows (one array step per server, each over only the stations with at
+    least that many servers), so a run need not import scipy. Beyond that,
+    where the recursion would take too many steps: for ``c > A`` the Poisson
+    ratio ``pmf(c; A) / cdf(c; A)`` with scipy's regularised incomplete gamma
+    function; for ``A >= c`` the series ``1 / B = sum_j c! / ((c - j)! A^j)``
+    [2], whose terms fall from the first, summed until they no longer count.
+    Tests check all three agree.
 
     Parameters
     ----------
@@ -180,6 +185,23 @@ def blocking_probability_erlang_b(
         np.asarray(servers, dtype=float), np.asarray(offered_load_erlang, dtype=float)
     )
     finite = np.isfinite(a)  # no finite answer: blocked (1), as the limit A -> inf
+    big = finite & (c > RECURSION_MAX_SERVERS)
+    if not big.any():
+        return _erlang_b_recursion(c, a, finite)
+    out = _erlang_b_recursion(np.where(big, 0.0, c), a, finite)
+    light = big & (c > a)
+    out[light] = _erlang_b_poisson(c[light], a[light])
+    heavy = big & ~light
+    out[heavy] = _erlang_b_overloaded(c[heavy], a[heavy])
+    return out
+
+
+#: Most servers for which Erlang B is evaluated by recursion [-].
+RECURSION_MAX_SERVERS = 400
+
+
+def _erlang_b_recursion(c: np.ndarray, a: np.ndarray, finite: np.ndarray) -> np.ndarray:
+    """Erlang B by the recursion of Gross et al. (2008, sec. 2.3) [-]."""
     flat_c = np.where(finite, c, 0.0).ravel()
     order = np.argsort(-flat_c, kind="stable")  # most servers first
     cs = flat_c[order]
@@ -195,6 +217,40 @@ def blocking_probability_erlang_b(
     out = np.empty(cs.size)
     out[order] = b
     return np.where(finite, out.reshape(c.shape), 1.0)
+
+
+def _erlang_b_overloaded(c: np.ndarray, a: np.ndarray) -> np.ndarray:
+    """Erlang B where ``A >= c``: ``1 / B = sum_{j=0}^{c} prod_{i<j} (c - i) / A`` [-].
+
+    Every factor is at most 1, so the terms fall and the sum stops once a
+    term is below 1e-17 of the total (Kleinrock 1975, sec. 3.5, the sum
+    read from the top term down).
+    """
+    total = np.ones(c.size)
+    term = np.ones(c.size)
+    live = np.arange(c.size)
+    j = 0
+    while live.size:
+        term[live] *= (c[live] - j) / a[live]
+        total[live] += term[live]
+        j += 1
+        live = live[(term[live] > 1e-17 * total[live]) & (c[live] > j)]
+    return 1.0 / total
+
+
+def _erlang_b_poisson(c: np.ndarray, a: np.ndarray) -> np.ndarray:
+    """Erlang B as the Poisson ratio ``pmf(c; A) / cdf(c; A)``, in any ``c`` at once [-].
+
+    ``cdf(c; A) = Q(c + 1, A)``, the regularised upper incomplete gamma
+    function (Abramowitz and Stegun 1964, eq. 26.4.21), from scipy.
+    """
+    from scipy.special import gammaincc, gammaln, xlogy
+
+    log_pmf = xlogy(c, a) - a - gammaln(c + 1.0)
+    cdf = gammaincc(c + 1.0, a)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        b = np.exp(log_pmf) / cdf  # Erlang's loss formula
+    return np.where(cdf > 0.0, np.minimum(b, 1.0), 1.0)
 
 
 def wait_probability_erlang_c(servers: np.ndarray, offered_load_erlang: np.ndarray) -> np.ndarray:

@@ -85,6 +85,40 @@ def test_erlang_b_equals_scipys_poisson_ratio(c, a):
     np.testing.assert_allclose(np.diag(grid), ref, rtol=1e-9, atol=1e-300)
 
 
+@settings(max_examples=60, deadline=None)
+@given(c=st.integers(401, 2500), ratio=st.floats(0.05, 20.0))
+def test_erlang_b_beyond_the_recursion_limit_equals_the_recursion(c, ratio):
+    """Above RECURSION_MAX_SERVERS: scipy's Poisson ratio (A < c) and the
+    falling series (A >= c) against the recursion run all the way
+    (Gross et al. 2008, sec. 2.3)."""
+    from ranker.derive.sizing import RECURSION_MAX_SERVERS, _erlang_b_recursion
+
+    assert c > RECURSION_MAX_SERVERS
+    cs, a = np.array([float(c)]), np.array([c * ratio])
+    full = _erlang_b_recursion(cs, a, np.ones(1, bool))
+    np.testing.assert_allclose(blocking_probability_erlang_b(cs, a), full, rtol=1e-9, atol=1e-300)
+
+
+def test_erlang_b_heavy_overload_keeps_its_value():
+    """Far past overload B -> 1 - c / A (Kleinrock 1975, sec. 3.5); the Poisson
+    ratio in floating point loses it where the cdf underflows (c 140, A 1180)."""
+    b = float(blocking_probability_erlang_b(140, 1180.0))
+    assert b == pytest.approx(_erlang_b_recursion(140, 1180.0), rel=1e-12)
+    assert 1 - 140 / 1180 < b < 1
+
+
+def test_ports_for_enormous_loads_follow_square_root_staffing():
+    """A load of 1e8 Erlang at one station still sizes, without stepping through
+    1e8 servers, and lands on Halfin and Whitt's (1981) heavy-traffic answer
+    c = A + beta sqrt(A) with 1 / (1 + beta Phi(beta) / phi(beta)) = 0.2."""
+    from scipy.optimize import brentq
+    from scipy.stats import norm
+
+    beta = brentq(lambda x: 1 / (1 + x * norm.cdf(x) / norm.pdf(x)) - 0.2, 0.01, 5.0)
+    c = ports_erlang_c(np.array([1e8]), 1.0, max_wait_probability=0.2)
+    assert c[0] == pytest.approx(1e8 + beta * 1e4, abs=3.0)
+
+
 @settings(max_examples=200, deadline=None)
 @given(c=st.integers(1, 60), frac=st.floats(0.01, 0.99))
 def test_erlang_c_matches_the_textbook_sum(c, frac):
