@@ -8,6 +8,7 @@ duplicated, so "adjust weights and re-run" works on either file.
 from __future__ import annotations
 
 import io
+import math
 from collections.abc import Sequence
 
 import numpy as np
@@ -28,6 +29,7 @@ TAB_COLOUR = "1F4E79"
 TITLE_FONT = Font(bold=True, size=12, color="1F4E79")
 HEADER_FONT = Font(bold=True)
 NOTE_FONT = Font(italic=True, color="595959")
+HEADER_ALIGNMENT = Alignment(wrap_text=True, vertical="top")
 CAUTION = (
     "Planning-level estimates only. Confirm grid capacity with the utility; design and "
     "installation follow local codes and licensed engineers."
@@ -38,6 +40,11 @@ _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 
 def safe_value(value):
     """Return a cell value that a spreadsheet will never run as a formula."""
+    kind = type(value)  # the common exact types first; subclasses take the general path
+    if kind is str or kind is int:
+        return value
+    if kind is float:
+        return value if math.isfinite(value) else None
     if isinstance(value, (np.integer,)):
         return int(value)
     if isinstance(value, (np.floating, float)):
@@ -72,6 +79,17 @@ class SheetWriter:
         self.version = version
         self.stamp = stamp
         self.names: list[str] = []
+        self._ranking: tuple | None = None
+
+    def ranking(self, result) -> pd.DataFrame:
+        """Return ``result.ranking``, built once per workbook.
+
+        The result does not change while its sheets are written; callers
+        must not modify the frame returned (copy it first).
+        """
+        if self._ranking is None or self._ranking[0] is not result:
+            self._ranking = (result, result.ranking)
+        return self._ranking[1]
 
     def sheet(self, name: str, title: str, note: str = ""):
         """Create a result sheet with its title rows; return it."""
@@ -128,13 +146,17 @@ class SheetWriter:
             label = f"{h} {units[h]}" if h in units else h
             cell = put(ws, top, left + j, label)
             cell.font = HEADER_FONT
-            cell.alignment = Alignment(wrap_text=True, vertical="top")
+            cell.alignment = HEADER_ALIGNMENT
             if h in notes:
                 cell.comment = Comment(notes[h], "ranker")
         values = data.to_numpy(dtype=object)
+        # A column listed in ``formats`` takes that format, even when it is None.
+        fixed = [(h in formats, formats.get(h)) for h in headers]
         for i, row in enumerate(values):
+            r = top + 1 + i
             for j, v in enumerate(row):
-                put(ws, top + 1 + i, left + j, v, formats.get(headers[j], _default_format(v)))
+                has, fmt = fixed[j]
+                put(ws, r, left + j, v, fmt if has else _default_format(v))
         bottom = top + max(1, len(values))
         right = left + len(headers) - 1
         for j, h in enumerate(headers):
@@ -195,9 +217,12 @@ STATE_SHEET = "ranker_state"
 _CHUNK = 30_000  # characters per cell, under Excel's 32,767
 
 
-def compact_state(result) -> dict:
-    """Keep what a later run needs to say what changed: weights, ranks, values."""
-    ranking = result.ranking
+def compact_state(result, *, ranking: pd.DataFrame | None = None) -> dict:
+    """Keep what a later run needs to say what changed: weights, ranks, values.
+
+    ``ranking`` is ``result.ranking`` where the caller has it already.
+    """
+    ranking = result.ranking if ranking is None else ranking
     matrix = result.matrix.loc[ranking.index]
     values = matrix.to_dict(orient="index")
     return {
@@ -218,22 +243,55 @@ def compact_state(result) -> dict:
 
 
 def read_state(path) -> dict | None:
-    """Return the state a previous run stored in its results workbook, or None."""
+    """Return the state a previous run stored in its results workbook, or None.
+
+    Only the workbook's part list, shared strings, styles and the state
+    sheet itself are parsed (:func:`_state_text`); the other sheets, which
+    a read-only :func:`openpyxl.load_workbook` would open one by one to
+    find their size, are never touched.
+    """
     import json
 
     try:
-        wb = load_workbook(path, read_only=True)
+        text = _state_text(path)
     except Exception:  # an unreadable previous output just means no comparison
         return None
+    if text is None:
+        return None
     try:
-        if STATE_SHEET not in wb.sheetnames:
-            return None
-        text = "".join(str(r[0]) for r in wb[STATE_SHEET].iter_rows(values_only=True) if r[0])
         return json.loads(text)
     except (ValueError, TypeError):
         return None
+
+
+def _state_text(path) -> str | None:
+    """Return the text of the hidden state sheet of ``path`` (None without one).
+
+    Reads the sheet as ``load_workbook(path, read_only=True)`` would (the
+    same openpyxl reader steps, in the same order, on the same parts) but
+    builds a worksheet for the state sheet alone. Column A's non-empty
+    values are joined, row by row.
+    """
+    from openpyxl.reader.excel import ExcelReader
+    from openpyxl.styles.stylesheet import apply_stylesheet
+    from openpyxl.worksheet._read_only import ReadOnlyWorksheet
+
+    reader = ExcelReader(path, read_only=True, keep_vba=False, keep_links=True)
+    try:
+        reader.read_manifest()
+        reader.read_strings()
+        reader.read_workbook()
+        apply_stylesheet(reader.archive, reader.wb)
+        for sheet, rel in reader.parser.find_sheets():
+            if rel.target not in reader.valid_files or sheet.name != STATE_SHEET:
+                continue
+            if "chartsheet" in rel.Type:
+                return None
+            ws = ReadOnlyWorksheet(reader.wb, sheet.name, rel.target, reader.shared_strings)
+            return "".join(str(r[0]) for r in ws.iter_rows(values_only=True) if r[0])
+        return None
     finally:
-        wb.close()
+        reader.archive.close()
 
 
 def _write_state(wb, state: dict) -> None:
@@ -259,7 +317,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
-    _write_state(wb, compact_state(result))
+    _write_state(wb, compact_state(result, ranking=writer.ranking(result)))
     writer.names.append(STATE_SHEET)
     props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]
     wb.custom_doc_props.props = props
