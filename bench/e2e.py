@@ -20,6 +20,9 @@ import tempfile
 import time
 from pathlib import Path
 
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+from synthetic import synthetic  # noqa: E402
+
 PY = sys.executable
 MEASURE = """
 import resource, runpy, sys, time
@@ -57,50 +60,6 @@ def timed(args: list[str]) -> tuple[float, float]:
         [line for line in run.stderr.splitlines() if line.startswith("@@")][-1].split()[2]
     )
     return wall, peak
-
-
-def synthetic(path: Path, n: int, seed: int = 5) -> Path:
-    """Write a workbook of ``n`` invented corridors using derivation for all criteria."""
-    import numpy as np
-    from openpyxl import load_workbook
-
-    from ranker.demo import fill_sheet
-    from ranker.workbook.template import write_template
-
-    rng = np.random.default_rng(seed)
-    write_template(path)
-    wb = load_workbook(path)
-    codes = [f"J{i}" for i in range(8)]
-    fill_sheet(
-        wb["Jurisdictions"],
-        [
-            {"jurisdiction": c, "name": f"Region {c}", "readiness": float(rng.uniform(20, 90))}
-            for c in codes
-        ],
-    )
-    corridors, miles = [], []
-    for i in range(n):
-        length = float(rng.uniform(30, 200))
-        corridors.append(
-            {
-                "corridor_id": f"S{i:05d}",
-                "name": f"Synthetic corridor {i}",
-                "length_mi": length,
-                "trucks_per_day": float(rng.uniform(300, 8000)),
-                "climb_ft": float(rng.uniform(0, 5000)),
-                "grid_headroom_mw": float(rng.uniform(0.5, 25)),
-            }
-        )
-        a, b = rng.choice(codes, 2, replace=False)
-        split = float(rng.uniform(0.2, 0.8))
-        miles += [
-            {"corridor_id": f"S{i:05d}", "jurisdiction": a, "miles": length * split},
-            {"corridor_id": f"S{i:05d}", "jurisdiction": b, "miles": length * (1 - split)},
-        ]
-    fill_sheet(wb["Corridors"], corridors)
-    fill_sheet(wb["Corridor miles"], miles)
-    wb.save(path)
-    return path
 
 
 def main() -> None:
