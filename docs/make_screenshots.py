@@ -49,6 +49,18 @@ def shoot(html: Path, png: Path, *, height: int, profile: Path) -> None:
     )
 
 
+def section(html: Path, name: str) -> Path:
+    """Write a copy of ``html`` holding only its head and the section ``id=name``."""
+    text = html.read_text(encoding="utf-8")
+    start = text.index(f'<section id="{name}">')
+    end = text.index("</section>", start) + len("</section>")
+    body = text.index("<body")
+    page = text[:body] + "<body>" + text[start:end] + "</body></html>"
+    path = html.with_name(f"{name}.html")
+    path.write_text(page, encoding="utf-8")
+    return path
+
+
 def main() -> None:
     out = HERE / "img"
     out.mkdir(exist_ok=True)
@@ -58,7 +70,9 @@ def main() -> None:
         paths = ranker.write_outputs(result, tmp)
         html = Path(paths["html"])
         shoot(html, out / "justification-top.png", height=1500, profile=tmp / "p1")
-        print(out / "justification-top.png")
+        charts = section(html, "charts")
+        shoot(charts, out / "justification-charts.png", height=1750, profile=tmp / "p2")
+        print(out / "justification-top.png", out / "justification-charts.png")
 
 
 if __name__ == "__main__":

@@ -228,9 +228,8 @@ def acceptability_heatmap(acceptability: pd.DataFrame, labels: list[str]) -> str
         for j in range(k):
             v = data[i, j]
             x, y = left + j * cell_w, top + i * ROW
-            c.rect(
-                x, y, cell_w, ROW, fill=cividis(v), tip=f"{labels[i]}: rank {ticks[j]} in {v:.2%}"
-            )
+            tip = f"{labels[i]}: rank {ticks[j]} in {v:.2%}"
+            c.rect(x, y, cell_w, ROW, fill=cividis(v), tip=tip, crisp=True)
             if annotate and v >= 0.005:
                 c.text(
                     x + cell_w / 2,
