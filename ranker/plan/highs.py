@@ -86,19 +86,30 @@ def _status(model_status) -> tuple[int, str]:
 
 
 def _quiet_highs():
-    """Return a silent solver; the first one in a process prints a banner to fd 1."""
+    """Return a silent solver; the first one in a process prints a banner to fd 1.
+
+    The banner goes to the null device for that moment. Where there is no
+    file descriptor 1 to redirect (a process started without a console),
+    there is nothing to keep clean either, and the solver is made as it is.
+    """
     import highspy
 
-    sys.stdout.flush()
-    saved, null = os.dup(1), os.open(os.devnull, os.O_WRONLY)
-    os.dup2(null, 1)
+    try:
+        if sys.stdout is not None:
+            sys.stdout.flush()
+        saved, null = os.dup(1), os.open(os.devnull, os.O_WRONLY)
+    except (OSError, ValueError):
+        saved = None
+    if saved is not None:
+        os.dup2(null, 1)
     try:
         h = highspy.Highs()
         h.setOptionValue("output_flag", False)
     finally:
-        os.dup2(saved, 1)
-        os.close(saved)
-        os.close(null)
+        if saved is not None:
+            os.dup2(saved, 1)
+            os.close(saved)
+            os.close(null)
     return h
 
 

@@ -101,3 +101,16 @@ def test_first_solver_banner_does_not_reach_stdout():
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout == "done\n", out.stdout
+
+
+def test_solves_when_there_is_no_stdout_to_redirect():
+    # A process started without a console has no file descriptor 1 (common practice).
+    code = (
+        "import os, numpy as np; os.close(1); "
+        "from ranker.plan.highs import solve_milp, Rows; "
+        "r = solve_milp(-np.ones(1), upper=np.ones(1), integrality=np.ones(1), "
+        "rows=[Rows(np.array([0]), np.array([0]), np.ones(1), np.array([-np.inf]), np.ones(1))]); "
+        "import sys; sys.stderr.write(str(r.status))"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert out.returncode == 0 and out.stderr.strip().endswith("0"), out.stderr
