@@ -65,8 +65,9 @@ class BandChart:
             bins=min(10, max(2, int(self.xmax - self.xmin))) if integer else 5,
             integer=integer,
         )
-        self.legend = legend or []
-        rows, self._legend_rows = _legend_layout(self.legend, self.right - self.left)
+        room = self.right - self.left
+        self.legend = [(fit_text(t, room - 40), c, f) for t, c, f in legend or []]
+        rows, self._legend_rows = _legend_layout(self.legend, room)
         height = self.bottom + 44.0 + (22.0 * rows + 6.0 if rows else 0.0)
         self.canvas = Canvas(WIDTH, height, title=title)
         self.xlabel = xlabel

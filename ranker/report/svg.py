@@ -104,23 +104,32 @@ def text_width(text: str, size: float = FONT_PX) -> float:
         Advance width in DejaVu Sans without kerning [px]; narrower faces
         (Segoe UI, San Francisco, Roboto) draw the same text narrower.
     """
-    em = 0
-    for ch in text:
-        code = ord(ch)
-        if 32 <= code <= 126:
-            em += _ASCII_WIDTHS[code - 32]
-        else:  # accented Latin, Greek, dashes: 0.8 em; wide scripts a full em
-            em += 80 if code < 0x2E80 else 100
-    return em / 100 * size
+    return sum(map(_em, text)) / 100 * size
+
+
+def _em(ch: str) -> int:
+    """Advance width of one character in hundredths of an em [-]."""
+    code = ord(ch)
+    if 32 <= code <= 126:
+        return _ASCII_WIDTHS[code - 32]
+    return 80 if code < 0x2E80 else 100  # accented Latin, Greek, dashes; wide scripts
 
 
 def fit_text(text: str, width: float, size: float = FONT_PX) -> str:
-    """Return ``text``, shortened with an ellipsis to fit in ``width`` [px]."""
+    """Return ``text``, shortened with an ellipsis to fit in ``width`` [px].
+
+    One pass over the characters, so a name of any length costs its length.
+    """
     if text_width(text, size) <= width:
         return text
-    while text and text_width(text + "…", size) > width:
-        text = text[:-1]
-    return text.rstrip() + "…"
+    room = width - text_width("…", size)
+    used, cut = 0, 0
+    for ch in text:
+        used += _em(ch)
+        if used / 100 * size > room:
+            break
+        cut += 1
+    return text[:cut].rstrip() + "…"
 
 
 def nice_ticks(lo: float, hi: float, *, bins: int = 5, integer: bool = False) -> list[float]:

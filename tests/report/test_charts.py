@@ -232,6 +232,34 @@ def test_long_labels_are_shortened_with_an_ellipsis():
     assert long.strip() in text  # the hover text keeps the full name
 
 
+@settings(max_examples=200, deadline=None)
+@given(st.text(max_size=120), st.floats(20.0, 400.0))
+def test_shortened_text_is_the_longest_prefix_that_fits(text, width):
+    got = svg.fit_text(text, width)
+    if svg.text_width(text) <= width:
+        assert got == text
+        return
+    # Reference: try every prefix (quadratic, fine for short text).
+    room = width - svg.text_width("…")
+    cut = max(c for c in range(len(text) + 1) if svg.text_width(text[:c]) <= room)
+    assert got == text[:cut].rstrip() + "…"
+    assert svg.text_width(got) <= width + 1e-9
+
+
+def test_a_long_criterion_label_stays_inside_the_legend():
+    contrib = pd.DataFrame({"a": [0.2, 0.1], "b": [0.1, 0.3]})
+    names = {"a": "Readiness " * 40, "b": "Cost"}
+    root = ET.fromstring(charts.contribution_bars(contrib, ["1. A", "2. B"], names))
+    legend = [t.text for t in root.iter(NS + "text") if t.text and t.text.startswith("Readiness")]
+    assert legend and all(svg.text_width(t) <= charts.WIDTH for t in legend)
+
+
+def test_a_name_of_excel_s_longest_cell_is_shortened_quickly():
+    # 32,767 characters is the most an Excel cell holds (common practice).
+    got = svg.fit_text("Corridor " * 3641, 300.0)
+    assert got.endswith("…") and len(got) < 60
+
+
 def test_text_is_escaped_and_the_drawing_is_well_formed():
     bad = '<script>alert("x")</script> & "quotes"'
     text = charts.score_bars([bad], np.array([0.3]), method="topsis")
