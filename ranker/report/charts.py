@@ -33,6 +33,13 @@ AXIS = "#5a5a5a"
 LABEL_SHARE = 0.42  # most of the width that row labels may take [-]
 
 
+def row_labels(labels: list[str]) -> tuple[list[str], float]:
+    """Shorten row labels to the label column; return them and the plot's left edge [px]."""
+    shown = [fit_text(t, WIDTH * LABEL_SHARE) for t in labels]
+    widest = max((text_width(t) for t in shown), default=0.0)
+    return shown, min(widest * 1.04, WIDTH * LABEL_SHARE) + 14.0
+
+
 class BandChart:
     """Rows of labels on the left, a horizontal value axis at the bottom.
 
@@ -52,9 +59,7 @@ class BandChart:
         integer: bool = False,
         legend: list[tuple[str, str, bool]] | None = None,
     ) -> None:
-        self.labels = [fit_text(t, WIDTH * LABEL_SHARE) for t in labels]
-        label_w = max((text_width(t) for t in self.labels), default=0.0)
-        self.left = min(label_w * 1.04, WIDTH * LABEL_SHARE) + 14.0
+        self.labels, self.left = row_labels(labels)
         self.right = WIDTH - right
         self.top = 8.0
         self.bottom = self.top + ROW * len(labels)
@@ -214,8 +219,7 @@ def acceptability_heatmap(acceptability: pd.DataFrame, labels: list[str]) -> str
     data = acceptability.to_numpy(dtype=float)
     n, k = data.shape
     ticks = [str(c).replace("rank ", "") for c in acceptability.columns]
-    shown = [fit_text(t, WIDTH * LABEL_SHARE) for t in labels]
-    left = min(max((text_width(t) for t in shown), default=0.0) * 1.04, WIDTH * LABEL_SHARE) + 14.0
+    shown, left = row_labels(labels)
     bar_w = 80.0  # colour bar with its ticks and title
     cell_w = min(48.0, (WIDTH - left - bar_w) / max(k, 1))
     rotate = k > 15

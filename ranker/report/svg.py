@@ -181,6 +181,11 @@ def tick_text(value: float) -> str:
     return f"{value:g}"
 
 
+def _tip(tip: str | None) -> str:
+    """The hover text of one mark, as its ``<title>`` child."""
+    return f"<title>{escape(tip)}</title>" if tip else ""
+
+
 class Canvas:
     """Collects SVG elements and writes one ``<svg>`` element.
 
@@ -211,7 +216,7 @@ class Canvas:
         line = f' stroke="{stroke}" stroke-width="{stroke_width:g}"' if stroke else ""
         if crisp:
             line += ' shape-rendering="crispEdges"'
-        body = f"<title>{escape(tip)}</title>" if tip else ""
+        body = _tip(tip)
         self.parts.append(
             f'<rect x="{x:.2f}" y="{y:.2f}" width="{max(w, 0.0):.2f}" '
             f'height="{max(h, 0.0):.2f}" fill="{fill}"{line}>{body}</rect>'
@@ -228,14 +233,14 @@ class Canvas:
 
     def circle(self, x: float, y: float, r: float, *, fill: str, tip: str | None = None) -> None:
         """Draw a filled circle."""
-        body = f"<title>{escape(tip)}</title>" if tip else ""
+        body = _tip(tip)
         self.parts.append(
             f'<circle cx="{x:.2f}" cy="{y:.2f}" r="{r:g}" fill="{fill}">{body}</circle>'
         )
 
     def diamond(self, x: float, y: float, r: float, *, fill: str, tip: str | None = None) -> None:
         """Draw a filled diamond of half-diagonal ``r``."""
-        body = f"<title>{escape(tip)}</title>" if tip else ""
+        body = _tip(tip)
         pts = f"{x:.2f},{y - r:.2f} {x + r:.2f},{y:.2f} {x:.2f},{y + r:.2f} {x - r:.2f},{y:.2f}"
         self.parts.append(f'<polygon points="{pts}" fill="{fill}">{body}</polygon>')
 
