@@ -7,6 +7,7 @@ start fast; pandas loads when a table is first asked for.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import TYPE_CHECKING
 
 from . import __version__
@@ -95,9 +96,13 @@ class Result:
         """Key of the method that decides rank."""
         return str(self.assumptions["primary_method"])
 
-    @property
+    @cached_property
     def ranking(self) -> pd.DataFrame:
-        """Kept corridors sorted by rank: rank, name, then one score column per method."""
+        """Kept corridors sorted by rank: rank, name, then one score column per method.
+
+        Built once, on first use, for every writer that reads it; copy it
+        before changing it.
+        """
         import numpy as np
         import pandas as pd
 

@@ -28,7 +28,7 @@ def criterion_unit(key: str) -> str:
 def ranking_sheet(writer, result) -> None:
     """Rank, corridor, scores and ranks per method, first-rank acceptability, flags."""
     ws = writer.sheet("Ranking", "Corridor ranking", CAUTION)
-    table = writer.ranking(result).copy()
+    table = result.ranking.copy()
     rob = result.robustness
     if has_samples(rob):
         table["first_rank_acceptability"] = rob.first_rank.reindex(table.index)
@@ -109,7 +109,7 @@ def normalised_sheet(writer, result) -> None:
         1,
         "Weighted-sum contribution of each criterion (adds up to the weighted-sum score)",
     ).font = HEADER_FONT
-    contrib = s.contributions.loc[writer.ranking(result).index]
+    contrib = s.contributions.loc[result.ranking.index]
     top, left, bottom2, right = writer.table(
         ws, contrib, top=bottom + 3, index_label="corridor_id", name="contributions"
     )
@@ -167,7 +167,7 @@ def methods_sheet(writer, result) -> None:
     s = result.scores
     ws = writer.sheet("Methods", "Scores and ranks by method, and how far the methods agree")
     frame = pd.concat([s.scores.add_prefix("score_"), s.ranks.add_prefix("rank_")], axis=1)
-    frame = frame.loc[writer.ranking(result).index]
+    frame = frame.loc[result.ranking.index]
     _, _, bottom, _ = writer.table(ws, frame, index_label="corridor_id", name="method_scores")
     for label, key in (
         ("Kendall's tau between methods' orders", "kendall"),
@@ -239,7 +239,7 @@ def robustness_sheet(writer, result) -> None:
     )
     row = 4
     if has_samples(rob):
-        acc = folded_acceptability(rob.acceptability.loc[writer.ranking(result).index])
+        acc = folded_acceptability(rob.acceptability.loc[result.ranking.index])
         top, left, bottom, right = writer.table(
             ws,
             acc,
@@ -296,7 +296,7 @@ def more_robustness_sheet(writer, result) -> None:
         ).font = HEADER_FONT
         central = rob.central_weights.copy()
         central["confidence_factor"] = rob.confidence.reindex(central.index)
-        central = central.loc[[c for c in writer.ranking(result).index if c in central.index]]
+        central = central.loc[[c for c in result.ranking.index if c in central.index]]
         _, _, bottom, _ = writer.table(
             ws, central, top=bottom + 3, index_label="corridor_id", name="central_weights"
         )

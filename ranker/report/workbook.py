@@ -79,17 +79,6 @@ class SheetWriter:
         self.version = version
         self.stamp = stamp
         self.names: list[str] = []
-        self._ranking: tuple | None = None
-
-    def ranking(self, result) -> pd.DataFrame:
-        """Return ``result.ranking``, built once per workbook.
-
-        The result does not change while its sheets are written; callers
-        must not modify the frame returned (copy it first).
-        """
-        if self._ranking is None or self._ranking[0] is not result:
-            self._ranking = (result, result.ranking)
-        return self._ranking[1]
 
     def sheet(self, name: str, title: str, note: str = ""):
         """Create a result sheet with its title rows; return it."""
@@ -217,12 +206,9 @@ STATE_SHEET = "ranker_state"
 _CHUNK = 30_000  # characters per cell, under Excel's 32,767
 
 
-def compact_state(result, *, ranking: pd.DataFrame | None = None) -> dict:
-    """Keep what a later run needs to say what changed: weights, ranks, values.
-
-    ``ranking`` is ``result.ranking`` where the caller has it already.
-    """
-    ranking = result.ranking if ranking is None else ranking
+def compact_state(result) -> dict:
+    """Keep what a later run needs to say what changed: weights, ranks, values."""
+    ranking = result.ranking
     matrix = result.matrix.loc[ranking.index]
     values = matrix.to_dict(orient="index")
     return {
@@ -317,7 +303,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
-    _write_state(wb, compact_state(result, ranking=writer.ranking(result)))
+    _write_state(wb, compact_state(result))
     writer.names.append(STATE_SHEET)
     props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]
     wb.custom_doc_props.props = props

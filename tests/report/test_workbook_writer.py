@@ -24,11 +24,11 @@ from ranker.demo import build_demo_bytes
 from ranker.report import workbook as W
 from ranker.report.workbook import (
     STATE_SHEET,
-    SheetWriter,
     build_workbook,
     read_state,
     safe_value,
 )
+from ranker.result import Result
 
 
 def _safe_value_plain(value):
@@ -68,13 +68,6 @@ def test_safe_value_shortcuts_match_general_path(value):
     assert _same(safe_value(value), _safe_value_plain(value))
 
 
-class _PlainWriter(SheetWriter):
-    """A writer that rebuilds the ranking each time it is asked for it."""
-
-    def ranking(self, result):
-        return result.ranking
-
-
 def _cells(data: bytes) -> dict:
     """Every cell of every sheet: value, type, number format, font, fill, alignment, border."""
     wb = load_workbook(io.BytesIO(data))
@@ -100,7 +93,8 @@ def _cells(data: bytes) -> dict:
 def _compare_writers(path, monkeypatch, **run):
     result = ranker.rank_workbook(path, **run)
     fast = build_workbook(result)
-    monkeypatch.setattr(W, "SheetWriter", _PlainWriter)
+    # The plain way: the ranking table rebuilt wherever it is read.
+    monkeypatch.setattr(Result, "ranking", property(Result.ranking.func))
     plain = build_workbook(result)
     a, b = _cells(fast), _cells(plain)
     assert a.keys() == b.keys()
@@ -116,6 +110,12 @@ def test_writer_matches_plain_writer_on_demo(tmp_path, monkeypatch):
 
 def test_writer_matches_plain_writer_on_small_workbook(workbooks, tmp_path, monkeypatch):
     _compare_writers(workbooks.make(tmp_path / "small.xlsx"), monkeypatch, samples=0)
+
+
+def test_ranking_is_built_once_and_equals_a_fresh_build(workbooks, tmp_path):
+    result = ranker.rank_workbook(workbooks.make(tmp_path / "small.xlsx"), samples=0)
+    assert result.ranking is result.ranking
+    pd.testing.assert_frame_equal(result.ranking, Result.ranking.func(result))
 
 
 def _read_state_plain(path):
