@@ -9,7 +9,6 @@ from __future__ import annotations
 
 from pathlib import Path
 
-
 #: Extra direct criteria (key, label, direction, low, high) beyond the five built-in ones.
 EXTRA_CRITERIA = (
     ("freight_growth_pct", "Freight growth", "benefit", 0.0, 6.0),

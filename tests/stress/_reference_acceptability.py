@@ -14,7 +14,6 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ranker.score.stack import empty_stack
-
 from ranker.stress.batch import Scorer, beat_thresholds, chunk_size, first_share, rank_bounds
 
 #: Element budget for the confidence-factor draws: draws x winners x n x k [-].

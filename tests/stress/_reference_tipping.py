@@ -12,7 +12,6 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ranker.score.ranks import TIE_RTOL
-
 from ranker.stress.batch import Scorer, beat_thresholds, rank_batch
 from ranker.stress.words import ordinal, weight_text
 
