@@ -60,8 +60,9 @@ def _parser() -> argparse.ArgumentParser:
         "--weight",
         action="append",
         default=[],
-        metavar="KEY=VALUE",
-        help="override one criterion's weight for this run (repeatable)",
+        metavar="KEY=SHARE",
+        help="set one criterion's final share of the weight in percent (40 or 40%%); the "
+        "others keep their proportions (repeatable, one per criterion)",
     )
     r.add_argument(
         "--samples",
@@ -85,23 +86,10 @@ def _err(*lines: str) -> None:
 
 
 def parse_overrides(pairs: list[str]) -> dict[str, float]:
-    """Parse ``KEY=VALUE`` pairs of ``--weight``; raise InputError when malformed."""
-    out: dict[str, float] = {}
-    for pair in pairs:
-        key, sep, value = pair.partition("=")
-        try:
-            if not sep or not key.strip():
-                raise ValueError
-            out[key.strip().lower().replace(" ", "_")] = float(value.strip().rstrip("%")) / (
-                100.0 if value.strip().endswith("%") else 1.0
-            )
-        except ValueError:
-            raise InputError.one(
-                "--weight",
-                f"{pair!r} is not KEY=VALUE",
-                "write for example --weight capital_cost=30",
-            ) from None
-    return out
+    """Parse ``KEY=SHARE`` pairs of ``--weight`` into shares in percent; see parse_shares."""
+    from .score.override import parse_shares
+
+    return parse_shares(pairs)
 
 
 class Progress:
@@ -180,6 +168,10 @@ def print_ranking(result, stream=None) -> None:
     stream = stream or sys.stdout
     method = result.primary_method
     print(f"Ranking by {method}, weight set '{result.weight_set}':", file=stream)
+    labels = {c.key: c.label for c in result.criteria}
+    shown = ", ".join(f"{labels.get(k, k)} {w:.1%}" for k, w in result.weights.items())
+    given = ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items())
+    print(f"  weights: {shown}" + (f" (after --weight {given})" if given else ""), file=stream)
     ranking = result.ranking
     first = result.robustness.first_rank if has_samples(result.robustness) else None
     for cid, row in ranking.iloc[:PRINTED_ROWS].iterrows():

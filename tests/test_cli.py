@@ -49,15 +49,16 @@ def test_run_json_matches_workbook_ranking(direct_workbook, capsys):
     assert _sha(direct_workbook) == before  # the input is never modified
 
 
-def test_weight_override_is_renormalised_and_recorded(direct_workbook, capsys):
+def test_weight_override_is_a_final_share_and_recorded(direct_workbook, capsys):
     code = main(
         ["run", str(direct_workbook), "--json", "--samples", "0", "--weight", "cost_musd=80"]
     )
     summary = json.loads(capsys.readouterr().out)
     assert code == 0
-    # points 80, 40, 20 -> 80/140, 40/140, 20/140 (common practice: renormalise to sum 1)
-    assert summary["weights"]["cost_musd"] == pytest.approx(80 / 140)
-    assert summary["weights"]["risk"] == pytest.approx(20 / 140)
+    # points 40, 40, 20: cost gets 80 %, the others share 20 % as 40 : 20
+    assert summary["weights"]["cost_musd"] == pytest.approx(0.8, abs=1e-12)
+    assert summary["weights"]["freight_share"] == pytest.approx(0.2 * 40 / 60, abs=1e-12)
+    assert summary["weights"]["risk"] == pytest.approx(0.2 * 20 / 60, abs=1e-12)
     assert summary["weight_overrides"] == {"cost_musd": 80.0}
 
 
@@ -117,8 +118,9 @@ def test_template_refuses_existing(tmp_path, capsys):
 
 def test_parse_overrides():
     assert parse_overrides(["a=1", "B = 2.5"]) == {"a": 1.0, "b": 2.5}
-    assert parse_overrides(["a=40%"]) == {"a": 0.4}
-    with pytest.raises(InputError, match="--weight: 'a' is not KEY=VALUE"):
+    assert parse_overrides(["a=40%"]) == {"a": 40.0}
+    assert parse_overrides(["a=40"]) == {"a": 40.0}
+    with pytest.raises(InputError, match="--weight: 'a' is not KEY=SHARE"):
         parse_overrides(["a"])
 
 
