@@ -9,6 +9,7 @@ from __future__ import annotations
 import pandas as pd
 from openpyxl.utils import get_column_letter
 
+from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
 from .narrative import assumptions_used, consistency_text
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
@@ -356,7 +357,7 @@ def run_info_sheet(writer, result) -> None:
     ws = writer.sheet("Run info", "Run information")
     info = [
         ("tool", f"ranker {result.tool_version}"),
-        ("input file", result.inputs.path.name),
+        ("input file", shown(result.inputs.path.name)),
         ("input SHA-256", result.inputs.sha256),
         ("run started (UTC)", result.started),
         ("weight set", result.weight_set),

@@ -207,25 +207,10 @@ _CHUNK = 30_000  # characters per cell, under Excel's 32,767
 
 
 def compact_state(result) -> dict:
-    """Keep what a later run needs to say what changed: weights, ranks, values."""
-    ranking = result.ranking
-    matrix = result.matrix.loc[ranking.index]
-    values = matrix.to_dict(orient="index")
-    return {
-        "weight_set": result.weight_set,
-        "weights": {k: float(v) for k, v in result.weights.items()},
-        "ranking": [
-            {
-                "corridor_id": str(cid),
-                "name": str(name),
-                "rank": int(rank),
-                "criteria": {k: float(v) for k, v in values[cid].items()},
-            }
-            for cid, name, rank in zip(
-                ranking.index, ranking["name"], ranking["rank"], strict=True
-            )
-        ],
-    }
+    """Keep what a later run needs to say what changed (:func:`ranker.changes.run_state`)."""
+    from ..changes import run_state
+
+    return run_state(result)
 
 
 def read_state(path) -> dict | None:
