@@ -63,11 +63,9 @@ def check_out_dir(out_dir: Path, *, flag: str = "--out") -> None:
     base = _nearest_existing(out_dir)
     if not base.is_dir():
         what = "is a file, not a folder" if base.exists() else "cannot be reached"
-        raise InputError.one(
-            shown(base),
-            f"{what}, so {shown(out_dir)} cannot be a folder",
-            f"give a folder with {flag}",
-        )
+        if base != Path(os.path.abspath(out_dir)):
+            what += f", so {shown(out_dir)} cannot be made inside it"
+        raise InputError.one(shown(base), what, f"give a folder with {flag}")
     if not os.access(base, os.W_OK | os.X_OK):
         raise InputError.one(
             shown(base),
