@@ -299,7 +299,7 @@ def choose_weight_set(sets: list, name: str | None):
     if name is None:
         return board[0] if board else sets[0]
     for s in sets:
-        if s.name == normalize_key(name):
+        if s.name.lower() == normalize_key(name):
             return s
     raise InputError.one(
         "--weights",

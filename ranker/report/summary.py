@@ -55,6 +55,7 @@ def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
     from ..changes import json_changes
     from ..files import shown
+    from .narrative import assumptions_used
 
     s = result.scores
     rob = result.robustness
@@ -122,6 +123,7 @@ def summary_json(result) -> dict:
         "started": result.started,
         "changes_since_last_run": list(result.changes),
         "changes": json_changes(result.change_record),
+        "assumptions": assumptions_used(result),
         "outputs": dict(result.outputs),
     }
     out = clean(out)

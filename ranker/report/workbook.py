@@ -25,6 +25,8 @@ from openpyxl.worksheet.table import Table, TableStyleInfo
 from ..files import MARKER
 
 SHEETS_PROPERTY = "ranker-sheets"
+#: Most rows and columns a result sheet freezes (title rows and the first header).
+FREEZE_ROWS, FREEZE_COLUMNS = 4, 2
 TAB_COLOUR = "1F4E79"
 TITLE_FONT = Font(bold=True, size=12, color="1F4E79")
 HEADER_FONT = Font(bold=True)
@@ -79,6 +81,22 @@ class SheetWriter:
         self.version = version
         self.stamp = stamp
         self.names: list[str] = []
+        #: Sheet name to its title (what the sheet holds), for the contents sheet.
+        self.titles: dict[str, str] = {}
+        self._frozen: set[str] = set()
+
+    def freeze(self, ws, top: int, left: int) -> None:
+        """Freeze the title rows and the first table's header, once per sheet.
+
+        At most :data:`FREEZE_ROWS` rows and :data:`FREEZE_COLUMNS` columns
+        are frozen, so that a sheet scrolls on a laptop screen; a table lower
+        down the sheet leaves the panes as the first one set them.
+        """
+        if ws.title in self._frozen:
+            return
+        self._frozen.add(ws.title)
+        if top <= FREEZE_ROWS and left <= FREEZE_COLUMNS:
+            ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
 
     def sheet(self, name: str, title: str, note: str = ""):
         """Create a result sheet with its title rows; return it."""
@@ -97,6 +115,7 @@ class SheetWriter:
         ws.sheet_properties.pageSetUpPr.fitToPage = True
         ws.print_options.gridLines = False
         self.names.append(ws.title)
+        self.titles[ws.title] = title
         return ws
 
     def _free_name(self, name: str) -> str:
@@ -170,7 +189,7 @@ class SheetWriter:
             tab = Table(displayName=table_name, ref=ref)
             tab.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
             ws.add_table(tab)
-        ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
+        self.freeze(ws, top, left)
         if len(headers) > 7:
             ws.page_setup.orientation = "landscape"
         return top, left, bottom, right
@@ -288,6 +307,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
+    sheets.contents_sheet(writer, result)
     _write_state(wb, compact_state(result))
     writer.names.append(STATE_SHEET)
     props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]

@@ -391,9 +391,7 @@ def _weight_twice(folder):
     check=0,
 )
 def _weight_sum(folder):
-    return _valid(
-        folder, None, "--weight", "capital_cost=60", "--weight", "charging_revenue=50"
-    )
+    return _valid(folder, None, "--weight", "capital_cost=60", "--weight", "charging_revenue=50")
 
 
 @stage(
