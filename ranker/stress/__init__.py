@@ -29,6 +29,7 @@ import numpy as np
 import pandas as pd
 
 from ranker.errors import InputError, Problems
+from ranker.plain import plain
 
 from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
 from .batch import Scorer, rank_batch
@@ -44,19 +45,6 @@ __all__ = ["Robustness", "futures", "stress_test"]
 
 #: Progress units besides the Monte Carlo samples: one per other analysis.
 _STAGES = 4
-
-
-def _plain(value):
-    """Make a value JSON-ready: numpy scalars to Python, NaN to None."""
-    if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list | tuple):
-        return [_plain(v) for v in value]
-    if isinstance(value, np.generic):
-        value = value.item()
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value
 
 
 @dataclass
@@ -119,9 +107,9 @@ class Robustness:
         """Return a JSON-ready summary (plain types; NaN as null)."""
 
         def records(frame):
-            return [_plain(r) for r in frame.to_dict(orient="records")]
+            return [plain(r) for r in frame.to_dict(orient="records")]
 
-        return _plain(
+        return plain(
             {
                 "samples": int(self.samples),
                 "seed": int(self.seed),
