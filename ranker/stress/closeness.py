@@ -160,15 +160,12 @@ def same_tier_flags(table: pd.DataFrame, tier: pd.Series, namer: Namer) -> pd.Da
             if share is None or (isinstance(share, float) and np.isnan(share))
             else f"{namer.corridor(b)} comes out ahead in {100 * share:.1f}% of the samples; "
         )
-        flags.append(bool(same or rec["reason"] in ("equal scores", _IDENTICAL)))
-        reasons.append(
-            ahead
-            + (
-                f"both in tier {int(tier[a])}"
-                if same
-                else f"tiers {int(tier[a])} and {int(tier[b])}"
-            )
+        exact = rec["reason"] in ("equal scores", _IDENTICAL)
+        flags.append(bool(same or exact))
+        where = (
+            f"both in tier {int(tier[a])}" if same else f"tiers {int(tier[a])} and {int(tier[b])}"
         )
+        reasons.append(f"{rec['reason']}; {where}" if exact else ahead + where)
     out["practically_tied"] = flags
     out["reason"] = reasons
     return out

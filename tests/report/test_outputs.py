@@ -82,7 +82,7 @@ def test_json_tiers_follow_the_pairwise_shares(demo_run):
     wins = summary["robustness"]["pairwise_wins"]
     assert summary["robustness"]["pairwise_ids"] == ids  # 13 corridors: all of them
     assert len(wins) == len(ids) and all(len(row) == len(ids) for row in wins)
-    assert tiers[0] == 1 and all(0 <= b - a <= 1 for a, b in zip(tiers, tiers[1:]))
+    assert tiers[0] == 1 and all(0 <= b - a <= 1 for a, b in zip(tiers, tiers[1:], strict=False))
     confidence = summary["robustness"]["tier_confidence"]
     assert confidence == 0.9  # the documented default of tier_confidence
     for i in range(len(ids)):
@@ -101,7 +101,14 @@ def test_json_tiers_follow_the_pairwise_shares(demo_run):
     assert [r[0] for r in rows] == ids
     assert [r[1] for r in rows] == tiers
     sheet = [list(r[2 : 2 + len(ids)]) for r in rows]
-    assert max(abs(a - b) for ra, rb in zip(sheet, wins) for a, b in zip(ra, rb)) < 1e-12
+    assert (
+        max(
+            abs(a - b)
+            for ra, rb in zip(sheet, wins, strict=True)
+            for a, b in zip(ra, rb, strict=True)
+        )
+        < 1e-12
+    )
 
 
 def test_html_golden(demo_run):
