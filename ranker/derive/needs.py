@@ -14,6 +14,7 @@ import numpy as np
 import pandas as pd
 
 from ..assumptions import ASSUMPTIONS, parse_default
+from ..builtin import BUILTIN_CRITERIA
 from ..errors import Problems
 from ..workbook.tables import (
     ADOPTION,
@@ -26,21 +27,15 @@ from ..workbook.tables import (
     ASSUMPTIONS as ASSUMPTIONS_SHEET,
 )
 
-#: Criterion key to the (sheet, fields) it needs; ``jurisdiction`` on
-#: Jurisdictions is the sheet's key column.
+#: Criterion key to the (sheet, fields) it needs (from the registry
+#: :data:`ranker.builtin.BUILTIN_CRITERIA`); ``jurisdiction`` on Jurisdictions is
+#: the sheet's key column.
 NEEDS: dict[str, tuple[tuple[str, tuple[str, ...]], ...]] = {
-    "policy_readiness": (
-        (JURISDICTIONS, ("jurisdiction", "readiness")),
-        (CORRIDOR_MILES, ("corridor_id", "jurisdiction", "miles")),
-    ),
-    "capital_cost": ((CORRIDORS, ("length_mi", "trucks_per_day", "grid_headroom_mw")),),
-    "charging_revenue": ((CORRIDORS, ("length_mi", "trucks_per_day")),),
-    "grid_headroom": ((CORRIDORS, ("length_mi", "trucks_per_day", "grid_headroom_mw")),),
-    "terrain_penalty": ((CORRIDORS, ("length_mi", "climb_ft")),),
+    k: c.needs for k, c in BUILTIN_CRITERIA.items()
 }
 
 #: Criteria that need the charger sizing (and so the adoption path).
-SIZED = ("capital_cost", "charging_revenue", "grid_headroom")
+SIZED = tuple(k for k, c in BUILTIN_CRITERIA.items() if c.sized)
 
 #: Corridors field to (lowest value, whether the lowest value itself is refused, fix).
 FIELD_RULES: dict[str, tuple[float, bool, str]] = {

@@ -14,6 +14,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
+from ranker.builtin import BUILTIN_CRITERIA
 from ranker.workbook import tables as _t
 from ranker.workbook.units import KM_PER_MI, M_PER_FT
 
@@ -506,73 +507,6 @@ SHEETS: dict[str, SheetSchema] = {
     )
 }
 
-
-@dataclass(frozen=True)
-class BuiltinCriterion:
-    """A criterion the tool can derive.
-
-    Attributes
-    ----------
-    key : str
-        Criterion key.
-    direction : str
-        Usual direction.
-    label : str
-        Default label.
-    unit : str
-        Unit of the criterion's values.
-    meaning : str
-        One line for notes and docs.
-    """
-
-    key: str
-    direction: str
-    label: str
-    unit: str
-    meaning: str
-
-
-#: The five built-in criteria, in template order.
-BUILTIN_CRITERIA: dict[str, BuiltinCriterion] = {
-    c.key: c
-    for c in (
-        BuiltinCriterion(
-            "policy_readiness",
-            "benefit",
-            "Policy readiness",
-            "[0-100]",
-            "Mileage-weighted mean readiness of the jurisdictions along the corridor.",
-        ),
-        BuiltinCriterion(
-            "capital_cost",
-            "cost",
-            "Capital cost",
-            "[USD]",
-            "Charging ports, sites, and grid upgrade where the new peak exceeds headroom.",
-        ),
-        BuiltinCriterion(
-            "charging_revenue",
-            "benefit",
-            "Charging revenue",
-            "[USD]",
-            "Net present value of the charging margin over the horizon.",
-        ),
-        BuiltinCriterion(
-            "grid_headroom",
-            "benefit",
-            "Grid headroom",
-            "[-]",
-            "Headroom divided by the corridor's new peak charging load (1 = just fits).",
-        ),
-        BuiltinCriterion(
-            "terrain_penalty",
-            "cost",
-            "Terrain penalty",
-            "[-]",
-            "Extra traction energy from climbing, as a fraction of flat-road energy.",
-        ),
-    )
-}
 
 #: Canonical field key to unit, for every numeric field of every sheet and
 #: every built-in criterion (for outputs: ``FIELD_UNITS["length_mi"] == "[mi]"``).
