@@ -38,6 +38,7 @@ def summary_json(result) -> dict:
             "corridor_id": str(cid),
             "name": str(row["name"]),
             "rank": int(row["rank"]),
+            "tier": int(row["tier"]),
             "scores": {m: float(s.scores.at[cid, m]) for m in s.scores.columns},
             "ranks": {m: int(s.ranks.at[cid, m]) for m in s.ranks.columns},
             "criteria": {k: float(result.matrix.at[cid, k]) for k in result.matrix.columns},
