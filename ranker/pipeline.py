@@ -353,6 +353,7 @@ def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, 
         labels={c.key: c.label for c in included},
         names=inputs.corridors["name"].astype(str).to_dict(),
         progress=progress,
+        tier_confidence=float(assumptions["tier_confidence"]),
     )
 
 

@@ -21,13 +21,20 @@ def chart_height(bars: int) -> float:
     return min(24.0, 3.0 + 0.55 * bars)
 
 
+def tiers_sheet(writer, result) -> None:
+    """The Tiers sheet (:mod:`ranker.report.tiers_sheet`)."""
+    from .tiers_sheet import tiers_sheet as write
+
+    write(writer, result)
+
+
 def criterion_unit(key: str) -> str:
     """Return the unit of a criterion for headers ("" where unknown)."""
     return BUILTIN_CRITERIA[key].unit if key in BUILTIN_CRITERIA else ""
 
 
 def ranking_sheet(writer, result) -> None:
-    """Rank, corridor, scores and ranks per method, first-rank acceptability, flags."""
+    """Rank, corridor, tier, scores and ranks per method, first-rank acceptability, flags."""
     ws = writer.sheet("Ranking", "Corridor ranking", CAUTION)
     table = result.ranking.copy()
     rob = result.robustness
@@ -37,12 +44,6 @@ def ranking_sheet(writer, result) -> None:
     for group in result.scores.ties:
         for cid in group:
             flags[cid].append("tied")
-    if rob is not None and len(rob.closeness) and "practically_tied" in rob.closeness:
-        for _, row in rob.closeness.iterrows():
-            if row.get("practically_tied"):
-                for cid in (row.get("corridor_id"), row.get("next_id")):
-                    if cid in flags:
-                        flags[cid].append("practically tied with neighbour")
     table["flags"] = [", ".join(dict.fromkeys(flags[c])) for c in table.index]
     units = {c: "[-]" for c in table.columns if c.startswith("score_")}
     units["first_rank_acceptability"] = "[-]"
@@ -439,6 +440,7 @@ WRITERS = [
     methods_sheet,
     sizing_sheet,
     robustness_sheet,
+    tiers_sheet,
     more_robustness_sheet,
     plan_sheet,
     run_info_sheet,

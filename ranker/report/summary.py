@@ -2,33 +2,9 @@
 
 from __future__ import annotations
 
-import math
-
-import numpy as np
 import pandas as pd
 
-
-def clean(value):
-    """Return ``value`` as plain JSON types (NaN and infinity become None)."""
-    if isinstance(value, dict):
-        return {str(k): clean(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [clean(v) for v in value]
-    if isinstance(value, (pd.Series,)):
-        return clean(value.to_dict())
-    if isinstance(value, pd.DataFrame):
-        return clean(value.to_dict(orient="records"))
-    if isinstance(value, np.ndarray):
-        return clean(value.tolist())
-    if isinstance(value, (np.bool_, bool)):
-        return bool(value)
-    if isinstance(value, (np.integer,)):
-        return int(value)
-    if isinstance(value, (float, np.floating)):
-        f = float(value)
-        return f if math.isfinite(f) else None
-    return value
-
+from ..plain import plain
 
 #: Rank columns shown in the workbook and the heatmap before later ranks are folded.
 ACCEPTABILITY_COLUMNS = 25
@@ -66,6 +42,7 @@ def summary_json(result) -> dict:
             "corridor_id": str(cid),
             "name": str(row["name"]),
             "rank": int(row["rank"]),
+            "tier": int(row["tier"]),
             "scores": {m: float(s.scores.at[cid, m]) for m in s.scores.columns},
             "ranks": {m: int(s.ranks.at[cid, m]) for m in s.ranks.columns},
             "criteria": {k: float(result.matrix.at[cid, k]) for k in result.matrix.columns},
@@ -126,8 +103,8 @@ def summary_json(result) -> dict:
         "assumptions": assumptions_used(result),
         "outputs": dict(result.outputs),
     }
-    out = clean(out)
-    # Shares are finite by construction; attached after clean() to keep large runs fast.
+    out = plain(out)
+    # Shares are finite by construction; attached after plain() to keep large runs fast.
     rows = {}
     if acceptability is not None:
         table = acceptability.loc[result.ranking.index]
