@@ -97,6 +97,8 @@ class SheetWriter:
         self._frozen.add(ws.title)
         if top <= FREEZE_ROWS and left <= FREEZE_COLUMNS:
             ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
+        else:  # the first table starts lower: keep only the two title rows in view
+            ws.freeze_panes = "A3"
 
     def sheet(self, name: str, title: str, note: str = ""):
         """Create a result sheet with its title rows; return it."""
