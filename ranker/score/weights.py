@@ -82,12 +82,13 @@ class ResolvedWeights:
 
 def _field_key(ws: WeightSet, inputs: Inputs) -> str:
     """Header key of a weight set's column, as typed lower case."""
+    name = ws.name.lower()
     if ws.kind == "rank":
-        candidates = [f"weight:{ws.name}:rank"]
-    elif ws.name == "default":
+        candidates = [f"weight:{name}:rank"]
+    elif name == "default":
         candidates = ["weight", "weight:default"]
     else:
-        candidates = [f"weight:{ws.name}", f"weight:{ws.name}:points"]
+        candidates = [f"weight:{name}", f"weight:{name}:points"]
     known = inputs.columns.get(CRITERIA, {})
     return next((c for c in candidates if c in known), candidates[0])
 

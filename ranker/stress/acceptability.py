@@ -237,6 +237,7 @@ def rank_acceptability(
     rng_confidence: np.random.Generator | None = None,
     pairs: np.ndarray | None = None,
     progress: Callable[[int, int], None] | None = None,
+    on_ranks: Callable[[int, np.ndarray], None] | None = None,
 ) -> Acceptability:
     """Compute SMAA-2 rank acceptabilities, central weights and confidence factors.
 
@@ -259,6 +260,9 @@ def rank_acceptability(
         tracked over the samples (for the closeness analysis).
     progress : callable, optional
         ``progress(done, total)`` after each chunk [samples].
+    on_ranks : callable, optional
+        ``on_ranks(start, ranks)`` with the competition ranks (c, n) of
+        samples ``start .. start + c - 1`` (for :mod:`ranker.stress.tiers`).
 
     Returns
     -------
@@ -298,6 +302,8 @@ def rank_acceptability(
         w = w_all[start : start + step]
         g = _scores_for(scorer, x, w, spread, rng_values)
         low, high = rank_bounds(g)
+        if on_ranks is not None:
+            on_ranks(start, low)
         share = 1.0 / (high - low + 1)
         add_rank_shares(counts, slots, low, high, share)
         # Only the first-placed corridors of each sample add to b^1 and the central weights.
