@@ -54,7 +54,7 @@ import numpy as np
 from ranker.score.stack import empty_stack
 
 from .batch import rank_batch, score_variants
-from .pairs import pair_preferences, three_cycles
+from .pairs import cycles_from_rows, pair_relation, signs_row
 from .swaps import Collector, passes
 from .words import Namer
 
@@ -62,7 +62,7 @@ from .words import Namer
 MAX_DETAILS = 200
 #: Default worsening for test 1, as a share of each criterion's range [-].
 WORSEN_FRACTION = 0.05
-#: Pairs compared per block in test 3 [-].
+#: Pairs scored and compared per block in tests 2 and 3 [-].
 PAIR_BLOCK = 1_000_000
 
 
@@ -322,8 +322,8 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
     if n < 2:
         one = "A single corridor has no pairs to compare."
         return Check("transitivity", True, [], one), Check("pairwise_agreement", True, [], one)
-    pp = pair_preferences(scorer, x, weights)
-    ia, ib, pair_sign, cycles = pp.a, pp.b, pp.sign, pp.cycles
+    rel = pair_relation(scorer, x, weights, r0, block=PAIR_BLOCK, limit=MAX_DETAILS)
+    cycles = rel.cycles
     if n < 3:
         trans = Check(
             "transitivity",
@@ -340,7 +340,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             "(A over B over C over A): test 2 of Wang & Triantaphyllou is met.",
         )
     else:
-        found = three_cycles(pp.prefer, MAX_DETAILS)
+        found = cycles_from_rows(partial(signs_row, scorer, x, weights), n, MAX_DETAILS)
         details = [{"cycle": [ids[i] for i in cyc]} for cyc in found]
         a, b, c = (namer.corridor(ids[i]) for i in found[0])
         trans = Check(
@@ -352,18 +352,11 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             "fails.",
             cycles,
         )
-    bad, bad_count = [], 0
-    for start in range(0, ia.size, PAIR_BLOCK):
-        stop = start + PAIR_BLOCK
-        full_sign = np.sign(r0[ib[start:stop]] - r0[ia[start:stop]])
-        found = np.nonzero(pair_sign[start:stop] != full_sign)[0]
-        bad_count += found.size
-        if len(bad) < MAX_DETAILS:
-            bad.extend((found[: MAX_DETAILS - len(bad)] + start).tolist())
+    bad_count = rel.disagree
     details = []
-    for p in bad:
-        a, b = (ia[p], ib[p]) if r0[ia[p]] <= r0[ib[p]] else (ib[p], ia[p])
-        winner = None if pair_sign[p] == 0 else ids[ia[p] if pair_sign[p] > 0 else ib[p]]
+    for pa, pb, sign in zip(rel.bad_a, rel.bad_b, rel.bad_sign, strict=True):
+        a, b = (pa, pb) if r0[pa] <= r0[pb] else (pb, pa)
+        winner = None if sign == 0 else ids[pa if sign > 0 else pb]
         details.append(
             {
                 "corridor_id": ids[a],
@@ -388,7 +381,7 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
             "pairwise_agreement",
             False,
             details,
-            f"{bad_count} of {ia.size} two-corridor comparisons disagree with the full "
+            f"{bad_count} of {rel.count} two-corridor comparisons disagree with the full "
             f"order; e.g. between {namer.corridor(d['corridor_id'])} "
             f"(ranked {d['full_ranks'][0]}) and {namer.corridor(d['other_id'])} "
             f"(ranked {d['full_ranks'][1]}) on their own, {who}: test 3 of "
