@@ -73,11 +73,19 @@ def _count_above(g: np.ndarray, order: np.ndarray, values: np.ndarray) -> np.nda
     """Count, per element, how many elements of its row beat it (rows given sorted)."""
     s, n = g.shape
     thresholds = beat_thresholds(values)  # ascending too: the map is monotone
-    # Merge values and thresholds in one stable sort; a value equal to a
-    # threshold sorts first, so it counts as "not above".
-    merged = np.argsort(np.concatenate([values, thresholds], axis=1), axis=1, kind="stable")
-    positions = np.nonzero(merged >= n)[1].reshape(s, n)  # thresholds in order
-    counts_sorted = n - (positions - np.arange(n))
+    # Sorted ascending, element i is beaten by every later element above its
+    # threshold. The threshold is at least the value itself, so the later
+    # elements not above it (at most it: a value equal to a threshold does not
+    # beat) are the next few in a row: step through them, one offset at a
+    # time, for as long as any row has one left (the largest tie group).
+    not_above = np.zeros((s, n), dtype=np.int64)
+    still = np.ones((s, n - 1), dtype=bool)
+    for d in range(1, n):
+        still = still[:, : n - d] & (values[:, d:] <= thresholds[:, : n - d])
+        if not still.any():
+            break
+        not_above[:, : n - d] += still
+    counts_sorted = n - 1 - np.arange(n) - not_above
     counts = np.empty_like(counts_sorted)
     np.put_along_axis(counts, order, counts_sorted, axis=1)
     return counts

@@ -55,7 +55,7 @@ from ranker.score.stack import empty_stack
 
 from .batch import rank_batch, score_variants
 from .pairs import cycles_from_rows, pair_relation, signs_row
-from .swaps import Collector, passes
+from .swaps import RankedCollector, passes
 from .words import Namer
 
 #: Most swaps listed per check (all are counted) [-].
@@ -187,7 +187,7 @@ def replace_worse(
         mats[np.arange(stop - start), target_idx[start:stop]] = target_rows[start:stop]
         return mats
 
-    col = Collector(ids, targets, r0, g0, best, MAX_DETAILS)
+    col = RankedCollector(ids, targets, r0, g0, best, MAX_DETAILS)
     for s, e in passes(len(targets), n, k):
         goods = score_variants(scorer, weights, e - s, n, k, partial(build, offset=s))
         kept = np.ones((e - s, n), dtype=bool)
@@ -236,7 +236,7 @@ def clone(scorer, matrix, weights, ids, namer) -> Check:
         return mats
 
     r0x, g0x = np.append(r0, 0), np.append(g0, 0.0)
-    col = Collector(ids + ["(copy)"], range(n), r0x, g0x, best, MAX_DETAILS)
+    col = RankedCollector(ids + ["(copy)"], range(n), r0x, g0x, best, MAX_DETAILS)
     for s, e in passes(n, n + 1, k):
         goods = score_variants(scorer, weights, e - s, n + 1, k, partial(build, offset=s))
         kept = np.ones((e - s, n + 1), dtype=bool)
@@ -283,7 +283,7 @@ def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
         # Row r of variant i is corridor r, or r + 1 from the removed one on.
         return rest + (rest >= np.arange(start, stop)[:, None])  # corridor indices
 
-    col = Collector(ids, range(n), r0, g0, best, MAX_DETAILS)
+    col = RankedCollector(ids, range(n), r0, g0, best, MAX_DETAILS)
     for s, e in passes(n, n - 1, k):
         short = score_variants(scorer, weights, e - s, n - 1, k, partial(build, offset=s))
         # Put the results back in full index space; the removed corridor gets 0.
