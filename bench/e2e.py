@@ -6,7 +6,8 @@
    peak memory of each, and the ratio of the largest to the smallest.
 3. Start-up: ``ranker --help`` and ``ranker check`` against ``python -c pass``.
 
-Reproduce: ``python bench/e2e.py`` (add ``--runs 5 --sizes 50,500,5000``).
+Reproduce: ``python bench/e2e.py`` (add ``--runs 5 --sizes 50,500,5000``;
+``--sizes 1000,10000 --criteria 8`` for the national-network case).
 """
 
 from __future__ import annotations
@@ -67,6 +68,7 @@ def main() -> None:
     ap.add_argument("--runs", type=int, default=5)
     ap.add_argument("--sizes", default="50,500,5000")
     ap.add_argument("--scale-samples", type=int, default=10000)
+    ap.add_argument("--criteria", type=int, default=5, help="5 built-in, up to 8 with direct ones")
     opts = ap.parse_args()
     print(f"machine: {os.cpu_count()} cores; python {sys.version.split()[0]}")
     with tempfile.TemporaryDirectory() as tmp:
@@ -88,12 +90,12 @@ def main() -> None:
         )
 
         print(
-            "\n2. scaling (synthetic corridors, all criteria derived, "
+            f"\n2. scaling (synthetic corridors, {opts.criteria} criteria, "
             f"{opts.scale_samples} samples)"
         )
         base = None
         for n in (int(s) for s in opts.sizes.split(",")):
-            path = synthetic(tmp / f"syn{n}.xlsx", n)
+            path = synthetic(tmp / f"syn{n}.xlsx", n, criteria=opts.criteria)
             wall, peak = timed(
                 [
                     "run",
@@ -120,7 +122,10 @@ def main() -> None:
             f"\n3. start-up: python -c pass {bare:.3f} s; ranker --help {helps:.3f} s "
             f"({helps / bare:.1f}x); ranker check demo {check:.3f} s ({check / bare:.1f}x)"
         )
-    print("\nreproduce: python bench/e2e.py --runs 5 --sizes 50,500,5000")
+    print(
+        f"\nreproduce: python bench/e2e.py --runs {opts.runs} --sizes {opts.sizes} "
+        f"--criteria {opts.criteria} --scale-samples {opts.scale_samples}"
+    )
 
 
 def _wall(cmd: list[str]) -> float:
