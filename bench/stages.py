@@ -15,7 +15,8 @@ Floors:
 
 * ``floor_acceptability``: TOPSIS scores of a chunk of weight samples by
   matrix products, ranks by one ``argsort`` per sample, counts added entry
-  by entry. No ties (continuous data).
+  by entry. No tie rule: equal to the stage where no two scores of a sample
+  lie within 1e-12 of each other (the bench reports the cells where some did).
 * ``floor_pairs``: the closed-form two-corridor TOPSIS winner
   (``sum_j w_j^2 (x_aj - x_bj)^2 / (x_aj^2 + x_bj^2) s_j``, Hwang & Yoon 1981,
   pp. 128-134), one corridor against all later ones at a time; 3-cycles from
@@ -139,13 +140,16 @@ def one_size(n: int, tmp: Path, samples: int, repeats: int, skip: set) -> list[t
     if "mc" not in skip:
         stage, acc = _time(lambda: rank_acceptability(sc, x, draws), repeats)
         floor, ref = _time(lambda: floor_acceptability(x, draws, benefit), repeats)
-        rows.append(
-            ("Monte Carlo acceptability", stage, floor, np.array_equal(acc.acceptability, ref))
-        )
+        # The floor has no tie rule: where two scores of a sample lie within 1e-12
+        # (relative) the stage shares the two ranks, the floor does not. Report
+        # how many cells that moved, and by how much at most.
+        diff = np.abs(acc.acceptability - ref)
+        same = "yes" if not diff.any() else f"{int((diff > 0).sum())} cells, <= {diff.max():.1e}"
+        rows.append(("Monte Carlo acceptability", stage, floor, same))
     if "pairs" not in skip:
         stage, (trans, agree) = _time(lambda: pairwise(sc, x, w, ids, namer), repeats)
         floor, (_, cycles, disagree) = _time(lambda: floor_pairs(x, w, benefit), repeats)
-        same = trans.count == cycles and agree.count == disagree
+        same = "yes" if (trans.count, agree.count) == (cycles, disagree) else "NO"
         rows.append(("tests 2 and 3 (pairs)", stage, floor, same))
     for key, name, check in (
         ("test1", "test 1 (worse copies)", replace_worse),
