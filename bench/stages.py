@@ -146,6 +146,16 @@ def one_size(n: int, tmp: Path, samples: int, repeats: int, skip: set) -> list[t
         diff = np.abs(acc.acceptability - ref)
         same = "yes" if not diff.any() else f"{int((diff > 0).sum())} cells, <= {diff.max():.1e}"
         rows.append(("Monte Carlo acceptability", stage, floor, same))
+    if "tiers" not in skip:
+        from ranker.stress.batch import rank_batch
+        from ranker.stress.tiers import RankStore, tiers_from_ranks
+
+        r0 = rank_batch(sc.weights(x, w)[0])
+        store = RankStore(np.lexsort((np.arange(n), r0)), len(draws))
+        rank_acceptability(sc, x, draws, on_ranks=store.add)
+        stage, _ = _time(lambda: tiers_from_ranks(store.ranks), repeats)
+        rows.append(("tiers and pairwise shares", stage, None, None))
+        del store
     if "pairs" not in skip:
         stage, (trans, agree) = _time(lambda: pairwise(sc, x, w, ids, namer), repeats)
         floor, (_, cycles, disagree) = _time(lambda: floor_pairs(x, w, benefit), repeats)
@@ -179,7 +189,7 @@ def main() -> None:
     ap.add_argument("--samples", type=int, default=10000)
     ap.add_argument("--repeats", type=int, default=3)
     ap.add_argument(
-        "--skip", default="", help="stages to leave out: mc,pairs,test1,clone,loo,tipping"
+        "--skip", default="", help="stages to leave out: mc,tiers,pairs,test1,clone,loo,tipping"
     )
     opts = ap.parse_args()
     skip = set(filter(None, opts.skip.split(",")))
