@@ -53,9 +53,10 @@ import numpy as np
 
 from ranker.score.stack import empty_stack
 
-from .batch import rank_batch, score_variants
+from .batch import chunk_size, rank_batch, score_variants
 from .pairs import cycles_from_rows, pair_relation, signs_row
 from .swaps import RankedCollector, passes
+from .variants import topsis_variants
 from .words import Namer
 
 #: Most swaps listed per check (all are counted) [-].
@@ -237,8 +238,12 @@ def clone(scorer, matrix, weights, ids, namer) -> Check:
 
     r0x, g0x = np.append(r0, 0), np.append(g0, 0.0)
     col = RankedCollector(ids + ["(copy)"], range(n), r0x, g0x, best, MAX_DETAILS)
+    closed = topsis_variants(scorer, x, weights)
     for s, e in passes(n, n + 1, k):
-        goods = score_variants(scorer, weights, e - s, n + 1, k, partial(build, offset=s))
+        if closed is not None:
+            goods = closed.with_copy(np.arange(s, e))
+        else:
+            goods = score_variants(scorer, weights, e - s, n + 1, k, partial(build, offset=s))
         kept = np.ones((e - s, n + 1), dtype=bool)
         kept[:, n] = False  # the copy takes no part in the comparison
         col.add(s, rank_batch(goods), goods, kept)
@@ -255,6 +260,13 @@ def clone(scorer, matrix, weights, ids, namer) -> Check:
             f"copies of {len(changed)} corridor(s) change the order ({count:,} swap(s) in all)."
         )
     return Check("clone", count == 0, details, sentence, count, changed, lost)
+
+
+def empty_stack_of(mats: np.ndarray) -> np.ndarray:
+    """Copy a stack (s, m, k) into the layout the kernels prefer."""
+    out = empty_stack(*mats.shape)
+    out[...] = mats
+    return out
 
 
 def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
@@ -284,10 +296,18 @@ def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
         return rest + (rest >= np.arange(start, stop)[:, None])  # corridor indices
 
     col = RankedCollector(ids, range(n), r0, g0, best, MAX_DETAILS)
+    closed = topsis_variants(scorer, x, weights)
     for s, e in passes(n, n - 1, k):
-        short = score_variants(scorer, weights, e - s, n - 1, k, partial(build, offset=s))
-        # Put the results back in full index space; the removed corridor gets 0.
         variant, kept = np.arange(e - s)[:, None], kept_rows(s, e)
+        if closed is None:
+            short = score_variants(scorer, weights, e - s, n - 1, k, partial(build, offset=s))
+        else:
+            short = np.take_along_axis(closed.without(np.arange(s, e)), kept, axis=1)
+            moves = np.nonzero(closed.removal_moves_ideal[s:e])[0]
+            for start in range(0, moves.size, chunk_size(n - 1, k)):
+                m = moves[start : start + chunk_size(n - 1, k)]
+                short[m] = scorer.stack(empty_stack_of(x[kept[m]]), weights)
+        # Put the results back in full index space; the removed corridor gets 0.
         ranks = np.zeros((e - s, n), dtype=int)
         goods = np.zeros((e - s, n))
         ranks[variant, kept] = rank_batch(short)
