@@ -189,8 +189,12 @@ def replace_worse(
         return mats
 
     col = RankedCollector(ids, targets, r0, g0, best, MAX_DETAILS)
+    closed = topsis_variants(scorer, x, weights)
     for s, e in passes(len(targets), n, k):
-        goods = score_variants(scorer, weights, e - s, n, k, partial(build, offset=s))
+        if closed is not None:
+            goods = closed.with_replaced(target_idx[s:e], target_rows[s:e])
+        else:
+            goods = score_variants(scorer, weights, e - s, n, k, partial(build, offset=s))
         kept = np.ones((e - s, n), dtype=bool)
         kept[np.arange(e - s), target_idx[s:e]] = False
         col.add(s, rank_batch(goods), goods, kept)

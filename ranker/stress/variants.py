@@ -1,8 +1,8 @@
 """Scores of one-corridor variants of a problem, in closed form where the method allows.
 
-The clone and leave-one-out checks of :mod:`ranker.stress.reversal` score
-``n`` variants of an ``n``-corridor problem, each differing from it by one
-corridor added or removed. For TOPSIS on vector-normalised values [1]_ a
+The rank-reversal checks of :mod:`ranker.stress.reversal` (test 1, clones,
+leave-one-out) score ``n`` variants of an ``n``-corridor problem, each
+differing from it by one corridor replaced, added or removed. For TOPSIS on vector-normalised values [1]_ a
 variant changes only each criterion's norm (``N'_c^2 = N_c^2 + x_vc^2`` for
 a copy of corridor v, ``N_c^2 - x_vc^2`` for its removal) and, sometimes,
 the ideal or anti-ideal: with ``r = x / N`` the normalised base matrix and
@@ -13,7 +13,8 @@ the ideal or anti-ideal: with ``r = x / N`` the normalised base matrix and
 as long as the ideal and anti-ideal values ``r*_c`` are those of the base
 problem. That holds for every copy (it repeats an existing row), and for the
 removal of a corridor that is not alone in holding a column's best or worst
-value. So all those variants are scored by two matrix products, ``(V, k) @
+value; a replacement shifts the ideal and anti-ideal by known amounts
+(:meth:`TopsisVariants.with_replaced`). So all those variants are scored by two matrix products, ``(V, k) @
 (k, n)``, instead of normalising ``V`` matrices; the others are left to the
 kernel. The scores equal the kernel's to rounding (proved in
 ``tests/stress/test_variants.py``); the tie rule (1e-12, relative) absorbs
@@ -66,6 +67,15 @@ class TopsisVariants:
                     alone[at] = True
         alone |= ((self.norm2 - self.x2 <= 0) & weighted).any(axis=1)
         self.removal_moves_ideal = alone
+        # For replacements: each column's best and worst value without corridor v.
+        self.r, self.benefit = r, benefit
+        self.ideal, self.anti = np.where(benefit, hi, lo), np.where(benefit, lo, hi)
+        order = np.sort(r, axis=0)
+        # With one corridor there is no other: the new row alone sets both.
+        second_lo = order[1] if len(x) > 1 else np.full(r.shape[1], np.inf)
+        second_hi = order[-2] if len(x) > 1 else np.full(r.shape[1], -np.inf)
+        self.hi_without = np.where((r == hi) & ((r == hi).sum(axis=0) == 1), second_hi, hi)
+        self.lo_without = np.where((r == lo) & ((r == lo).sum(axis=0) == 1), second_lo, lo)
 
     def _scores(self, norm2_variant):
         f2 = np.where(
@@ -88,6 +98,41 @@ class TopsisVariants:
         Valid only where ``removal_moves_ideal[v]`` is False.
         """
         return self._scores(self.norm2[None, :] - self.x2[v])
+
+    def with_replaced(self, v: np.ndarray, rows: np.ndarray) -> np.ndarray:
+        """Scores (len(v), n) with corridor v[m] replaced by ``rows[m]`` (units of x) [-].
+
+        The norms change by ``x'^2 - x^2``; the ideal and anti-ideal are those
+        of the other corridors and the new row, ``r*_c + delta_c`` in base
+        units, so ``(r - r* - delta)^2 = (r - r*)^2 - 2 delta (r - r*) +
+        delta^2`` keeps the two matrix products and adds two more.
+        """
+        nv = self.norm2[None, :] - self.x2[v] + rows * rows
+        base = np.sqrt(np.where(self.norm2 == 0, 1.0, self.norm2))
+        f2 = np.where(nv > 0, self.norm2 / np.where(nv > 0, nv, 1.0), 1.0)
+        a = self.w2 * f2
+        new = rows / base  # the new row in base units
+        hi = np.maximum(self.hi_without[v], new)
+        lo = np.minimum(self.lo_without[v], new)
+        ideal = np.where(self.benefit, hi, lo)
+        anti = np.where(self.benefit, lo, hi)
+        d_i, d_a = ideal - self.ideal, anti - self.anti
+        dp2 = (
+            a @ self.to_ideal
+            - 2.0 * (a * d_i) @ (self.r - self.ideal).T
+            + (a * d_i * d_i).sum(axis=1)[:, None]
+        )
+        dm2 = (
+            a @ self.to_anti
+            - 2.0 * (a * d_a) @ (self.r - self.anti).T
+            + (a * d_a * d_a).sum(axis=1)[:, None]
+        )
+        rows_m = np.arange(len(v))
+        dp2[rows_m, v] = (a * (new - ideal) ** 2).sum(axis=1)
+        dm2[rows_m, v] = (a * (new - anti) ** 2).sum(axis=1)
+        d_plus, d_minus = np.sqrt(np.maximum(dp2, 0.0)), np.sqrt(np.maximum(dm2, 0.0))
+        total = d_plus + d_minus
+        return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
 
 
 def topsis_variants(scorer, x, weights):

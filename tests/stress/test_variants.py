@@ -64,3 +64,17 @@ def test_only_topsis_on_vector_values_has_the_closed_form():
     x, w, benefit = _case(5, 3, 1, False)
     assert topsis_variants(Scorer(topsis, benefit, True, {"normalization": "vector"}), x, w)
     assert topsis_variants(Scorer(topsis, benefit, True, {"normalization": "sum"}), x, w) is None
+
+
+@settings(max_examples=60, deadline=None, derandomize=True)
+@given(st.integers(1, 25), st.integers(1, 5), st.integers(0, 10_000), st.booleans())
+def test_replacements_equal_kernel(n, k, seed, coarse):
+    """A corridor replaced by another row (worse, better or random): every score to 1e-12."""
+    x, w, benefit = _case(n, k, seed, coarse)
+    rng = np.random.default_rng(seed + 1)
+    rows = x + rng.integers(-2, 3, size=x.shape) * (0.5 if coarse else rng.random(x.shape))
+    got = TopsisVariants(x, w, benefit).with_replaced(np.arange(n), rows)
+    for v in range(n):
+        y = x.copy()
+        y[v] = rows[v]
+        assert np.allclose(got[v], topsis(y, w, benefit), rtol=0, atol=1e-12)
