@@ -215,6 +215,18 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
         -1: (np.zeros(n), np.full(n, -1), ranks[g0].copy()),
     }
     thresholds = beat_thresholds(g)
+    # Places in each grid row's order (best first), and each row's longest run of
+    # tied neighbours, for the partner windows.
+    pos = np.empty_like(order)
+    np.put_along_axis(pos, order, np.arange(n)[None, :], axis=1)
+    ahead = np.take_along_axis(g, order, axis=1)
+    tied = ahead[:, :-1] <= beat_thresholds(ahead[:, 1:])  # neither beats the other
+    runs = np.zeros(len(grid), dtype=np.int64)
+    if n > 1 and tied.any():
+        for r in np.nonzero(tied.any(axis=1))[0]:
+            edges = np.diff(np.concatenate([[0], tied[r].astype(np.int8), [0]]))
+            runs[r] = int((np.nonzero(edges < 0)[0] - np.nonzero(edges > 0)[0]).max()) + 1
+    moves = np.abs(np.diff(pos, axis=0)).max(axis=1) if len(grid) > 1 else np.zeros(1, int)
     for side, rows in ((1, np.arange(g0 + 1, len(grid))), (-1, np.arange(g0 - 1, -1, -1))):
         if not rows.size:
             continue
@@ -225,7 +237,8 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
         for start in range(0, who.size, step):
             i = who[start : start + step]
             ra, rb = first[i] - side, first[i]
-            cols = _partners(g, thresholds, ra, rb, i)
+            window = _windows(order, (pos, runs, moves), ra, rb, i)
+            cols = _partners(g, thresholds, ra, rb, i, window)
             t, by, after = _narrow(
                 scorer,
                 x,
@@ -244,25 +257,58 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
     return low, high, low_by, high_by, low_rank, high_rank
 
 
-def _partners(g, thresholds, ra, rb, i) -> np.ndarray:
+def _partners(g, thresholds, ra, rb, i, window=None) -> np.ndarray:
     """Corridors whose order with i differs between grid rows ra and rb, i first.
 
     ``thresholds`` is :func:`beat_thresholds` of the grid's scores ``g``.
     Returns ``cols`` (m, 1 + p): column 0 is ``i``, then the partners in
     increasing index order, padded with ``i`` itself (a corridor never beats
-    itself, so the padding never flips).
+    itself, so the padding never flips). ``window`` (m, q), optional: the
+    only corridors that can be partners (see :func:`_windows`); else all.
     """
-    rows = np.arange(len(i))
+    m = len(i)
+    if window is None:
+        cand = np.broadcast_to(np.arange(g.shape[1]), (m, g.shape[1]))
+    else:
+        cand = np.sort(window, axis=1)
+    ga, gb = g[ra[:, None], cand], g[rb[:, None], cand]
+    ta, tb = thresholds[ra[:, None], cand], thresholds[rb[:, None], cand]
     ai, bi = g[ra, i][:, None], g[rb, i][:, None]
-    flips = (ai > thresholds[ra]) != (bi > thresholds[rb])
-    flips |= (g[ra] > thresholds[ra, i][:, None]) != (g[rb] > thresholds[rb, i][:, None])
-    flips[rows, i] = False
+    flips = (ai > ta) != (bi > tb)
+    flips |= (ga > thresholds[ra, i][:, None]) != (gb > thresholds[rb, i][:, None])
+    flips &= cand != i[:, None]
     size = flips.sum(axis=1)
     cols = np.repeat(i[:, None], 1 + max(1, int(size.max(initial=0))), axis=1)
     r, j = np.nonzero(flips)
     place = np.arange(r.size) - np.repeat(np.cumsum(size) - size, size)
-    cols[r, 1 + place] = j
+    cols[r, 1 + place] = cand[r, j]
     return cols
+
+
+def _windows(order, places, ra, rb, i):
+    """Corridors near i in row ra's order that can change their order with i by row rb.
+
+    A pair whose order reverses between two rows is at most ``2 D`` apart in
+    either row's order, ``D`` the largest move of any corridor between them;
+    a pair whose relation changes through the tie rule alone lies within
+    one run of tied neighbours. So the partners of i are within ``W = 2 D +
+    T + 1`` places of it in row ra (``T`` the longest tied run of the two
+    rows). ``places`` is (place of each corridor in each row's order, each
+    row's longest tied run, each pair of adjacent rows' largest move).
+    Returns the corridors at those places, i itself past the ends; None
+    where the window would cover most corridors anyway.
+    """
+    pos, runs, moves = places
+    n = order.shape[1]
+    cell = np.minimum(ra, rb)  # adjacent rows: moves[r] is between rows r and r + 1
+    width = 2 * int(moves[cell].max()) + int(np.maximum(runs[ra], runs[rb]).max()) + 1
+    if 2 * width + 1 >= n // 2:
+        return None
+    offsets = np.arange(-width, width + 1)
+    at = pos[ra, i][:, None] + offsets[None, :]
+    inside = (at >= 0) & (at < n)
+    got = order[ra[:, None], np.clip(at, 0, n - 1)]
+    return np.where(inside, got, i[:, None])
 
 
 def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, cols):
