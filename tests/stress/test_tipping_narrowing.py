@@ -100,19 +100,31 @@ def test_sweeps_equal_reference(n, k, seed, coarse, method, normalization, budge
 
 
 def test_large_sweep_equals_reference():
-    """800 corridors x 6 criteria, TOPSIS: every interval identical."""
+    """800 corridors x 6 criteria, TOPSIS, partners sought in windows: every interval identical."""
     rng = np.random.default_rng(11)
     x = rng.random((800, 6)) + 0.1
     sc = _scorer("topsis", np.array([True, False, True, True, False, True]))
     w = np.full(6, 1 / 6)
+    windows = []
+    real = tipping._windows
+
+    def spy(*args):
+        got = real(*args)
+        windows.append(got is not None)
+        return got
+
     for c in (0, 3):
-        new, old = tipping.sweep_criterion(sc, x, w, c), ref.sweep_criterion(sc, x, w, c)
+        with pytest.MonkeyPatch.context() as mp:
+            mp.setattr(tipping, "_windows", spy)
+            new = tipping.sweep_criterion(sc, x, w, c)
+        old = ref.sweep_criterion(sc, x, w, c)
         for name in FIELDS:
             got, want = getattr(new, name), getattr(old, name)
             if name in ("low", "high"):
                 assert np.allclose(got, want, rtol=0, atol=1e-12), (name, c)
             else:
                 assert np.array_equal(got, want), (name, c)
+    assert any(windows)  # the partner windows, not all corridors, were searched
 
 
 @settings(max_examples=60, deadline=None, derandomize=True)
