@@ -22,6 +22,8 @@ from .batch import chunk_size
 #: this many corridor entries per pass, so the (variants x corridors) arrays
 #: of a check stay near 16 MiB each however many corridors there are [-].
 VARIANT_BUDGET = 2_000_000
+#: Largest displacement for which an inversion count compares neighbours only [-].
+BAND = 48
 #: Below this many corridors an inversion count compares every pair [-].
 _DIRECT = 256
 #: Pairs i < j of a sequence up to _DIRECT long (the strict upper triangle).
@@ -29,11 +31,25 @@ _UPPER = np.triu(np.ones((_DIRECT, _DIRECT), dtype=bool), 1)
 
 
 def inversions(seq: np.ndarray) -> int:
-    """Number of pairs i < j with ``seq[i] > seq[j]`` (strict), by divide and conquer.
+    """Number of pairs i < j with ``seq[i] > seq[j]`` (strict).
 
-    ``O(m log^2 m)``: the two halves are counted on their own, and the pairs
-    across them by a sorted search (the merge step of merge sort).
+    A nearly sorted sequence (every element at most ``d`` places from where
+    a stable sort puts it, ``d`` at most :data:`BAND`) is counted by
+    comparing each element with the next ``2 d - 1`` only: an inverted pair
+    i < j sorts j before i, so ``j - i < 2 d``. Otherwise by divide and
+    conquer, ``O(m log^2 m)``: the two halves are counted on their own, and
+    the pairs across them by a sorted search (the merge step of merge sort).
     """
+    m = seq.size
+    if m > _DIRECT:
+        place = np.argsort(seq, kind="stable")
+        d = int(np.abs(place - np.arange(m)).max())
+        if d <= BAND:
+            return sum(int(np.count_nonzero(seq[:-s] > seq[s:])) for s in range(1, 2 * d))
+    return _divide(seq)
+
+
+def _divide(seq: np.ndarray) -> int:
     m = seq.size
     if m <= _DIRECT:
         return int(np.count_nonzero((seq[:, None] > seq[None, :]) & _UPPER[:m, :m]))
@@ -41,7 +57,7 @@ def inversions(seq: np.ndarray) -> int:
     left, right = seq[:half], seq[half:]
     not_above = np.searchsorted(np.sort(left), right, side="right")
     cross = int(half * right.size - not_above.sum())
-    return inversions(left) + inversions(right) + cross
+    return _divide(left) + _divide(right) + cross
 
 
 def _pair_rows(o, w, rows):
