@@ -33,6 +33,9 @@ import numpy as np
 
 from ranker.score.topsis import topsis
 
+#: Elements (variants x corridors x criteria) per block of directly computed distances [-].
+MOVED_BUDGET = 4_000_000
+
 
 class TopsisVariants:
     """Closed-form TOPSIS (vector normalisation) scores of copy and removal variants.
@@ -48,6 +51,7 @@ class TopsisVariants:
     """
 
     def __init__(self, x, weights, is_benefit):
+        self.x = x
         self.x2 = x * x
         self.norm2 = self.x2.sum(axis=0)
         r = x / np.sqrt(np.where(self.norm2 == 0, 1.0, self.norm2))
@@ -103,9 +107,9 @@ class TopsisVariants:
         """Scores (len(v), n) with corridor v[m] replaced by ``rows[m]`` (units of x) [-].
 
         The norms change by ``x'^2 - x^2``; the ideal and anti-ideal are those
-        of the other corridors and the new row, ``r*_c + delta_c`` in base
-        units, so ``(r - r* - delta)^2 = (r - r*)^2 - 2 delta (r - r*) +
-        delta^2`` keeps the two matrix products and adds two more.
+        of the other corridors and the new row. Where they stay, the two
+        matrix products give every distance; where the new row moves one,
+        that variant's distances are taken to the moved point directly.
         """
         nv = self.norm2[None, :] - self.x2[v] + rows * rows
         base = np.sqrt(np.where(self.norm2 == 0, 1.0, self.norm2))
@@ -116,23 +120,31 @@ class TopsisVariants:
         lo = np.minimum(self.lo_without[v], new)
         ideal = np.where(self.benefit, hi, lo)
         anti = np.where(self.benefit, lo, hi)
-        d_i, d_a = ideal - self.ideal, anti - self.anti
-        dp2 = (
-            a @ self.to_ideal
-            - 2.0 * (a * d_i) @ (self.r - self.ideal).T
-            + (a * d_i * d_i).sum(axis=1)[:, None]
-        )
-        dm2 = (
-            a @ self.to_anti
-            - 2.0 * (a * d_a) @ (self.r - self.anti).T
-            + (a * d_a * d_a).sum(axis=1)[:, None]
-        )
+        dp2, dm2 = a @ self.to_ideal, a @ self.to_anti
+        # Where the new row moves an ideal or anti-ideal, the distances to the
+        # moved point are taken directly (expanding the square would cancel
+        # digits exactly where a distance is near 0).
+        moved = (((ideal != self.ideal) | (anti != self.anti)) & (self.w2 > 0)).any(axis=1)
+        moved = np.nonzero(moved)[0]
+        step = max(1, MOVED_BUDGET // max(1, self.r.size))
+        for start in range(0, moved.size, step):
+            m = moved[start : start + step]
+            dp2[m] = np.einsum("mk,mnk->mn", a[m], (self.r[None] - ideal[m][:, None, :]) ** 2)
+            dm2[m] = np.einsum("mk,mnk->mn", a[m], (self.r[None] - anti[m][:, None, :]) ** 2)
         rows_m = np.arange(len(v))
         dp2[rows_m, v] = (a * (new - ideal) ** 2).sum(axis=1)
         dm2[rows_m, v] = (a * (new - anti) ** 2).sum(axis=1)
         d_plus, d_minus = np.sqrt(np.maximum(dp2, 0.0)), np.sqrt(np.maximum(dm2, 0.0))
         total = d_plus + d_minus
-        return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+        out = np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+        # A column of zeros that the new row fills has no base scale: score those
+        # variants as they are (the worsening rule never does this).
+        empty = ((self.norm2 == 0) & (nv > 0) & (self.w2 > 0)).any(axis=1)
+        for m in np.nonzero(empty)[0]:
+            y = self.x.copy()
+            y[v[m]] = rows[m]
+            out[m] = topsis(y, np.sqrt(self.w2), self.benefit)
+        return out
 
 
 def topsis_variants(scorer, x, weights):
