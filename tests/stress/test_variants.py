@@ -66,7 +66,32 @@ def test_only_topsis_on_vector_values_has_the_closed_form():
     assert topsis_variants(Scorer(topsis, benefit, True, {"normalization": "sum"}), x, w) is None
 
 
-@settings(max_examples=60, deadline=None, derandomize=True)
+def test_replacement_cases_found_by_search():
+    """A zero column filled by the new row; a corridor sitting on a moved ideal (d+ = 0)."""
+    cases = [
+        (
+            np.array([[0.0, 1.0, 0.0], [3.0, 2.0, 0.0]]),
+            np.array([[-0.5, 1.0, -0.5]]),
+            0,
+            np.array([0.0, 0.02831, 0.97169]),
+            np.array([True, True, False]),
+        ),
+        (
+            np.array([[2.53508242], [1.47001635]]),
+            np.array([[2.60326422]]),
+            1,
+            np.array([1.0]),
+            np.array([False]),
+        ),
+    ]
+    for x, row, v, w, benefit in cases:
+        got = TopsisVariants(x, w, benefit).with_replaced(np.array([v]), row)
+        y = x.copy()
+        y[v] = row[0]
+        assert np.allclose(got[0], topsis(y, w, benefit), rtol=0, atol=1e-12)
+
+
+@settings(max_examples=200, deadline=None, derandomize=True)
 @given(st.integers(1, 25), st.integers(1, 5), st.integers(0, 10_000), st.booleans())
 def test_replacements_equal_kernel(n, k, seed, coarse):
     """A corridor replaced by another row (worse, better or random): every score to 1e-12."""
