@@ -13,7 +13,6 @@ from collections.abc import Sequence
 
 import numpy as np
 import pandas as pd
-from openpyxl import load_workbook
 from openpyxl.chart import BarChart, Reference
 from openpyxl.comments import Comment
 from openpyxl.formatting.rule import ColorScaleRule
@@ -294,12 +293,13 @@ def _write_state(wb, state: dict) -> None:
 def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     """Return the bytes of the results workbook for ``result``."""
     from . import sheets
+    from .carry import carry_input_sheets, earlier_result_sheets
 
-    wb = load_workbook(result.inputs.path, data_only=False, keep_vba=False, keep_links=False)
+    # The input's sheets as values, from the bytes the reader read (never the file again).
+    snapshot = result.inputs.snapshot
+    wb, notes = carry_input_sheets(result.inputs, earlier_result_sheets(snapshot))
+    result.warnings.extend(n for n in notes if n not in result.warnings)
     wb.template = False  # an .xltx input still gives an ordinary workbook
-    for name in previous_result_sheets(wb) + [STATE_SHEET]:
-        if name in wb.sheetnames:
-            del wb[name]
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)

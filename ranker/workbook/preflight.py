@@ -21,6 +21,7 @@ and whether any formula is present.
 
 from __future__ import annotations
 
+import io
 import re
 import zipfile
 import zlib
@@ -116,6 +117,8 @@ class _Part:
 class _Preflight:
     warnings: list[str]
     parts: dict[str, _Part]
+    #: The input's bytes, read once: every later stage works from this snapshot.
+    data: bytes = b""
 
 
 def check_file(path: Path, *, limits: Limits = LIMITS) -> list[str]:
@@ -173,26 +176,42 @@ def preflight(path: Path, limits: Limits) -> _Preflight:
         raise fail(path, "file is empty (0 bytes)", "save the workbook again from Excel")
     try:
         with path.open("rb") as fh:
-            head = fh.read(8)
+            data = fh.read(limits.file_bytes + 1)  # the one read of the input's bytes
     except OSError as exc:
         raise fail(
             path,
             f"cannot be opened ({exc.strerror})",
             "close it in other programs and check you may read it",
         ) from None
+    if len(data) > limits.file_bytes:  # it grew while being read
+        raise fail(
+            path,
+            f"file is over the {limits.file_bytes / 1024**2:,.0f} MB limit",
+            "remove unused sheets, pictures and formatting, or split the corridors into two runs",
+        )
+    if not data:
+        raise fail(path, "file is empty (0 bytes)", "save the workbook again from Excel")
+    return preflight_bytes(path, data, limits)
+
+
+def preflight_bytes(path: Path, data: bytes, limits: Limits) -> _Preflight:
+    """Check a snapshot of the input's bytes; ``path`` only names it in messages."""
+    head = data[:8]
     if head == _OLE:
         raise fail(
             path,
             "is password-protected or in the old Excel 97-2003 (.xls) format",
             "remove the password (File > Info > Protect Workbook) and save as Excel Workbook (.xlsx)",
         )
-    if not zipfile.is_zipfile(path):
+    if not zipfile.is_zipfile(io.BytesIO(data)):
         raise fail(path, _not_zip_what(path, head), RESAVE)
     try:
-        with zipfile.ZipFile(path) as zf:
-            return _check_zip(path, zf, limits)
-    except (zipfile.BadZipFile, zlib.error, EOFError):
+        with zipfile.ZipFile(io.BytesIO(data)) as zf:
+            pre = _check_zip(path, zf, limits)
+    except (zipfile.BadZipFile, zlib.error, EOFError, ValueError):
         raise fail(path, "is damaged (the zip container cannot be read)", RESAVE) from None
+    pre.data = data
+    return pre
 
 
 def _not_zip_what(path: Path, head: bytes) -> str:

@@ -14,13 +14,17 @@ Two public entry points:
   Every problem found is collected, sorted by sheet, row and column, and
   raised together as one :class:`~ranker.errors.InputError`.
 
-The file is only ever opened for reading. Macros in ``.xlsm`` files are
+The file is opened once, for reading: its bytes are read into memory
+(:attr:`Inputs.snapshot`), hashed, and every later step (the sheets, the
+results workbook's copy of them) works from that snapshot, so a file replaced
+during a run cannot mix two versions. Macros in ``.xlsm`` files are
 neither run nor kept (``keep_vba=False``).
 """
 
 from __future__ import annotations
 
 import hashlib
+import io
 import re
 import warnings
 from pathlib import Path
@@ -76,9 +80,8 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     112.5
     """
     path = Path(path)
-    pre = preflight(path, limits)
-    data = path.read_bytes()
-    sha = hashlib.sha256(data).hexdigest()
+    pre = preflight(path, limits)  # reads the file's bytes once; all else uses pre.data
+    sha = hashlib.sha256(pre.data).hexdigest()
     problems = Problems()
     grids, sheet_names = _load_grids(path, pre, limits, problems)
     for name, schema in SHEETS.items():
@@ -95,6 +98,7 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     problems.raise_if_any()
     inputs.path = path
     inputs.sha256 = sha
+    inputs.snapshot = pre.data
     inputs.sheet_names = sheet_names
     inputs.warnings = warn
     return inputs
@@ -122,7 +126,11 @@ def _load_grids(path, pre, limits, problems):
         warnings.simplefilter("ignore")
         try:
             wb = openpyxl.load_workbook(
-                path, read_only=True, data_only=True, keep_vba=False, keep_links=False
+                io.BytesIO(pre.data),
+                read_only=True,
+                data_only=True,
+                keep_vba=False,
+                keep_links=False,
             )
         except Exception as exc:  # noqa: BLE001 - any fault while parsing is the file's fault
             raise _unreadable(path, exc) from None
@@ -216,7 +224,7 @@ def _formula_pass(path, pre, grids, limits) -> None:
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         wb = openpyxl.load_workbook(
-            path, read_only=True, data_only=False, keep_vba=False, keep_links=False
+            io.BytesIO(pre.data), read_only=True, data_only=False, keep_vba=False, keep_links=False
         )
         try:
             for canon, grid in grids.items():
