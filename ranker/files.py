@@ -19,7 +19,14 @@ HTML_MARKER = f'<meta name="generator" content="{MARKER}">'
 
 
 def written_by_ranker(path: Path) -> bool:
-    """Return True where ``path`` carries the ranker marker."""
+    """Return True where ``path`` carries the ranker marker.
+
+    For a workbook the marker is a custom document property *named*
+    ``ranker-output`` (parsed, not searched for as text, so a property that
+    merely mentions the marker does not count) whose value is a version
+    number or ``demo input``. For HTML it is the generator meta tag in the
+    first 4 KiB.
+    """
     try:
         if path.suffix.lower() == ".html":
             with open(path, "rb") as f:
@@ -30,9 +37,26 @@ def written_by_ranker(path: Path) -> bool:
             info = z.getinfo("docProps/custom.xml")
             if info.file_size > 1_000_000:
                 return False
-            return MARKER.encode() in z.read("docProps/custom.xml")
-    except (OSError, zipfile.BadZipFile, KeyError):
+            return _marker_property(z.read("docProps/custom.xml"))
+    except (OSError, zipfile.BadZipFile, KeyError, ValueError, RuntimeError, EOFError):
         return False
+
+
+def _marker_property(xml: bytes) -> bool:
+    """True when the custom properties hold a ``ranker-output`` property of ours."""
+    import re
+
+    from defusedxml import ElementTree as SafeET
+
+    try:
+        root = SafeET.fromstring(xml)
+    except Exception:  # noqa: BLE001 - damaged or unsafe XML carries no marker
+        return False
+    values = ["".join(prop.itertext()).strip() for prop in root if prop.get("name") == MARKER]
+    return len(values) == 1 and (
+        values[0] == "demo input"
+        or re.fullmatch(r"\d+(\.\d+)*([.+-]?[\w.+-]*)?", values[0]) is not None
+    )
 
 
 def check_replaceable(path: Path) -> None:

@@ -31,8 +31,12 @@ from pathlib import Path
 import openpyxl
 from defusedxml import ElementTree as SafeET
 
-from ranker.errors import InputError
+from ranker.errors import InputError, Problems
 from ranker.workbook.schema import SHEETS, normalize_sheet_name
+
+#: The hidden sheet where a results workbook keeps its run's state
+#: (``ranker.report.workbook.STATE_SHEET``); a planner's sheet may not take the name.
+STATE_SHEET = "ranker_state"
 
 #: True when openpyxl parses with defusedxml (it does whenever defusedxml is
 #: installed); the entity pre-scan of :func:`check_file` guards either way.
@@ -273,8 +277,8 @@ def _check_zip(path: Path, zf: zipfile.ZipFile, limits: Limits) -> _Preflight:
             f"{path.name}: the workbook is macro-enabled; its macros were neither run nor kept "
             "(the outputs hold values only)"
         )
-    parts, dupes = _sheet_parts(path, zf, names)
-    return _Preflight(out + dupes, parts)
+    parts = _sheet_parts(path, zf, names)
+    return _Preflight(out, parts)
 
 
 #: Compression methods spreadsheet programs write (zipfile also reads bzip2 and lzma).
@@ -442,32 +446,59 @@ def _xml(path: Path, zf: zipfile.ZipFile, member: str):
 def _sheet_parts(path: Path, zf: zipfile.ZipFile, names: set[str]):
     """Map each contract sheet to its XML part and scan that part cheaply."""
     book = _xml(path, zf, "xl/workbook.xml")
-    targets: dict[str, str] = {}
+    rels: dict[str, tuple[str, str]] = {}
     rels_name = "xl/_rels/workbook.xml.rels"
     if rels_name in names:
         for rel in _xml(path, zf, rels_name).iter(f"{_NS_PKG}Relationship"):
             target = rel.get("Target", "")
             target = target.lstrip("/") if target.startswith("/") else "xl/" + target
-            targets[rel.get("Id", "")] = target
+            rels[rel.get("Id", "")] = (target, rel.get("Type", ""))
     wanted = {normalize_sheet_name(n): n for n in SHEETS}
     parts: dict[str, _Part] = {}
-    dupes: list[str] = []
+    titles: dict[str, list[str]] = {}
+    problems = Problems()
     for sheet in book.iter(f"{_NS_MAIN}sheet"):
         title = sheet.get("name", "")
+        state = sheet.get("state", "visible")
+        if title.strip().lower() == STATE_SHEET and (
+            state != "veryHidden" or title != STATE_SHEET
+        ):
+            problems.add(
+                title,
+                f"a sheet of the workbook is named {title!r}, the name ranker keeps for its own "
+                "hidden record of the last run",
+                "rename that sheet (for example to 'my state')",
+            )
         canon = wanted.get(normalize_sheet_name(title))
-        member = targets.get(sheet.get(f"{_NS_REL}id", ""), "")
-        if canon is None or member not in names:
+        if canon is None:
             continue
-        if canon in parts:
-            dupes.append(
-                f"{title}: the sheet's name also matches {canon}; only the sheet "
-                f"{parts[canon].title!r} was read"
+        titles.setdefault(canon, []).append(title)
+        rel = rels.get(sheet.get(f"{_NS_REL}id", ""), ("", ""))
+        member, kind = rel
+        if kind.endswith("/chartsheet") or "chartsheets/" in member:
+            problems.add(
+                title,
+                "is a chart sheet, not a sheet of cells",
+                f"put the table on an ordinary worksheet named {canon} and give the chart "
+                "sheet another name",
             )
             continue
-        part = _Part(title, member, hidden=sheet.get("state", "visible") != "visible")
+        if member not in names or canon in parts:
+            continue
+        part = _Part(title, member, hidden=state != "visible")
         _scan_sheet(zf.read(member), part)
         parts[canon] = part
-    return parts, dupes
+    for canon, found in titles.items():
+        if len(found) > 1:
+            shown = " and ".join(repr(t) for t in found)
+            problems.add(
+                found[1],
+                f"the sheets {shown} both match the name {canon}, so which one is read would "
+                "depend on the order of the tabs",
+                "delete one of them, or rename it so that it no longer reads as " + canon,
+            )
+    problems.raise_if_any()
+    return parts
 
 
 def _scan_sheet(xml: bytes, part: _Part) -> None:
