@@ -10,7 +10,6 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-import tempfile
 import time
 import traceback
 from pathlib import Path
@@ -246,9 +245,22 @@ COMMANDS = {"template": cmd_template, "check": cmd_check, "run": cmd_run, "demo"
 
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; return the exit code."""
+    try:
+        return _main(argv)
+    finally:
+        if argv is None:  # the real command line: a late Ctrl-C ends it without a traceback
+            import signal
+
+            signal.signal(signal.SIGINT, signal.SIG_DFL)
+
+
+def _main(argv: list[str] | None) -> int:
+    from .crash import Terminated, stop_on_sigterm, write_error_log
+
     args = _parser().parse_args(argv)
     try:
-        return COMMANDS[args.command](args)
+        with stop_on_sigterm():  # a kill unwinds like Ctrl-C: no temporary file is left
+            return COMMANDS[args.command](args)
     except InputError as exc:
         _err(*(str(p) for p in exc.problems))
         _err(f"{len(exc.problems)} problem(s) found; nothing was written.")
@@ -256,13 +268,12 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         _err("Stopped.")
         return 130
+    except Terminated:
+        _err("Stopped (terminated).")
+        return 143
     except Exception as exc:  # the one place every other failure is caught
-        log = Path(tempfile.gettempdir()) / f"ranker-error-{int(time.time())}.log"
-        try:
-            log.write_text(traceback.format_exc(), encoding="utf-8")
-            where = f"full log in {log}"
-        except OSError:
-            where = "no log could be written"
+        log = write_error_log(traceback.format_exc())
+        where = f"full log in {log}" if log is not None else "no log could be written"
         _err(f"ranker: internal error: {type(exc).__name__}: {exc} ({where})")
         return EXIT_INTERNAL
 

@@ -148,9 +148,7 @@ def _full_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
         ws.defined_names.clear()
     if names:
         shown = ", ".join(sorted(set(names))[:5]) + (" ..." if len(set(names)) > 5 else "")
-        notes.append(
-            f"the input's defined names ({shown}) were left out of the results workbook"
-        )
+        notes.append(f"the input's defined names ({shown}) were left out of the results workbook")
     lists = rules = cut = 0
     for ws in wb.worksheets:
         lists += _literal_validations(ws)
@@ -219,7 +217,9 @@ def _plain_formats(ws) -> int:
     fresh, gone = ConditionalFormattingList(), 0
     for cf in ws.conditional_formatting:
         for rule in cf.rules:
-            values = [v.val for c in (rule.colorScale, rule.dataBar, rule.iconSet) if c for v in c.cfvo]
+            values = [
+                v.val for c in (rule.colorScale, rule.dataBar, rule.iconSet) if c for v in c.cfvo
+            ]
             if rule.formula or any(v is not None and not _is_literal(v) for v in values):
                 gone += 1
             else:

@@ -22,6 +22,7 @@ from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.table import Table, TableStyleInfo
 
 from ..files import MARKER
+from .carry import CELL_CHARS, fit_cell
 
 SHEETS_PROPERTY = "ranker-sheets"
 TAB_COLOUR = "1F4E79"
@@ -62,6 +63,8 @@ def put(ws, row: int, col: int, value, number_format: str | None = None):
     """Write one cell; text that looks like a formula stays text."""
     cell = ws.cell(row=row, column=col)
     value = safe_value(value)
+    if type(value) is str and len(value) > CELL_CHARS:  # a spreadsheet cell's limit
+        value = fit_cell(value)[0]
     cell.value = value
     if isinstance(value, str) and value.startswith(_FORMULA_START):
         cell.data_type = "s"

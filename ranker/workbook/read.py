@@ -50,6 +50,10 @@ from ranker.workbook.schema import SHEETS
 from ranker.workbook.tables import Inputs
 from ranker.workbook.units import nearest
 
+#: The longest text a spreadsheet cell holds [characters] (Microsoft, "Excel
+#: specifications and limits": 32,767 characters per cell).
+CELL_CHARS = 32_767
+
 
 def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     """Read and check the input workbook.
@@ -203,6 +207,13 @@ def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
                         f"has data in column {get_column_letter(c.column)}, over the limit of "
                         f"{limits.columns} columns",
                         "remove the columns past the limit",
+                    )
+                if isinstance(value, str) and len(value) > CELL_CHARS:
+                    problems.add(
+                        f"{canon}!{get_column_letter(c.column)}{r}",
+                        f"holds {len(value):,} characters, more than the {CELL_CHARS:,} a "
+                        "spreadsheet cell can hold",
+                        "shorten the text (keep long notes on a sheet of your own)",
                     )
                 pct = c.data_type == "n" and "%" in (c.number_format or "")
                 cells[c.column] = _sheets.Cell(value, c.data_type, pct)
