@@ -30,6 +30,7 @@ from pathlib import Path
 
 import openpyxl
 from defusedxml import ElementTree as SafeET
+from openpyxl.utils import get_column_letter, range_boundaries
 
 from ranker.errors import InputError, Problems
 from ranker.workbook.schema import SHEETS, normalize_sheet_name
@@ -115,6 +116,8 @@ class _Part:
     merges: list[str] = field(default_factory=list)
     hidden_rows: set[int] = field(default_factory=set)
     hidden_cols: set[int] = field(default_factory=set)
+    #: Totals rows of spreadsheet tables on the sheet: {row: range of the row}.
+    totals_rows: dict[int, str] = field(default_factory=dict)
 
 
 @dataclass
@@ -487,6 +490,7 @@ def _sheet_parts(path: Path, zf: zipfile.ZipFile, names: set[str]):
             continue
         part = _Part(title, member, hidden=state != "visible")
         _scan_sheet(zf.read(member), part)
+        part.totals_rows = _totals_rows(path, zf, names, member)
         parts[canon] = part
     for canon, found in titles.items():
         if len(found) > 1:
@@ -501,6 +505,43 @@ def _sheet_parts(path: Path, zf: zipfile.ZipFile, names: set[str]):
     return parts
 
 
+def _totals_rows(path: Path, zf: zipfile.ZipFile, names: set[str], member: str) -> dict:
+    """Return {row: range} of the totals rows of the spreadsheet tables on one sheet."""
+    folder, _, file = member.rpartition("/")
+    rels_name = f"{folder}/_rels/{file}.rels"
+    if rels_name not in names:
+        return {}
+    out: dict[int, str] = {}
+    for rel in _xml(path, zf, rels_name).iter(f"{_NS_PKG}Relationship"):
+        if not rel.get("Type", "").endswith("/table"):
+            continue
+        target = rel.get("Target", "")
+        target = target.lstrip("/") if target.startswith("/") else _join(folder, target)
+        if target not in names:
+            continue
+        table = _xml(path, zf, target)
+        try:
+            count = int(table.get("totalsRowCount", "0") or 0)
+            c1, r1, c2, r2 = range_boundaries(table.get("ref", ""))
+        except (ValueError, TypeError):
+            continue
+        for row in range(max(r2 - count + 1, r1 + 1), r2 + 1):
+            out[row] = f"{get_column_letter(c1)}{row}:{get_column_letter(c2)}{row}"
+    return out
+
+
+def _join(folder: str, target: str) -> str:
+    """Resolve a relationship target relative to the folder of its source part."""
+    parts = folder.split("/") if folder else []
+    for piece in target.split("/"):
+        if piece == "..":
+            if parts:
+                parts.pop()
+        elif piece and piece != ".":
+            parts.append(piece)
+    return "/".join(parts)
+
+
 def _scan_sheet(xml: bytes, part: _Part) -> None:
     part.has_formulas = _FORMULA.search(xml) is not None
     part.merges = [m.group(1).decode().upper() for m in _MERGE.finditer(xml)]
@@ -511,5 +552,8 @@ def _scan_sheet(xml: bytes, part: _Part) -> None:
     for m in _COL_TAG.finditer(xml):
         attrs = dict(_ATTR.findall(m.group(0)))
         if attrs.get(b"hidden") in (b"1", b"true"):
-            lo, hi = int(attrs.get(b"min", b"0") or 0), int(attrs.get(b"max", b"0") or 0)
-            part.hidden_cols.update(range(lo, min(hi, 16384) + 1))
+            try:
+                lo, hi = int(attrs.get(b"min", b"0") or 0), int(attrs.get(b"max", b"0") or 0)
+            except ValueError:  # a malformed column attribute hides nothing we can name
+                continue
+            part.hidden_cols.update(range(max(lo, 1), min(hi, 16384) + 1))

@@ -155,6 +155,10 @@ def _load_grids(path, pre, limits, problems):
     for canon, grid in grids.items():
         part = pre.parts[canon]
         _merge_problems(grid, part, problems)
+        for _row, span in sorted(part.totals_rows.items()):
+            pre.warnings.append(
+                f"{canon}!{span}: the totals row of a spreadsheet table; it was not read as data"
+            )
         if part.hidden:
             pre.warnings.append(f"{canon}: the sheet is hidden; it was read all the same")
         rows = sorted(r for r in part.hidden_rows if r in grid.data_rows)
@@ -193,6 +197,8 @@ def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
                         f"{limits.rows:,} rows",
                         "split the data into two workbooks or remove unused rows",
                     )
+                continue
+            if r in part.totals_rows:  # a spreadsheet table's totals row is no data
                 continue
             cells = {}
             for c in row:
@@ -280,7 +286,10 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
     tables: dict[str, _sheets.Table] = {}
     for name, grid in grids.items():
         if SHEETS[name].layout == "table":
-            tables[name] = _sheets.read_header(grid, problems)
+            table = _sheets.read_header(grid, problems)
+            if table.misplaced:  # one problem says where the headers are; read no further
+                continue
+            tables[name] = table
             inputs.columns[name] = dict(tables[name].letters)
     # Where Corridors cannot be read, criteria keys and corridor ids are not cross-checked
     # (numeric is None), so one missing sheet or header does not echo through the others.
@@ -316,6 +325,8 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
         )
     if T.BUDGET in tables:
         inputs.budget = _sheets.read_by_year(tables[T.BUDGET], problems, inputs, "capital_usd")
+    if inputs.budget is not None and T.BUDGET in tables:
+        _budget_before_start(inputs, tables[T.BUDGET], warnings)
     if T.SCENARIOS in tables:
         inputs.scenarios = _sheets.read_scenarios(tables[T.SCENARIOS], problems, inputs)
     if T.CRITERIA in tables:
@@ -333,6 +344,27 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
     for grid in grids.values():
         _sheets.formula_outside(grid, problems)
     return inputs
+
+
+def _budget_before_start(inputs: Inputs, table, warnings: list[str]) -> None:
+    """Warn about budget years before the analysis year (money the plan cannot spend then)."""
+    from ranker.assumptions import ASSUMPTIONS
+
+    start = inputs.assumptions.get("analysis_year", ASSUMPTIONS["analysis_year"].default)
+    rows = inputs.rows.get(T.BUDGET, {})
+    early = [
+        (int(y), rows.get(i))
+        for i, y in enumerate(inputs.budget["year"])
+        if y == y and y is not None and int(y) < int(start)
+    ]
+    if early and "year" in table.cols:
+        places = ", ".join(table.where("year", r) for _, r in early[:5] if r is not None)
+        years = ", ".join(str(y) for y, _ in early[:5])
+        warnings.append(
+            f"{places}: budget year(s) {years} come before analysis_year {int(start)}; the "
+            "build plan still spends that money, in those years; check the years, or set "
+            "analysis_year on the Assumptions sheet"
+        )
 
 
 __all__ = ["DEFUSED", "LIMITS", "Limits", "check_file", "read_workbook"]

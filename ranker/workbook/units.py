@@ -76,6 +76,10 @@ class CellValueError(ValueError):
         self.fix = fix
 
 
+class TooLarge(CellValueError):
+    """A number beyond :data:`LARGEST` in size: wrong whatever the field."""
+
+
 def is_blank(value: object) -> bool:
     """Return True for an empty cell: ``None`` or only whitespace."""
     return value is None or (isinstance(value, str) and not value.strip())
@@ -113,7 +117,7 @@ def _finite(x: float, value: object) -> float:
             "type an ordinary number",
         )
     if abs(x) > LARGEST:
-        raise CellValueError(
+        raise TooLarge(
             f"holds {show(value)}, larger than any quantity a corridor plan uses (the limit "
             f"is {LARGEST:.0e} in size), so the arithmetic could overflow",
             "check the value and its unit, and type it in the unit the header names",
