@@ -245,13 +245,23 @@ COMMANDS = {"template": cmd_template, "check": cmd_check, "run": cmd_run, "demo"
 
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; return the exit code."""
-    try:
-        return _main(argv)
-    finally:
-        if argv is None:  # the real command line: a late Ctrl-C ends it without a traceback
-            import signal
+    import warnings
 
-            signal.signal(signal.SIGINT, signal.SIG_DFL)
+    with warnings.catch_warnings():
+        if argv is None:  # the real command line: a library's warning as one plain line
+            warnings.showwarning = _plain_warning
+        try:
+            return _main(argv)
+        finally:
+            if argv is None:  # a late Ctrl-C ends the process without a traceback
+                import signal
+
+                signal.signal(signal.SIGINT, signal.SIG_DFL)
+
+
+def _plain_warning(message, category, filename, lineno, file=None, line=None) -> None:
+    """Print a library's warning without its source path and line."""
+    _err(f"warning: {category.__name__}: {message}")
 
 
 def _main(argv: list[str] | None) -> int:
