@@ -153,14 +153,13 @@ def _full_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
     for ws in wb.worksheets:
         lists += _literal_validations(ws)
         rules += _plain_formats(ws)
-        for row in ws.iter_rows():
-            for cell in row:
-                v = cell.value
-                if cell.data_type == "f":  # no formula survives, whatever its type
-                    cell.value = None
-                elif isinstance(v, str) and len(v) > CELL_CHARS:
-                    cell.value, _ = fit_cell(v)
-                    cut += 1
+        for cell in list(ws._cells.values()):  # the stored cells only, not the rectangle
+            v = cell.value
+            if cell.data_type == "f":  # no formula survives, whatever its type
+                cell.value = None
+            elif isinstance(v, str) and len(v) > CELL_CHARS:
+                cell.value, _ = fit_cell(v)
+                cut += 1
     if lists:
         notes.append(
             f"{lists} data-validation list(s) of the input that refer to cells or names were "

@@ -116,6 +116,8 @@ class _Part:
     merges: list[str] = field(default_factory=list)
     hidden_rows: set[int] = field(default_factory=set)
     hidden_cols: set[int] = field(default_factory=set)
+    #: Formula cells saved without a value: {(row, column): formula text}.
+    unsaved: dict[tuple[int, int], str] = field(default_factory=dict)
     #: Totals rows of spreadsheet tables on the sheet: {row: range of the row}.
     totals_rows: dict[int, str] = field(default_factory=dict)
 
@@ -542,8 +544,49 @@ def _join(folder: str, target: str) -> str:
     return "/".join(parts)
 
 
+_CELL_XML = re.compile(rb"<(?:\w+:)?c\b([^>]*?)(?:/>|>(.*?)</(?:\w+:)?c>)", re.S)
+_CELL_REF = re.compile(rb'\sr="([A-Za-z]{1,3})(\d+)"')
+_F_TEXT = re.compile(rb"<(?:\w+:)?f\b[^>]*?(?:/>|>(.*?)</(?:\w+:)?f>)", re.S)
+_V_TEXT = re.compile(rb"<(?:\w+:)?v\b[^>]*?(?:/>|>(.*?)</(?:\w+:)?v>)", re.S)
+_STR_TYPE = re.compile(rb'\st="str"')
+
+
+def _unsaved_formulas(xml: bytes) -> dict[tuple[int, int], str]:
+    """Find the formula cells stored without a value (``<f>`` and no or an empty ``<v>``).
+
+    An empty ``<v>`` of a text cell (``t="str"``) is a saved empty result.
+
+    One regular-expression pass over the sheet's XML, instead of a second
+    parse of every row.
+    """
+    from html import unescape
+
+    from openpyxl.utils import column_index_from_string
+
+    out: dict[tuple[int, int], str] = {}
+    for m in _CELL_XML.finditer(xml):
+        body = m.group(2)
+        if not body or b"<" not in body:
+            continue
+        f = _F_TEXT.search(body)
+        if f is None:
+            continue
+        v = _V_TEXT.search(body)
+        if v is not None and (v.group(1) or _STR_TYPE.search(m.group(1))):
+            continue  # a saved value, or a saved empty text result
+        ref = _CELL_REF.search(m.group(1))
+        if ref is None:
+            continue
+        text = unescape((f.group(1) or b"").decode("utf-8", "replace")).strip()
+        pos = (int(ref.group(2)), column_index_from_string(ref.group(1).decode().upper()))
+        out[pos] = f"={text}" if text else "(a shared formula)"
+    return out
+
+
 def _scan_sheet(xml: bytes, part: _Part) -> None:
     part.has_formulas = _FORMULA.search(xml) is not None
+    if part.has_formulas:
+        part.unsaved = _unsaved_formulas(xml)
     part.merges = [m.group(1).decode().upper() for m in _MERGE.finditer(xml)]
     for m in _ROW_TAG.finditer(xml):
         attrs = dict(_ATTR.findall(m.group(0)))

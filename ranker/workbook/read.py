@@ -141,7 +141,7 @@ def _load_grids(path, pre, limits, problems):
         try:
             sheet_names = list(wb.sheetnames)
             for canon, part in pre.parts.items():
-                grid = _read_grid(path, wb[part.title], canon, part, limits, problems)
+                grid = _read_grid(path, wb[part.title], canon, part, limits, problems, pre.data)
                 if grid is not None:
                     grids[canon] = grid
         except InputError:
@@ -150,8 +150,11 @@ def _load_grids(path, pre, limits, problems):
             raise _unreadable(path, exc) from None
         finally:
             wb.close()
-        if any(p.has_formulas for c, p in pre.parts.items() if c in grids):
-            _formula_pass(path, pre, grids, limits)
+        for canon, grid in grids.items():  # formulas stored without a value (preflight)
+            for (r, col), text in sorted(pre.parts[canon].unsaved.items()):
+                if r <= limits.rows and grid.get(r, col) is None:
+                    if (r, col) not in grid.empty_results:
+                        grid.mark_unsaved(r, col, text)
     for canon, grid in grids.items():
         part = pre.parts[canon]
         _merge_problems(grid, part, problems)
@@ -184,19 +187,46 @@ def _unreadable(path: Path, exc: Exception) -> InputError:
     return fail(path, f"could not be read as a workbook ({name})", RESAVE)
 
 
-def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
+_ROW_R = re.compile(rb"<(?:\w+:)?row\b[^>]*?\sr=\"(\d+)\"")
+_VALUE = re.compile(rb"<(?:\w+:)?v>[^<]|<(?:\w+:)?is>")
+
+
+def _value_beyond(data: bytes, member: str, last: int) -> bool | None:
+    """Whether a cell past row ``last`` of ``member`` holds a value (None: cannot tell)."""
+    import zipfile
+
+    try:
+        with zipfile.ZipFile(io.BytesIO(data)) as zf:
+            xml = zf.read(member)
+    except (KeyError, zipfile.BadZipFile, OSError):
+        return None
+    for m in _ROW_R.finditer(xml):
+        if int(m.group(1)) > last:
+            return _VALUE.search(xml, m.start()) is not None
+    return None
+
+
+def _read_grid(path, ws, canon, part, limits, problems, pre_data=b"") -> _sheets.Grid | None:
     ws.reset_dimensions()  # a stale <dimension> must not hide rows
     grid = _sheets.Grid(canon)
     try:
         for r, row in enumerate(ws.iter_rows(), start=1):
             if r > limits.rows:
-                if any(getattr(c, "value", None) is not None for c in row):
+                # Past the limit, only whether any value follows matters: the XML is searched
+                # for one rather than parsed row by row (a formula filled down to row
+                # 1,048,576 with empty results is no data, and would take minutes to parse).
+                beyond = _value_beyond(pre_data, part.member, limits.rows)
+                if beyond or (
+                    beyond is None and any(getattr(c, "value", None) is not None for c in row)
+                ):
                     raise InputError.one(
                         canon,
                         f"has data beyond row {limits.rows:,}, over the limit of "
                         f"{limits.rows:,} rows",
                         "split the data into two workbooks or remove unused rows",
                     )
+                if beyond is False:
+                    break
                 continue
             if r in part.totals_rows:  # a spreadsheet table's totals row is no data
                 continue
@@ -234,35 +264,6 @@ def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
         )
         return None
     return grid
-
-
-def _formula_pass(path, pre, grids, limits) -> None:
-    """Name every formula cell whose value was never saved."""
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        wb = openpyxl.load_workbook(
-            io.BytesIO(pre.data), read_only=True, data_only=False, keep_vba=False, keep_links=False
-        )
-        try:
-            for canon, grid in grids.items():
-                part = pre.parts[canon]
-                if not part.has_formulas:
-                    continue
-                ws = wb[part.title]
-                ws.reset_dimensions()
-                for r, row in enumerate(ws.iter_rows(), start=1):
-                    if r > limits.rows:
-                        break
-                    for c in row:
-                        v = getattr(c, "value", None)
-                        text = getattr(v, "text", v)
-                        if not (isinstance(text, str) and text.startswith("=")):
-                            continue
-                        pos = (r, c.column)
-                        if grid.get(*pos) is None and pos not in grid.empty_results:
-                            grid.mark_unsaved(r, c.column, text)
-        finally:
-            wb.close()
 
 
 def _merge_problems(grid, part, problems) -> None:
