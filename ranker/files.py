@@ -154,8 +154,9 @@ def write_all_atomic(files: dict[Path, bytes]) -> None:
             current = path
             if path.exists():
                 backups[path] = _keep_aside(path)
-            os.replace(tmp, path)
+            # Counted as moved first: a signal landing just after the move must still undo it.
             moved.append(path)
+            os.replace(tmp, path)
     except BaseException as exc:  # undo on any failure, then report it
         for path in moved:
             if path in backups:
