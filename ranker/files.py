@@ -160,8 +160,12 @@ def write_all_atomic(files: dict[Path, bytes]) -> None:
     except BaseException as exc:  # undo on any failure, then report it
         for path in moved:
             if path in backups:
+                bak = backups.pop(path)
                 try:
-                    os.replace(backups.pop(path), path)
+                    if os.path.samefile(bak, path):  # never moved: the old file is in place
+                        _remove(bak)
+                    else:
+                        os.replace(bak, path)
                 except OSError:  # keep the hidden copy rather than lose the old output
                     pass
             else:
