@@ -56,25 +56,36 @@ def fit_cell(text: str) -> tuple[str, bool]:
     return text[: CELL_CHARS - len(CUT_NOTE)] + CUT_NOTE, True
 
 
-def count_parts(snapshot: bytes) -> dict[str, tuple[int, int]]:
-    """Return {sheet part: (stored cells, formula cells)}, counted a chunk at a time."""
-    out: dict[str, tuple[int, int]] = {}
+def count_parts(snapshot: bytes) -> dict[str, tuple[int, int, int | None]]:
+    """Return {sheet part: (stored cells, formula cells, last row with a value)}.
+
+    Each part is read a chunk at a time (the last row as
+    :func:`ranker.workbook.preflight.last_value_row` finds it).
+    """
+    from ranker.workbook.preflight import last_value_row
+
+    out: dict[str, tuple[int, int, int | None]] = {}
     with zipfile.ZipFile(io.BytesIO(snapshot)) as zf:
         for name in zf.namelist():
             if not _SHEET_PART.match(name):
                 continue
-            cells = formulas = 0
-            tail = b""
-            with zf.open(name) as fh:
-                while chunk := fh.read(1 << 20):
-                    block = tail + chunk
-                    cut = max(0, len(block) - 8)  # a tag split across chunks is counted once
-                    cells += len(_CELL.findall(block, 0, cut))
-                    formulas += len(_FORMULA.findall(block, 0, cut))
-                    tail = block[cut:]
-            cells += len(_CELL.findall(tail))
-            formulas += len(_FORMULA.findall(tail))
-            out[name] = (cells, formulas)
+            counts = [0, 0]
+
+            def chunks(name=name, counts=counts):
+                tail = b""
+                with zf.open(name) as fh:
+                    while chunk := fh.read(1 << 20):
+                        block = tail + chunk
+                        cut = max(0, len(block) - 8)  # a tag split across chunks counts once
+                        counts[0] += len(_CELL.findall(block, 0, cut))
+                        counts[1] += len(_FORMULA.findall(block, 0, cut))
+                        tail = block[cut:]
+                        yield chunk
+                counts[0] += len(_CELL.findall(tail))
+                counts[1] += len(_FORMULA.findall(tail))
+
+            last = last_value_row(chunks())
+            out[name] = (counts[0], counts[1], last)
     return out
 
 
@@ -97,15 +108,17 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
     """
     snapshot = inputs.snapshot
     counts = count_parts(snapshot)
-    total = sum(c for c, _ in counts.values())
-    formulas = sum(f for _, f in counts.values())
-    big = max((c for c, _ in counts.values()), default=0)
+    total = sum(c[0] for c in counts.values())
+    formulas = sum(c[1] for c in counts.values())
+    big = max((c[0] for c in counts.values()), default=0)
     notes: list[str] = []
     wb = None
     if total <= FULL_COPY_CELLS and big <= SHEET_CELLS:
         try:
             wb = _full_copy(snapshot, drop, notes)
+            wb.save(io.BytesIO())  # what loads but cannot be written again fails here, not later
         except Exception as exc:  # noqa: BLE001 - a part openpyxl cannot load: stream instead
+            wb = None
             notes.clear()
             notes.append(
                 "the input sheets were copied into the results workbook as values and number "
@@ -120,6 +133,10 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
         )
     if wb is None:
         wb = _value_copy(snapshot, drop, notes)
+    from .workbook import STATE_SHEET
+
+    if STATE_SHEET in wb.sheetnames:  # the reader refused any sheet of that name but ours
+        del wb[STATE_SHEET]
     if formulas:
         notes.append(
             f"the input holds {formulas:,} formula cell(s); the results workbook carries the "
@@ -240,7 +257,7 @@ def _value_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
             if ws.title in drop:
                 continue
             part = str(getattr(ws, "_worksheet_path", "")).lstrip("/")
-            stored = counts.get(part, (0, 0))[0]
+            stored, _, last = counts.get(part, (0, 0, None))
             if stored > SHEET_CELLS:
                 notes.append(
                     f"{ws.title}: the sheet stores {stored:,} cells, over the "
@@ -252,7 +269,8 @@ def _value_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
             target.sheet_state = ws.sheet_state
             try:
                 ws.reset_dimensions()
-                for row in ws.iter_rows():
+                # Rows past the last stored value hold nothing to carry: not parsed.
+                for row in ws.iter_rows(max_row=None if last is None else max(last, 1)):
                     for c in row:
                         v = getattr(c, "value", None)
                         if v is None:
@@ -300,7 +318,10 @@ def earlier_result_sheets(snapshot: bytes) -> set[str]:
     listed = _custom_properties(snapshot).get(SHEETS_PROPERTY, "")
     titles = [t for t in listed.split("\n") if t]
     out: set[str] = set()
-    src = _load(snapshot, read_only=True)
+    try:
+        src = _load(snapshot, read_only=True)
+    except Exception:  # noqa: BLE001 - the reader read it; keep every sheet if this cannot
+        return out
     try:
         for title in titles:
             if title not in src.sheetnames or title == STATE_SHEET:
@@ -310,7 +331,7 @@ def earlier_result_sheets(snapshot: bytes) -> set[str]:
                 continue
             try:
                 note = next(ws.iter_rows(min_row=2, max_row=2, max_col=1, values_only=True))[0]
-            except (StopIteration, IndexError):
+            except Exception:  # noqa: BLE001 - an unreadable sheet is kept, not dropped
                 continue
             if isinstance(note, str) and note.startswith(RESULT_NOTE):
                 out.add(title)

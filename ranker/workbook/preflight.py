@@ -116,6 +116,8 @@ class _Part:
     merges: list[str] = field(default_factory=list)
     hidden_rows: set[int] = field(default_factory=set)
     hidden_cols: set[int] = field(default_factory=set)
+    #: The last row holding a stored value (None: rows without numbers, so unknown).
+    last_value_row: int | None = 0
     #: Formula cells saved without a value: {(row, column): formula text}.
     unsaved: dict[tuple[int, int], str] = field(default_factory=dict)
     #: Totals rows of spreadsheet tables on the sheet: {row: range of the row}.
@@ -583,8 +585,41 @@ def _unsaved_formulas(xml: bytes) -> dict[tuple[int, int], str]:
     return out
 
 
+#: A row's number, or a stored value (a ``<v>`` with content, or an inline string).
+ROW_OR_VALUE = re.compile(rb"<(?:\w+:)?row\b([^>]*)>|<(?:\w+:)?v(?:\s[^>]*)?>[^<]|<(?:\w+:)?is>")
+_ROW_NUMBER = re.compile(rb'\sr="(\d+)"')
+
+
+def last_value_row(chunks) -> int | None:
+    """Return the last row of a sheet's XML that holds a stored value (0 for none).
+
+    ``chunks`` is an iterable of byte strings read in order (a whole part may
+    be one chunk). None when a row before a value carries no number, so the
+    answer cannot be told without parsing. Empty cells (formatted only) and
+    formulas whose saved result is empty text hold no value.
+    """
+    row: int | None = 0
+    last: int | None = 0
+    block = b""
+    for chunk in [*chunks, b""]:
+        block += chunk
+        # Near the end of a chunk a tag may be cut; it is matched with the next one.
+        stop = len(block) if not chunk else max(0, len(block) - 256)
+        end = 0
+        for m in ROW_OR_VALUE.finditer(block, 0, stop):
+            end = m.end()
+            if m.group(1) is not None:
+                n = _ROW_NUMBER.search(m.group(1))
+                row = int(n.group(1)) if n else None
+            else:
+                last = row
+        block = block[max(end, stop - 256, 0) :]
+    return last
+
+
 def _scan_sheet(xml: bytes, part: _Part) -> None:
     part.has_formulas = _FORMULA.search(xml) is not None
+    part.last_value_row = last_value_row([xml])
     if part.has_formulas:
         part.unsaved = _unsaved_formulas(xml)
     part.merges = [m.group(1).decode().upper() for m in _MERGE.finditer(xml)]

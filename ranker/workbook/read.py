@@ -141,7 +141,7 @@ def _load_grids(path, pre, limits, problems):
         try:
             sheet_names = list(wb.sheetnames)
             for canon, part in pre.parts.items():
-                grid = _read_grid(path, wb[part.title], canon, part, limits, problems, pre.data)
+                grid = _read_grid(path, wb[part.title], canon, part, limits, problems)
                 if grid is not None:
                     grids[canon] = grid
         except InputError:
@@ -187,46 +187,29 @@ def _unreadable(path: Path, exc: Exception) -> InputError:
     return fail(path, f"could not be read as a workbook ({name})", RESAVE)
 
 
-_ROW_R = re.compile(rb"<(?:\w+:)?row\b[^>]*?\sr=\"(\d+)\"")
-_VALUE = re.compile(rb"<(?:\w+:)?v>[^<]|<(?:\w+:)?is>")
-
-
-def _value_beyond(data: bytes, member: str, last: int) -> bool | None:
-    """Whether a cell past row ``last`` of ``member`` holds a value (None: cannot tell)."""
-    import zipfile
-
-    try:
-        with zipfile.ZipFile(io.BytesIO(data)) as zf:
-            xml = zf.read(member)
-    except (KeyError, zipfile.BadZipFile, OSError):
-        return None
-    for m in _ROW_R.finditer(xml):
-        if int(m.group(1)) > last:
-            return _VALUE.search(xml, m.start()) is not None
-    return None
-
-
-def _read_grid(path, ws, canon, part, limits, problems, pre_data=b"") -> _sheets.Grid | None:
+def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
     ws.reset_dimensions()  # a stale <dimension> must not hide rows
     grid = _sheets.Grid(canon)
+    last = part.last_value_row  # from one search of the XML: rows past it hold no value
+    if last is not None and last > limits.rows:
+        raise InputError.one(
+            canon,
+            f"has data beyond row {limits.rows:,}, over the limit of {limits.rows:,} rows",
+            "split the data into two workbooks or remove unused rows",
+        )
+    # Only rows up to the last value are parsed: a formula filled down to row 1,048,576
+    # with empty results, or formatting far below the table, costs no time here.
+    stop = limits.rows + 1 if last is None else max(last, 1)
     try:
-        for r, row in enumerate(ws.iter_rows(), start=1):
+        for r, row in enumerate(ws.iter_rows(max_row=stop), start=1):
             if r > limits.rows:
-                # Past the limit, only whether any value follows matters: the XML is searched
-                # for one rather than parsed row by row (a formula filled down to row
-                # 1,048,576 with empty results is no data, and would take minutes to parse).
-                beyond = _value_beyond(pre_data, part.member, limits.rows)
-                if beyond or (
-                    beyond is None and any(getattr(c, "value", None) is not None for c in row)
-                ):
+                if any(getattr(c, "value", None) is not None for c in row):
                     raise InputError.one(
                         canon,
                         f"has data beyond row {limits.rows:,}, over the limit of "
                         f"{limits.rows:,} rows",
                         "split the data into two workbooks or remove unused rows",
                     )
-                if beyond is False:
-                    break
                 continue
             if r in part.totals_rows:  # a spreadsheet table's totals row is no data
                 continue
