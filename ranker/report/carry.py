@@ -36,7 +36,7 @@ from openpyxl.worksheet.datavalidation import DataValidationList
 
 #: Most stored cells (``<c>`` elements, styled empty ones included) of all
 #: sheets together for which the input is loaded whole, formatting and all [-].
-FULL_COPY_CELLS = 400_000
+FULL_COPY_CELLS = 100_000
 #: Most stored cells of one sheet that is carried at all [-].
 SHEET_CELLS = 2_000_000
 #: The longest text a spreadsheet cell can hold [characters] (Microsoft,

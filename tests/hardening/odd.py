@@ -31,6 +31,8 @@ from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.datavalidation import DataValidation
 from openpyxl.worksheet.table import Table, TableStyleInfo
 
+from ranker.report import carry
+
 from ._cli import sibling
 
 _wbfill = sibling("workbook.wbfill")
@@ -81,12 +83,14 @@ CLASSES: dict[int, tuple[str, str]] = {
     ),
     5: (
         "Large and slow files within the limits",
-        "Only stored cells are read; nothing past the row limit is parsed (a formula filled "
-        "down to the last row with empty results is no data); formulas saved without a "
-        "value are found in the same pass over the XML. The input sheets are copied with "
-        "their formatting up to 400,000 stored cells in all, beyond that as values and "
-        "number formats streamed a row at a time (with a warning), and a sheet of more than "
-        "2,000,000 stored cells is left out of the results workbook with a warning. "
+        "Only stored cells are read, and only up to the last row that holds a value (found "
+        "by one search of the sheet's XML), so a formula filled down to the last row with "
+        "empty results, or formatting far below or to the right of the table, costs no "
+        "parsing; formulas saved without a value are found in the same search. The input "
+        f"sheets are copied with their formatting up to {carry.FULL_COPY_CELLS:,} stored "
+        "cells in all, beyond that as values and number formats streamed a row at a time "
+        f"(with a warning), and a sheet of more than {carry.SHEET_CELLS:,} stored cells is "
+        "left out of the results workbook with a warning (the input keeps it). "
         "`python bench/odd.py` measures this.",
     ),
     6: (
