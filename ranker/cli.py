@@ -202,6 +202,8 @@ def print_ranking(result, stream=None) -> None:
         print(f"warning: {w}", file=sys.stderr)
     print(f"Results workbook: {result.outputs['workbook']}", file=stream)
     print(f"Justification sheet: {result.outputs['html']}", file=stream)
+    if "geojson" in result.outputs:
+        print(f"Corridors for GIS (GeoJSON): {result.outputs['geojson']}", file=stream)
 
 
 def cmd_run(args) -> int:

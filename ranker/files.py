@@ -16,6 +16,8 @@ from .errors import InputError
 #: HTML) so that a later run knows it may replace the file.
 MARKER = "ranker-output"
 HTML_MARKER = f'<meta name="generator" content="{MARKER}">'
+#: The GeoJSON output's marker: the first member of its collection's properties.
+GEOJSON_MARKER = f'"generator": "{MARKER}"'
 
 
 def written_by_ranker(path: Path) -> bool:
@@ -24,6 +26,9 @@ def written_by_ranker(path: Path) -> bool:
         if path.suffix.lower() == ".html":
             with open(path, "rb") as f:
                 return HTML_MARKER.encode() in f.read(4096)
+        if path.suffix.lower() == ".geojson":
+            with open(path, "rb") as f:
+                return GEOJSON_MARKER.encode() in f.read(4096)
         with zipfile.ZipFile(path) as z:
             if "docProps/custom.xml" not in z.namelist():
                 return False

@@ -140,6 +140,10 @@ def rank_inputs(
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
 
+    from .geo.network import corridor_network, network_warnings
+
+    warnings.extend(network_warnings(corridor_network(inputs), inputs))
+
     return Result(
         inputs=inputs,
         assumptions=assumptions,

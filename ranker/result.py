@@ -117,6 +117,13 @@ class Result:
         order = np.lexsort((np.arange(len(table)), table["rank"].to_numpy()))
         return table.iloc[order]
 
+    @cached_property
+    def network(self):
+        """Positions of the corridors (:class:`ranker.geo.Network`), or None without any."""
+        from .geo import corridor_network
+
+        return corridor_network(self.inputs)
+
     def to_json(self) -> dict:
         """Return the JSON summary of the contract (plus added fields)."""
         from .report.summary import summary_json
