@@ -9,6 +9,7 @@ import jinja2
 
 from ..files import HTML_MARKER
 from . import charts, narrative
+from .map import map_context
 from .sheets import criterion_unit
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION
@@ -166,6 +167,7 @@ def build_html(result) -> str:
         "stakeholders": rob.stakeholders if rob is not None else None,
         "futures": result.futures,
         "plan": _plan_context(result),
+        "map": map_context(result),
         "criteria": [
             {
                 "key": c.key,
