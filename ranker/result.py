@@ -66,6 +66,11 @@ class Result:
         Monte Carlo settings used.
     started : str
         Start time, ISO 8601 in UTC.
+    changes : list of str
+        What changed since the last run, in plain sentences (empty without one).
+    change_record : dict
+        The same as data: ``previous`` (path or None), ``inputs``,
+        ``criteria``, ``moved`` (:func:`ranker.changes.compare`).
     """
 
     inputs: Inputs
@@ -90,6 +95,9 @@ class Result:
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
+    change_record: dict = field(
+        default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}
+    )
 
     @property
     def primary_method(self) -> str:

@@ -29,6 +29,10 @@ def has_samples(robustness) -> bool:
 
 def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
+    from ..changes import json_changes
+    from ..files import shown
+    from .narrative import assumptions_used
+
     s = result.scores
     rob = result.robustness
     acceptability = rob.acceptability if has_samples(rob) else None
@@ -53,7 +57,7 @@ def summary_json(result) -> dict:
     out = {
         "tool_version": result.tool_version,
         "input_sha256": result.inputs.sha256,
-        "input_file": result.inputs.path.name,
+        "input_file": shown(result.inputs.path.name),
         "weight_set": result.weight_set,
         "weights": {k: float(v) for k, v in result.weights.items()},
         "weight_overrides": dict(result.overrides),
@@ -95,6 +99,8 @@ def summary_json(result) -> dict:
         "warnings": list(result.warnings),
         "started": result.started,
         "changes_since_last_run": list(result.changes),
+        "changes": json_changes(result.change_record),
+        "assumptions": assumptions_used(result),
         "outputs": dict(result.outputs),
     }
     out = plain(out)

@@ -277,6 +277,15 @@ ASSUMPTION_FIELDS = (
         width=18,
     ),
     _f(
+        "default",
+        "",
+        "text",
+        False,
+        "The built-in default, used while value is blank (for reading; the tool reads "
+        "only the value column).",
+        width=16,
+    ),
+    _f(
         "unit",
         "",
         "text",
@@ -459,7 +468,7 @@ SHEETS: dict[str, SheetSchema] = {
         SheetSchema(
             _t.ASSUMPTIONS,
             False,
-            "Every model assumption with its default; change a value to use yours, "
+            "Every model assumption with its default beside it; type a value to use yours, "
             "leave it blank for the default.",
             ASSUMPTION_FIELDS,
         ),
