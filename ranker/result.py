@@ -66,6 +66,11 @@ class Result:
         Monte Carlo settings used.
     started : str
         Start time, ISO 8601 in UTC.
+    changes : list of str
+        What changed since the last run, in plain sentences (empty without one).
+    change_record : dict
+        The same as data: ``previous`` (path or None), ``inputs``,
+        ``criteria``, ``moved`` (:func:`ranker.changes.compare`).
     """
 
     inputs: Inputs
@@ -90,6 +95,9 @@ class Result:
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
+    change_record: dict = field(
+        default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}
+    )
 
     @property
     def primary_method(self) -> str:
@@ -98,8 +106,10 @@ class Result:
 
     @cached_property
     def ranking(self) -> pd.DataFrame:
-        """Kept corridors sorted by rank: rank, name, then one score column per method.
+        """Kept corridors sorted by rank: rank, name, tier, then score columns per method.
 
+        ``tier`` is 1 for the first tier (:mod:`ranker.stress.tiers`); without
+        a stress test (one corridor left) tiers follow exact ties of rank.
         Built once, on first use, for every writer that reads it; copy it
         before changing it.
         """
@@ -115,7 +125,15 @@ class Result:
             table[f"rank_{method}"] = s.ranks[method]
         table.index.name = "corridor_id"
         order = np.lexsort((np.arange(len(table)), table["rank"].to_numpy()))
-        return table.iloc[order]
+        table = table.iloc[order]
+        tier = getattr(self.robustness, "tier", None)
+        if tier is not None and len(tier):
+            column = tier.reindex(table.index).to_numpy()
+        else:
+            ranks = table["rank"].to_numpy()
+            column = np.concatenate([[1], 1 + np.cumsum(ranks[1:] > ranks[:-1])])[: len(ranks)]
+        table.insert(2, "tier", column.astype(int))
+        return table
 
     @cached_property
     def network(self):

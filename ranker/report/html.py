@@ -192,7 +192,28 @@ def build_html(result) -> str:
             for e in result.excluded
         ],
     }
+    context["since_last_run"] = _since_last_run(result)
     return _environment().get_template("sheet.html.j2").render(**context)
+
+
+#: Lines of each part of "what changed" on the justification sheet; the workbook has all.
+CHANGE_LINES = 40
+
+
+def _since_last_run(result) -> dict | None:
+    """The "what changed since the last run" block: three lists of sentences, or None."""
+    from ..changes import describe
+
+    record = result.change_record
+    if not record.get("previous"):
+        return None
+    parts = {}
+    for part in ("inputs", "criteria", "moved"):
+        only = {"previous": record["previous"], **{k: [] for k in ("inputs", "criteria", "moved")}}
+        only[part] = record.get(part, [])
+        lines = describe(only, limit=CHANGE_LINES) if only[part] else []
+        parts[part] = [x for x in lines if not x.startswith(("No corridor", "Nothing changed"))]
+    return {"previous": record["previous"], **parts}
 
 
 def _close_calls(result) -> dict:

@@ -159,26 +159,87 @@ def method_labels(methods) -> dict:
 
 
 def assumptions_used(result) -> list[dict]:
-    """Every assumption with the value used, its unit, note and whether the workbook set it."""
+    """Every assumption with the value used, whether it is the default, and the default.
+
+    ``set_by`` is ``"default"`` where the value cell was blank or holds the
+    default itself, ``"changed"`` where the planner typed another value;
+    ``default`` holds the default beside a changed value (empty otherwise).
+    ``note`` describes the default and its source, so it is labelled that
+    way beside a changed value.
+    """
     from ..assumptions import ASSUMPTIONS
+
+    def plain(value):
+        if isinstance(value, tuple):
+            return ", ".join(value)
+        if isinstance(value, bool):
+            return "yes" if value else "no"
+        return value
 
     given = set(result.inputs.assumptions)
     rows = []
     for k, a in ASSUMPTIONS.items():
         if k not in result.assumptions:
             continue
-        value = result.assumptions[k]
-        if isinstance(value, tuple):
-            value = ", ".join(value)
-        elif isinstance(value, bool):
-            value = "yes" if value else "no"
+        value = plain(result.assumptions[k])
+        default = plain(a.default)
+        changed = k in given and value != default
         rows.append(
             {
                 "key": k,
                 "value": value,
                 "unit": a.unit,
-                "set_by": "workbook" if k in given else "default",
-                "note": a.note,
+                "set_by": "changed" if changed else "default",
+                "default": default if changed else "",
+                "note": f"The default ({default}): {a.note}" if changed else a.note,
             }
         )
     return rows
+
+
+def tier_rule(result) -> str:
+    """Say how the tiers were cut, with the share and the samples behind them."""
+    rob = result.robustness
+    t = getattr(rob, "tiers", None)
+    if t is None or not t.samples:
+        return (
+            "The order was not tested against uncertainty (no Monte Carlo samples): "
+            "tiers only group corridors with equal scores."
+        )
+    return (
+        f"Tiers: every corridor of a higher tier ranks above every corridor of a lower "
+        f"tier in at least {t.confidence:.0%} of {t.samples:,} samples (weights"
+        + (" and values" if _values_shaken(result) else "")
+        + " shaken); inside a tier the order is not settled by the evidence."
+    )
+
+
+def _values_shaken(result) -> bool:
+    return any(c.uncertainty_pct for c in result.criteria)
+
+
+def tier_groups(result) -> list[dict]:
+    """Each tier with its corridors in order: ``{"tier", "ids", "names"}``."""
+    ranking = result.ranking
+    out: list[dict] = []
+    for cid, row in ranking.iterrows():
+        tier = int(row["tier"])
+        if not out or out[-1]["tier"] != tier:
+            out.append({"tier": tier, "ids": [], "names": []})
+        out[-1]["ids"].append(str(cid))
+        out[-1]["names"].append(str(row["name"]))
+    return out
+
+
+def pairwise_note(result) -> str:
+    """Explain the pairwise winning matrix as the workbook shows it."""
+    rob = result.robustness
+    t = getattr(rob, "tiers", None)
+    shown = 0 if rob is None or rob.pairwise_wins is None else rob.pairwise_wins.shape[0]
+    text = (
+        "Row corridor ranks above column corridor in this share of the samples "
+        "(pairwise winning share)."
+    )
+    if t is not None and shown < len(result.ranking):
+        text += f" First {shown} corridors of the order; tiers cover every corridor."
+    return text

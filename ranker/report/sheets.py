@@ -9,6 +9,7 @@ from __future__ import annotations
 import pandas as pd
 from openpyxl.utils import get_column_letter
 
+from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
 from .narrative import assumptions_used, consistency_text
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
@@ -20,13 +21,20 @@ def chart_height(bars: int) -> float:
     return min(24.0, 3.0 + 0.55 * bars)
 
 
+def tiers_sheet(writer, result) -> None:
+    """The Tiers sheet (:mod:`ranker.report.tiers_sheet`)."""
+    from .tiers_sheet import tiers_sheet as write
+
+    write(writer, result)
+
+
 def criterion_unit(key: str) -> str:
     """Return the unit of a criterion for headers ("" where unknown)."""
     return BUILTIN_CRITERIA[key].unit if key in BUILTIN_CRITERIA else ""
 
 
 def ranking_sheet(writer, result) -> None:
-    """Rank, corridor, scores and ranks per method, first-rank acceptability, flags."""
+    """Rank, corridor, tier, scores and ranks per method, first-rank acceptability, flags."""
     ws = writer.sheet("Ranking", "Corridor ranking", CAUTION)
     table = result.ranking.copy()
     rob = result.robustness
@@ -36,12 +44,6 @@ def ranking_sheet(writer, result) -> None:
     for group in result.scores.ties:
         for cid in group:
             flags[cid].append("tied")
-    if rob is not None and len(rob.closeness) and "practically_tied" in rob.closeness:
-        for _, row in rob.closeness.iterrows():
-            if row.get("practically_tied"):
-                for cid in (row.get("corridor_id"), row.get("next_id")):
-                    if cid in flags:
-                        flags[cid].append("practically tied with neighbour")
     table["flags"] = [", ".join(dict.fromkeys(flags[c])) for c in table.index]
     units = {c: "[-]" for c in table.columns if c.startswith("score_")}
     units["first_rank_acceptability"] = "[-]"
@@ -356,7 +358,7 @@ def run_info_sheet(writer, result) -> None:
     ws = writer.sheet("Run info", "Run information")
     info = [
         ("tool", f"ranker {result.tool_version}"),
-        ("input file", result.inputs.path.name),
+        ("input file", shown(result.inputs.path.name)),
         ("input SHA-256", result.inputs.sha256),
         ("run started (UTC)", result.started),
         ("weight set", result.weight_set),
@@ -384,10 +386,49 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 1, w)
     row = row + 2 + max(1, len(result.warnings))
     put(ws, row, 1, "Assumptions used").font = HEADER_FONT
-    table = pd.DataFrame(assumptions_used(result)).rename(columns={"set_by": "set by"})
+    table = pd.DataFrame(assumptions_used(result)).rename(
+        columns={"set_by": "default or changed", "note": "meaning and source of the default"}
+    )
     writer.table(ws, table, top=row + 1, name="assumptions_used")
     ws.column_dimensions["A"].width = 26
     ws.column_dimensions["B"].width = 70
+
+
+def contents_sheet(writer, result) -> None:
+    """The first result sheet: a link to every result sheet and what each holds.
+
+    Written after the others (it lists them), then moved in front of them.
+    """
+    from openpyxl.worksheet.hyperlink import Hyperlink
+
+    listed = list(writer.names)
+    ws = writer.sheet("Contents", "Contents: the result sheets of this run", CAUTION)
+    put(ws, 4, 1, "sheet").font = HEADER_FONT
+    put(ws, 4, 2, "what it holds").font = HEADER_FONT
+    for i, name in enumerate(listed, start=5):
+        cell = put(ws, i, 1, name)
+        cell.hyperlink = Hyperlink(ref=cell.coordinate, location=f"'{name}'!A1", display=name)
+        cell.style = "Hyperlink"
+        put(ws, i, 2, writer.titles.get(name, ""))
+    row = 5 + len(listed) + 1
+    ours = set(listed) | {ws.title}
+    kept = [n for n in writer.wb.sheetnames if n not in ours and not n.startswith("ranker_")]
+    put(
+        ws,
+        row,
+        1,
+        "Your sheets come first, as you left them: "
+        + (", ".join(kept) or "none")
+        + ". Edit them and run this workbook again to refresh these result sheets.",
+    )
+    ws.freeze_panes = "A5"
+    ws.column_dimensions["A"].width = 24
+    ws.column_dimensions["B"].width = 90
+    wb = writer.wb
+    if listed:
+        wb.move_sheet(ws, offset=wb.index(wb[listed[0]]) - wb.index(ws))
+    writer.names.remove(ws.title)
+    writer.names.insert(0, ws.title)
 
 
 #: Result sheets in the order they are written.
@@ -399,9 +440,10 @@ WRITERS = [
     methods_sheet,
     sizing_sheet,
     robustness_sheet,
+    tiers_sheet,
     more_robustness_sheet,
     plan_sheet,
     run_info_sheet,
 ]
 
-__all__ = ["WRITERS", "criterion_unit"]
+__all__ = ["WRITERS", "contents_sheet", "criterion_unit"]

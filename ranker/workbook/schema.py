@@ -14,8 +14,9 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
+from ranker.builtin import BUILTIN_CRITERIA
+from ranker.constants import KM_PER_MI, M_PER_FT
 from ranker.workbook import tables as _t
-from ranker.workbook.units import KM_PER_MI, M_PER_FT
 
 #: Name of the instructions sheet the template writes first.
 INSTRUCTIONS = "How to fill in"
@@ -99,8 +100,6 @@ class SheetSchema:
         Columns in template order (empty for the ``Pairwise`` matrix).
     layout : str
         ``"table"`` (header row 1, one record a row) or ``"matrix"``.
-    key_field : str
-        Field naming each row uniquely (``""`` for list sheets).
     """
 
     name: str
@@ -108,7 +107,6 @@ class SheetSchema:
     purpose: str
     fields: tuple[Field, ...]
     layout: str = "table"
-    key_field: str = ""
 
     def field(self, key: str) -> Field:
         """Return the field with canonical key ``key``."""
@@ -277,6 +275,15 @@ ASSUMPTION_FIELDS = (
         False,
         "Your value, in the unit of the next column. Leave blank to use the built-in default.",
         width=18,
+    ),
+    _f(
+        "default",
+        "",
+        "text",
+        False,
+        "The built-in default, used while value is blank (for reading; the tool reads "
+        "only the value column).",
+        width=16,
     ),
     _f(
         "unit",
@@ -523,14 +530,12 @@ SHEETS: dict[str, SheetSchema] = {
             "One row per corridor: its code, name and the facts the built-in criteria "
             "are derived from. Any further numeric column may serve as a criterion.",
             CORRIDOR_FIELDS,
-            key_field="corridor_id",
         ),
         SheetSchema(
             _t.JURISDICTIONS,
             False,
             "One row per jurisdiction with its policy readiness (needed for policy_readiness).",
             JURISDICTION_FIELDS,
-            key_field="jurisdiction",
         ),
         SheetSchema(
             _t.CORRIDOR_MILES,
@@ -542,10 +547,9 @@ SHEETS: dict[str, SheetSchema] = {
         SheetSchema(
             _t.ASSUMPTIONS,
             False,
-            "Every model assumption with its default; change a value to use yours, "
+            "Every model assumption with its default beside it; type a value to use yours, "
             "leave it blank for the default.",
             ASSUMPTION_FIELDS,
-            key_field="key",
         ),
         SheetSchema(
             _t.CRITERIA,
@@ -553,7 +557,6 @@ SHEETS: dict[str, SheetSchema] = {
             "Which criteria take part, whether more is better (benefit) or less "
             "(cost), and one column per weight set.",
             CRITERIA_FIELDS,
-            key_field="criterion",
         ),
         SheetSchema(
             _t.ADOPTION,
@@ -600,73 +603,6 @@ SHEETS: dict[str, SheetSchema] = {
     )
 }
 
-
-@dataclass(frozen=True)
-class BuiltinCriterion:
-    """A criterion the tool can derive.
-
-    Attributes
-    ----------
-    key : str
-        Criterion key.
-    direction : str
-        Usual direction.
-    label : str
-        Default label.
-    unit : str
-        Unit of the criterion's values.
-    meaning : str
-        One line for notes and docs.
-    """
-
-    key: str
-    direction: str
-    label: str
-    unit: str
-    meaning: str
-
-
-#: The five built-in criteria, in template order.
-BUILTIN_CRITERIA: dict[str, BuiltinCriterion] = {
-    c.key: c
-    for c in (
-        BuiltinCriterion(
-            "policy_readiness",
-            "benefit",
-            "Policy readiness",
-            "[0-100]",
-            "Mileage-weighted mean readiness of the jurisdictions along the corridor.",
-        ),
-        BuiltinCriterion(
-            "capital_cost",
-            "cost",
-            "Capital cost",
-            "[USD]",
-            "Charging ports, sites, and grid upgrade where the new peak exceeds headroom.",
-        ),
-        BuiltinCriterion(
-            "charging_revenue",
-            "benefit",
-            "Charging revenue",
-            "[USD]",
-            "Net present value of the charging margin over the horizon.",
-        ),
-        BuiltinCriterion(
-            "grid_headroom",
-            "benefit",
-            "Grid headroom",
-            "[-]",
-            "Headroom divided by the corridor's new peak charging load (1 = just fits).",
-        ),
-        BuiltinCriterion(
-            "terrain_penalty",
-            "cost",
-            "Terrain penalty",
-            "[-]",
-            "Extra traction energy from climbing, as a fraction of flat-road energy.",
-        ),
-    )
-}
 
 #: Canonical field key to unit, for every numeric field of every sheet and
 #: every built-in criterion (for outputs: ``FIELD_UNITS["length_mi"] == "[mi]"``).
