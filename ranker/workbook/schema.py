@@ -591,7 +591,6 @@ SHEETS: dict[str, SheetSchema] = {
             "Where the places named in connects lie (latitude and longitude, WGS 84); "
             "yields the network map and a GeoJSON file of the results.",
             PLACE_FIELDS,
-            key_field="place",
         ),
         SheetSchema(
             _t.GEOMETRY,
