@@ -11,6 +11,7 @@ from openpyxl.utils import get_column_letter
 
 from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
+from .live_sheet import live_sheet
 from .narrative import assumptions_used, consistency_text
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
@@ -437,6 +438,7 @@ WRITERS = [
     criteria_sheet,
     normalised_sheet,
     weights_sheet,
+    live_sheet,
     methods_sheet,
     sizing_sheet,
     robustness_sheet,
