@@ -323,6 +323,29 @@ def more_robustness_sheet(writer, result) -> None:
         writer.table(ws2, table, top=4, index_label="corridor_id", name="futures")
 
 
+def budget_sentence(plan) -> str:
+    """Say how far the first year's money goes and how many years the plan spans."""
+    greedy = plan.greedy
+    first = float(plan.budget["capital_usd"].iloc[0])
+    costs = greedy["capital_usd"].astype(float).cumsum()
+    fits = int((costs <= first + 1e-6).sum())
+    funded = greedy["year_funded"].dropna()
+    years = sorted({int(y) for y in funded})
+    span = f"{years[0]} to {years[-1]}" if years else "no year"
+    left = int(greedy["year_funded"].isna().sum())
+    return (
+        f"The first year's {first / 1e6:,.1f} million USD pays for the first {fits} of "
+        f"{len(greedy)} corridors by rank (together "
+        f"{float(greedy['capital_usd'].sum()) / 1e6:,.1f} million USD); the greedy plan funds "
+        f"corridors from {span}"
+        + (
+            f", and {left} {'stays' if left == 1 else 'stay'} unfunded within the budget."
+            if left
+            else "."
+        )
+    )
+
+
 def plan_sheet(writer, result) -> None:
     """Phased build plan: year by corridor, spend, remaining budget."""
     plan = result.plan
@@ -336,7 +359,8 @@ def plan_sheet(writer, result) -> None:
     )
     put(ws, bottom + 2, 1, "Spend by year and corridor").font = HEADER_FONT
     _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
-    lines = [f"Optimality gap of the optimised plan: {plan.gap:.2%}."] + list(plan.differences)
+    lines = [budget_sentence(plan), f"Optimality gap of the optimised plan: {plan.gap:.2%}."]
+    lines += list(plan.differences)
     if plan.coverage and plan.coverage.get("sentence"):
         lines.append(plan.coverage["sentence"])
     lines += [f"warning: {w}" for w in plan.warnings]
