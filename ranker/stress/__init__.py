@@ -305,9 +305,12 @@ def _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer):
             identical.update(frozenset((a, b)) for a in members for b in members if a < b)
     better = np.where(scorer.is_benefit, 1.0, -1.0)
     y = x * better
-    for i in range(n):
-        others = np.delete(np.arange(n), i)
-        if n > 1 and np.all(y[i] >= y[others]) and np.all((y[i] > y[others]).any(axis=1)):
+    # Corridor i dominates every other one when it is at least as good on every
+    # criterion (so it holds every column's best value) and strictly better
+    # somewhere than each other (so no other corridor equals it everywhere).
+    best = np.nonzero((y == y.max(axis=0)).all(axis=1))[0] if n > 1 else []
+    for i in best:
+        if (y == y[i]).all(axis=1).sum() == 1:
             warns.append(
                 f"{namer.corridor(ids[i], start=True)} is at least as good as every "
                 "other corridor on every criterion: it dominates them, and sound "
@@ -476,8 +479,11 @@ def stress_test(
         )
         done = samples
         warns.extend(acc.notes)
-        acceptability = pd.DataFrame(
-            acc.acceptability, index=index, columns=[f"rank {r}" for r in range(1, n + 1)]
+        acceptability = pd.DataFrame(  # no copy: (n x n) is 800 MB at 10,000 corridors
+            acc.acceptability,
+            index=index,
+            columns=[f"rank {r}" for r in range(1, n + 1)],
+            copy=False,
         )
         first = pd.Series(acc.first_rank, index=index, name="first_rank")
         central = pd.DataFrame(acc.central_weights, index=index, columns=keys)
