@@ -159,7 +159,10 @@ def weights_sheet(writer, result) -> None:
             put(ws, row + i, 1 + j, v)
     if result.overrides:
         row += len(result.weight_sets) + 2
-        put(ws, row, 1, "Overrides on the command line (--weight)").font = HEADER_FONT
+        put(
+            ws, row, 1, "Final shares set on the command line (--weight KEY=SHARE) [%]"
+        ).font = HEADER_FONT
+        put(ws, row, 2, "the other criteria kept their proportions; see used [-] above")
         for i, (k, v) in enumerate(result.overrides.items(), start=1):
             put(ws, row + i, 1, k)
             put(ws, row + i, 2, v)
@@ -389,7 +392,7 @@ def run_info_sheet(writer, result) -> None:
         ("weight set", result.weight_set),
         (
             "weight overrides",
-            ", ".join(f"{k}={v:g}" for k, v in result.overrides.items()) or "none",
+            ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items()) or "none",
         ),
         ("primary method", result.primary_method),
         ("methods", ", ".join(result.scores.scores.columns)),
