@@ -174,6 +174,7 @@ def build_html(result) -> str:
                 "unit": criterion_unit(c.key),
                 "source": result.provenance.get(c.key, "given"),
                 "weight": result.weights.get(c.key, 0.0),
+                "weight_note": result.weight_notes().get(c.key, ""),
             }
             for c in result.criteria
         ],

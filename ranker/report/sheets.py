@@ -135,6 +135,10 @@ def weights_sheet(writer, result) -> None:
     frame = pd.DataFrame(index=pd.Index(keys, name="criterion"))
     frame["label"] = [c.label for c in result.criteria]
     frame["used [-]"] = [result.weights.get(k, 0.0) for k in keys]
+    notes = result.weight_notes()
+    if any(notes.values()):
+        frame["chosen [-]"] = [result.chosen_weights.get(k, 0.0) for k in keys]
+        frame["why they differ"] = [notes.get(k, "") for k in keys]
     for w in result.weight_sets:
         frame[f"{w.name} [-]"] = [w.weights.get(k, float("nan")) for k in keys]
         if w.how == "points" or "rank" in w.how:

@@ -80,6 +80,8 @@ def summary_json(result) -> dict:
         "input_file": result.inputs.path.name,
         "weight_set": result.weight_set,
         "weights": {k: float(v) for k, v in result.weights.items()},
+        "weights_chosen": {k: float(v) for k, v in result.chosen_weights.items()},
+        "weight_notes": {k: v for k, v in result.weight_notes().items() if v},
         "weight_overrides": dict(result.overrides),
         "primary_method": result.primary_method,
         "methods": {
