@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from .summary import has_samples
+from ..stress.words import listing, share_text
 
 
 def certainty_word(share: float) -> str:
@@ -24,35 +24,112 @@ def certainty_word(share: float) -> str:
 
 
 def recommendation(result) -> list[str]:
-    """Return the two-sentence recommendation for the decision summary."""
-    ranking = result.ranking
-    names = ranking["name"].astype(str).tolist()
-    top = names[0]
-    first = ranking.index[0]
-    s1 = f"Fund {top} first"
-    if len(names) > 1:
-        s1 += f", then {names[1]}" + (f" and {names[2]}" if len(names) > 2 else "")
-    label = method_labels([result.primary_method])[result.primary_method]
-    s1 += f" ({label}, weight set '{result.weight_set}')."
+    """Return the decision summary: the order by tiers, how sure, the nearest change.
+
+    Every statement quotes the share of samples behind it (see
+    :mod:`ranker.stress.tiers`); without samples it says the order was not
+    tested against uncertainty.
+    """
+    groups = tier_groups(result)
     rob = result.robustness
-    if has_samples(rob):
-        share = float(rob.first_rank.get(first, 0.0))
-        s2 = (
-            f"{top} ranks first in {share:.0%} of {rob.samples:,} weight samples around these "
-            f"weights, so it is {certainty_word(share)} the best choice"
-        )
-        others = rob.first_rank.drop(first, errors="ignore")
-        if len(others) and others.max() > 0.05:
-            rival = others.idxmax()
-            s2 += (
-                f"; {result.inputs.corridors.at[rival, 'name']} is its nearest rival "
-                f"({others.max():.0%})."
-            )
-        else:
-            s2 += "."
+    t = getattr(rob, "tiers", None)
+    sampled = t is not None and t.samples > 0
+    label = method_labels([result.primary_method])[result.primary_method]
+    out = []
+    first = groups[0]
+    if len(first["names"]) == 1:
+        out.append(f"Fund first: {first['names'][0]}.")
     else:
-        s2 = "No Monte Carlo analysis was run, so how sure the order is was not measured."
-    return [s1, s2]
+        unsettled = "the evidence does not settle" if sampled else "equal scores leave open"
+        out.append(f"Fund first, in an order {unsettled}: {listing(first['names'])}.")
+    if len(groups) > 1:
+        nxt = groups[1]
+        if len(nxt["names"]) == 1:
+            out.append(f"Next: {nxt['names'][0]}.")
+        else:
+            out.append(
+                f"Next, in an order the evidence does not settle: {listing(nxt['names'])}."
+                if sampled
+                else f"Next, with equal scores: {listing(nxt['names'])}."
+            )
+    out[0] = out[0][:-1] + f" ({label}, weight set '{result.weight_set}')."
+    if sampled:
+        out.append(how_sure(result, groups))
+    else:
+        out.append(
+            "The order was not tested against uncertainty (no Monte Carlo samples), so how "
+            "sure it is was not measured."
+        )
+    change = nearest_change(result)
+    if change:
+        out.append(change)
+    return out
+
+
+def how_sure(result, groups=None) -> str:
+    """Quote the shares behind the first tier and, inside the next, the closest pair."""
+    groups = groups or tier_groups(result)
+    rob = result.robustness
+    t = rob.tiers
+    size = len(groups[0]["ids"])
+    text = ""
+    if len(groups) > 1:
+        share = float(t.cut_share[size - 1])
+        who = groups[0]["names"][0] if size == 1 else f"Each of these {size}"
+        text = (
+            f"{who} ranks above every corridor outside the first tier in at least "
+            f"{share_text(share)} of {t.samples:,} samples"
+        )
+    else:
+        text = f"No corridor is set apart from the rest in {t.samples:,} samples"
+    inside = _closest_inside(result, groups[1] if len(groups) > 1 else groups[0])
+    if inside:
+        text += f"; {inside}"
+    return text + "."
+
+
+def _closest_inside(result, group) -> str:
+    """The closest neighbouring pair inside a tier, with its share ("" when none)."""
+    if len(group["ids"]) < 2:
+        return ""
+    t = result.robustness.tiers
+    position = {cid: p for p, cid in enumerate(result.ranking.index)}
+    pairs = [(position[a], a, b) for a, b in zip(group["ids"], group["ids"][1:], strict=False)]
+    p, a, b = min(pairs, key=lambda q: t.neighbour_wins[q[0]])
+    names = result.ranking["name"].astype(str)
+    return (
+        f"inside tier {group['tier']}, {names[a]} ranks above {names[b]} in only "
+        f"{share_text(float(t.neighbour_wins[p]))} of samples"
+    )
+
+
+def nearest_change(result) -> str:
+    """Name the smallest one-weight change that alters the first tier ("" when none)."""
+    rob = result.robustness
+    change = getattr(rob, "first_tier_change", None)
+    if not change:
+        if rob is not None and len(tier_groups(result)) > 1:
+            return "No single weight change from 0 to 1 alters the first tier."
+        return ""
+    labels = {c.key: c.label for c in result.criteria}
+    names = result.ranking["name"].astype(str)
+    moved = "rose" if change["direction"] == "above" else "fell"
+    points = 100 * change["distance"]
+    entering = listing([names.get(c, c) for c in change["entering"]])
+    leaving = listing([names.get(c, c) for c in change["leaving"]])
+    return (
+        f"The nearest change that would alter the first tier: if the weight on "
+        f"{labels.get(change['criterion'], change['criterion'])} {moved} from "
+        f"{100 * change['current']:.1f}% to {100 * change['weight_at']:.1f}% of the total "
+        f"({points:.1f} points), " + _swap_words(entering, leaving, len(change["leaving"]), result)
+    )
+
+
+def _swap_words(entering: str, leaving: str, count: int, result) -> str:
+    size = len(tier_groups(result)[0]["ids"])
+    if size == 1:
+        return f"{entering} would take first place from {leaving}."
+    return f"{entering} would rank among the first {size} in place of {leaving}."
 
 
 def agreement_sentence(result) -> str:
