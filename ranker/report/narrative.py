@@ -213,7 +213,11 @@ def consistency_text(c: dict | None) -> str:
 
     def num(key):
         v = c.get(key)
-        return "n/a" if v is None else f"{v:.4f}"
+        if v is None:
+            return "n/a"
+        # CI and CR are never below 0 (lambda_max >= n, Saaty 1980); a tiny
+        # negative is rounding in the eigenvalue, printed as 0.
+        return f"{0.0 if abs(v) < 5e-5 else v:.4f}"
 
     text = f"lambda_max {num('lambda_max')}, CI {num('ci')}, CR {num('cr')}"
     cr = c.get("cr")
