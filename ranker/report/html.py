@@ -35,7 +35,6 @@ def _environment() -> jinja2.Environment:
 def _cards(result, shown) -> list[dict]:
     d = result.derivation
     rob = result.robustness
-    tips = rob.tipping_points if rob is not None else []
     cards = []
     for cid, row in result.ranking.loc[shown].iterrows():
         strong, weak = narrative.strongest_weakest(result, cid)
@@ -55,10 +54,7 @@ def _cards(result, shown) -> list[dict]:
                     facts.append(
                         (label, narrative.fmt(s[key]) if key != "governing_rule" else s[key])
                     )
-        mine = [t for t in tips if cid in (t.get("corridor_id"), t.get("other_id"))]
-        # the nearest tipping points first: those are where the argument is
-        mine.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
-        changes = [t["sentence"] for t in mine[:4]]
+        changes = narrative.card_tips(result, cid)
         cards.append(
             {
                 "id": cid,

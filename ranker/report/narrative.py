@@ -311,3 +311,82 @@ def pairwise_note(result) -> str:
     if t is not None and shown < len(result.ranking):
         text += f" First {shown} corridors of the order; tiers cover every corridor."
     return text
+
+
+def _namer(result):
+    from ..stress.words import Namer
+
+    return Namer(
+        result.inputs.corridors["name"].astype(str).to_dict(),
+        {c.key: c.label for c in result.criteria},
+    )
+
+
+def tipping_sentence(record: dict, namer) -> str:
+    """Say one tipping point: the corridor actually passed at that weight and the ranks there.
+
+    Parameters
+    ----------
+    record : dict
+        A record of :func:`ranker.stress.tipping.tipping_records`.
+    namer : Namer
+        Corridor names and criterion labels.
+    """
+    from ..stress.words import ordinal, weight_text
+
+    label = namer.criterion(record["criterion"])
+    now = weight_text(record["current_weight"])
+    at = weight_text(record["weight_at"], record["current_weight"])
+    moves = "rises above" if record["direction"] == "above" else "falls below"
+    when = f"If the weight on {label} {moves} {at} (it is {now} now), "
+    who = namer.corridor(record["corridor_id"])
+    other = namer.corridor(record["other_id"])
+    if record["kind"] == "top":
+        return when + f"{other} takes first place from {who}."
+    r, after = int(record["rank_before"]), int(record["rank_after"])
+    o_now = int(record.get("other_rank_before", 0))
+    o_after = int(record.get("other_rank_after", 0))
+    verb = "moves up" if after < r else "drops"
+    link = "passing" if after < r else "behind"
+    text = when + f"{who} {verb} from {ordinal(r)} to {ordinal(after)}, {link} {other}"
+    if o_now and o_after and o_now != (r - 1 if after < r else r + 1):
+        # Someone else crossed first: say where the passed corridor stands.
+        text += f" ({ordinal(o_now)} now, {ordinal(o_after)} at that weight)"
+    return text + "."
+
+
+#: Most tipping sentences on one corridor's card.
+CARD_TIPS = 3
+
+
+def card_tips(result, cid) -> list[str]:
+    """At most :data:`CARD_TIPS` tipping sentences for a corridor, nearest first, none alike.
+
+    Nearest by the weight change needed; one per criterion and direction
+    (a second crossing further along the same sweep says nothing new).
+    """
+    rob = result.robustness
+    if rob is None:
+        return []
+    mine = [t for t in rob.tipping_points if cid in (t.get("corridor_id"), t.get("other_id"))]
+    mine.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
+    namer = _namer(result)
+    out, seen = [], set()
+    for t in mine:
+        key = (t["criterion"], t["direction"])
+        if key in seen:
+            continue
+        seen.add(key)
+        out.append(tipping_sentence(t, namer))
+        if len(out) == CARD_TIPS:
+            break
+    return out
+
+
+def tipping_sentences(result) -> list[str]:
+    """Every tipping point of the run in words, in the order of the records."""
+    rob = result.robustness
+    if rob is None:
+        return []
+    namer = _namer(result)
+    return [tipping_sentence(t, namer) for t in rob.tipping_points]

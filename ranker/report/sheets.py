@@ -10,7 +10,7 @@ import pandas as pd
 from openpyxl.utils import get_column_letter
 
 from ..workbook.schema import BUILTIN_CRITERIA
-from .narrative import assumptions_used, consistency_text
+from .narrative import assumptions_used, consistency_text, tipping_sentences
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
@@ -261,6 +261,8 @@ def robustness_sheet(writer, result) -> None:
         row += 2
     put(ws, row, 1, "Weight tipping points").font = HEADER_FONT
     tips = pd.DataFrame(rob.tipping_points)
+    if len(tips):
+        tips["sentence"] = tipping_sentences(result)
     if len(tips):
         _, _, row, _ = writer.table(ws, tips, top=row + 1, name="tipping")
     else:

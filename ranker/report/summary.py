@@ -70,8 +70,14 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
+        from .narrative import tipping_sentences
+
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
+        for record, sentence in zip(
+            robustness["tipping_points"], tipping_sentences(result), strict=True
+        ):
+            record["sentence"] = sentence
     else:
         robustness.update({"rank_reversal": [], "tipping_points": []})
     out = {
