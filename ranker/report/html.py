@@ -60,6 +60,7 @@ def _cards(result, shown) -> list[dict]:
                 "id": cid,
                 "name": row["name"],
                 "rank": int(row["rank"]),
+                "tier": int(row["tier"]),
                 "score": float(row[f"score_{result.primary_method}"]),
                 "first": float(rob.first_rank.get(cid, 0.0)) if has_samples(rob) else None,
                 "strong": strong,
@@ -120,7 +121,6 @@ def build_html(result) -> str:
     primary = result.primary_method
     others = [m for m in methods if m != primary]
     first = rob.first_rank if has_samples(rob) else None
-    close = _close_calls(result)
     rows = []
     for cid, r in full.iterrows():
         rows.append(
@@ -133,17 +133,9 @@ def build_html(result) -> str:
                 "scores": [float(r[f"score_{m}"]) for m in methods],
                 "ranks": [int(r[f"rank_{m}"]) for m in methods],
                 "first": float(first.get(cid, 0.0)) if first is not None else None,
-                "close": close.get(cid, ""),
+                "tier": int(r["tier"]),
             }
         )
-    tied = sum(1 for v in close.values() if v)
-    close_note = (
-        '"Close call" marks a corridor whose score gap to the next one is smaller than what '
-        "the stated weight and data uncertainty can move (see the robustness sheet); treat such "
-        "neighbours as equal."
-        if tied
-        else "No neighbouring pair is practically tied."
-    )
     context = {
         "marker": HTML_MARKER,
         "r": result,
@@ -152,8 +144,12 @@ def build_html(result) -> str:
         "primary": primary,
         "others": others,
         "labels": narrative.method_labels(methods),
-        "close_note": close_note,
         "recommendation": narrative.recommendation(result),
+        "brief": _brief(result),
+        # Slot for a map on the brief (SVG text, drawn where it fits); "" = none.
+        "brief_map": "",
+        "changed": [a for a in assumptions if a["changed"]],
+        "defaults": [a for a in assumptions if not a["changed"]],
         "agreement": narrative.agreement_sentence(result),
         "reversal": narrative.reversal_sentences(result),
         "figures": figures,
@@ -190,19 +186,35 @@ def build_html(result) -> str:
     return _environment().get_template("sheet.html.j2").render(**context)
 
 
-def _close_calls(result) -> dict:
-    """Corridor id to "practically tied with <next>" for adjacent close pairs."""
-    rob = result.robustness
-    if rob is None or not len(rob.closeness):
-        return {}
-    names = result.inputs.corridors["name"].astype(str)
-    out: dict = {}
-    for rec in rob.closeness.to_dict(orient="records"):
-        if rec.get("practically_tied"):
-            out[rec["corridor_id"]] = (
-                f"tied with next ({names.get(rec['next_id'], rec['next_id'])})"
-            )
-    return out
+#: Tiers listed on the brief; later ones are counted, and listed in the appendix.
+BRIEF_TIERS = 4
+#: Corridors named per tier on the brief.
+BRIEF_NAMES = 8
+
+
+def _brief(result) -> dict:
+    """Numbers and lines of the one-page board brief."""
+    groups = narrative.tier_groups(result)
+    shown = []
+    for g in groups[:BRIEF_TIERS]:
+        names = g["names"][:BRIEF_NAMES]
+        if len(g["names"]) > BRIEF_NAMES:
+            names = [*names, f"and {len(g['names']) - BRIEF_NAMES} more"]
+        shown.append({"tier": g["tier"], "names": names})
+    rest = groups[BRIEF_TIERS:]
+    more = (
+        f"{sum(len(g['ids']) for g in rest)} more corridors in {len(rest)} further tiers "
+        "(appendix A)."
+        if rest
+        else ""
+    )
+    return {
+        "tiers": shown,
+        "more": more,
+        "rule": narrative.tier_rule(result),
+        "funded": narrative.funded_by_year(result),
+        "provenance": narrative.provenance_line(result),
+    }
 
 
 def _plan_context(result) -> dict | None:

@@ -240,15 +240,18 @@ def method_labels(methods) -> dict:
 
 
 def assumptions_used(result) -> list[dict]:
-    """Every assumption with the value used, its unit, note and whether the workbook set it."""
-    from ..assumptions import ASSUMPTIONS
+    """Every assumption with the value used, its unit, note, whether the workbook set it
+    and whether the value differs from the default (``changed``)."""
+    from ..assumptions import ASSUMPTIONS, resolve
 
     given = set(result.inputs.assumptions)
+    defaults = resolve({})
     rows = []
     for k, a in ASSUMPTIONS.items():
         if k not in result.assumptions:
             continue
         value = result.assumptions[k]
+        changed = value != defaults.get(k)
         if isinstance(value, tuple):
             value = ", ".join(value)
         elif isinstance(value, bool):
@@ -259,6 +262,7 @@ def assumptions_used(result) -> list[dict]:
                 "value": value,
                 "unit": a.unit,
                 "set_by": "workbook" if k in given else "default",
+                "changed": bool(changed),
                 "note": a.note,
             }
         )
@@ -390,3 +394,26 @@ def tipping_sentences(result) -> list[str]:
         return []
     namer = _namer(result)
     return [tipping_sentence(t, namer) for t in rob.tipping_points]
+
+
+def funded_by_year(result) -> list[str]:
+    """One line per budget year of the optimised plan: ``2027: A, B`` ([] without a plan)."""
+    plan = result.plan
+    if plan is None:
+        return []
+    names = result.inputs.corridors["name"].astype(str)
+    funded = plan.optimised.dropna(subset=["year_funded"])
+    out = []
+    for year, rows in funded.groupby("year_funded", sort=True):
+        who = [names.get(c, c) for c in rows["corridor_id"]]
+        out.append(f"{int(year)}: {', '.join(who)}")
+    return out
+
+
+def provenance_line(result) -> str:
+    """One line: tool, input file and its hash, run time, samples and seed."""
+    return (
+        f"ranker {result.tool_version}; input {result.inputs.path.name} (SHA-256 "
+        f"{result.inputs.sha256[:12]}...); run {result.started}; {result.samples:,} samples, "
+        f"seed {result.seed}; full detail in the appendices and the results workbook."
+    )
