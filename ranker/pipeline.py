@@ -8,7 +8,6 @@ stress results -> plan. Reports are written from the :class:`Result` by
 from __future__ import annotations
 
 import datetime as _dt
-import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -42,8 +41,8 @@ def rank_workbook(
     weights : str, optional
         Name of the weight set to use; default the first set.
     weight_overrides : mapping, optional
-        Criterion key to weight points replacing that criterion's points in
-        the chosen set before renormalising (``--weight KEY=VALUE``).
+        Criterion key to its final share of the weight in percent; the other
+        criteria keep their proportions (``--weight KEY=SHARE``).
     samples : int
         Monte Carlo samples for rank acceptability; 0 turns it off.
     seed : int
@@ -103,6 +102,10 @@ def rank_inputs(
     included = inputs.included
     chosen = choose_weight_set(p.weight_sets, weights)
     used, overrides = apply_overrides(chosen, weight_overrides, included)
+    if overrides:
+        from .score.override import small_share_warnings
+
+        warnings.extend(small_share_warnings(overrides))
 
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
     warnings.extend(scores.warnings)
@@ -297,7 +300,7 @@ def choose_weight_set(sets: list, name: str | None):
     if name is None:
         return board[0] if board else sets[0]
     for s in sets:
-        if s.name == normalize_key(name):
+        if s.name.lower() == normalize_key(name):
             return s
     raise InputError.one(
         "--weights",
@@ -311,36 +314,19 @@ def apply_overrides(
     overrides: Mapping[str, float] | None,
     included: list[CriterionSpec],
 ) -> tuple[dict[str, float], dict[str, float]]:
-    """Replace some criteria's weights in the chosen set and renormalise it to sum 1.
+    """Set some criteria's final shares of the chosen set; the others keep their proportions.
 
-    For a set of points (the ``weight`` columns) an override is in the same
-    points the planner typed: ``--weight capital_cost=40`` replaces capital
-    cost's points by 40. For sets made otherwise (rank order, pairwise,
-    objective) it replaces the normalised weight. Either way the set is then
-    divided by its sum.
+    ``overrides`` maps a criterion key to its final share in percent
+    (``--weight capital_cost=40``: capital cost gets 40 % of the weight),
+    for every kind of set; see :func:`ranker.score.override.apply_shares`.
+    Returns the final weights (summing to 1) and the shares as given [%].
     """
+    from .score.override import apply_shares
+
     if not overrides:
         return dict(chosen.weights), {}
-    base = dict(chosen.given) if chosen.how == "points" else dict(chosen.weights)
     keys = [c.key for c in included]
-    problems = Problems()
-    for key, value in overrides.items():
-        if key not in keys:
-            problems.add(
-                "--weight", f"{key} is not an included criterion", "use one of " + ", ".join(keys)
-            )
-        elif not math.isfinite(value) or value < 0:
-            problems.add(
-                "--weight", f"{key}={value} is not a weight", "give a number of 0 or more"
-            )
-    problems.raise_if_any()
-    base.update({k: float(v) for k, v in overrides.items()})
-    total = sum(base.get(k, 0.0) for k in keys)
-    if total <= 0:
-        raise InputError.one(
-            "--weight", "every weight of the set is zero", "give at least one weight above 0"
-        )
-    return {k: base.get(k, 0.0) / total for k in keys}, dict(overrides)
+    return apply_shares(chosen.weights, overrides, keys), dict(overrides)
 
 
 def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]:

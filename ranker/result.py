@@ -72,6 +72,11 @@ class Result:
         Monte Carlo settings used.
     started : str
         Start time, ISO 8601 in UTC.
+    changes : list of str
+        What changed since the last run, in plain sentences (empty without one).
+    change_record : dict
+        The same as data: ``previous`` (path or None), ``inputs``,
+        ``criteria``, ``moved`` (:func:`ranker.changes.compare`).
     """
 
     inputs: Inputs
@@ -97,6 +102,9 @@ class Result:
     outputs: dict[str, str] = field(default_factory=dict)
     chosen_weights: dict[str, float] = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
+    change_record: dict = field(
+        default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}
+    )
 
     def weight_notes(self) -> dict[str, str]:
         """Criterion to why its weight used differs from the chosen one ("" where not)."""

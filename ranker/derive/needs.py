@@ -57,7 +57,7 @@ FIELD_RULES: dict[str, tuple[float, bool, str]] = {
 
 
 @dataclass
-class Plan:
+class Checked:
     """What the checks settled.
 
     Attributes
@@ -268,7 +268,7 @@ def _check_assumptions(
 
 def check_inputs(
     inputs: Inputs, assumptions: dict, keys: Sequence[str], problems: Problems
-) -> tuple[Plan, bool]:
+) -> tuple[Checked, bool]:
     """Check everything the criteria ``keys`` need; record problems, do not raise.
 
     Parameters
@@ -284,7 +284,7 @@ def check_inputs(
 
     Returns
     -------
-    plan : Plan
+    plan : Checked
         Adoption model, Corridors fields with defaults, warnings.
     readiness_ok : bool
         Whether the readiness sheets are there to be checked row by row.
@@ -300,7 +300,7 @@ def check_inputs(
     >>> print(problems.items[0])
     Corridors: charging_revenue needs columns length_mi, trucks_per_day (missing: trucks_per_day); add them or give charging_revenue as a Corridors column
     """
-    plan = Plan()
+    plan = Checked()
     readiness_ok = _check_sheets(inputs, keys, problems)
     plan.fields = _corridor_fields(inputs, keys, problems)
     if any(k in SIZED for k in keys):

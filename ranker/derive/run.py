@@ -40,7 +40,7 @@ from .energy import (
 from .finance import discount_factor_compound
 from .glossary import COLUMNS
 from .grid import grid_upgrade_excess, headroom_ratio_peak, peak_load_coincidence
-from .needs import Plan, check_inputs
+from .needs import Checked, check_inputs
 from .readiness import policy_readiness
 from .revenue import demand_charge_npv_peak, en_route_energy_per_year, margin_npv_charging
 from .sizing import charger_sizing
@@ -86,7 +86,7 @@ class Derivation:
     warnings: list[str] = field(default_factory=list)
 
 
-def _energy(plan: Plan, a: dict) -> dict[str, np.ndarray]:
+def _energy(plan: Checked, a: dict) -> dict[str, np.ndarray]:
     f = plan.fields
     flat = flat_energy_per_mile(f["length_mi"], energy_kwh_per_mi=a["energy_kwh_per_mi"])
     climb = climb_energy_two_way(
@@ -106,7 +106,7 @@ def _energy(plan: Plan, a: dict) -> dict[str, np.ndarray]:
     }
 
 
-def _adoption(inputs: Inputs, plan: Plan, a: dict) -> pd.DataFrame:
+def _adoption(inputs: Inputs, plan: Checked, a: dict) -> pd.DataFrame:
     start, horizon = int(a["analysis_year"]), int(a["horizon_years"])
     end = max(int(a["target_year"]), start + horizon - 1)
     path = adoption_path(
@@ -123,7 +123,7 @@ def _adoption(inputs: Inputs, plan: Plan, a: dict) -> pd.DataFrame:
     return frame
 
 
-def _size(plan: Plan, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
+def _size(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
     """Charging sites and ports for ``target_year`` (energy balance and Erlang C)."""
     f = plan.fields
     at_target = path.loc[path["year"] == int(a["target_year"])].iloc[0]
@@ -144,7 +144,7 @@ def _size(plan: Plan, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np
     return out
 
 
-def _grid_and_cost(plan: Plan, a: dict, sized: dict) -> dict[str, np.ndarray]:
+def _grid_and_cost(plan: Checked, a: dict, sized: dict) -> dict[str, np.ndarray]:
     """New peak load, grid upgrade above headroom, headroom ratio and capital cost."""
     out = {
         "peak_load_mw": peak_load_coincidence(
@@ -179,7 +179,7 @@ def _grid_and_cost(plan: Plan, a: dict, sized: dict) -> dict[str, np.ndarray]:
 
 
 def _revenue(
-    plan: Plan, a: dict, energy: dict, path: pd.DataFrame, peak_load_mw: np.ndarray
+    plan: Checked, a: dict, energy: dict, path: pd.DataFrame, peak_load_mw: np.ndarray
 ) -> dict[str, np.ndarray]:
     """NPV of the charging margin over the horizon, less the demand charges."""
     # En-route energy of a fully electric fleet at today's traffic, scaled by year.
@@ -209,7 +209,7 @@ def _revenue(
     }
 
 
-def _sizing(plan: Plan, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
+def _sizing(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
     """The sizing stage: sites and ports, then grid and cost, then revenue."""
     out = _size(plan, a, energy, path)
     out.update(_grid_and_cost(plan, a, out))

@@ -148,8 +148,8 @@ def build_html(result) -> str:
         "brief": _brief(result),
         # Slot for a map on the brief (SVG text, drawn where it fits); "" = none.
         "brief_map": "",
-        "changed": [a for a in assumptions if a["changed"]],
-        "defaults": [a for a in assumptions if not a["changed"]],
+        "changed": [a for a in assumptions if a["set_by"] == "changed"],
+        "defaults": [a for a in assumptions if a["set_by"] != "changed"],
         "agreement": narrative.agreement_sentence(result),
         "reversal": narrative.reversal_sentences(result),
         "figures": figures,
@@ -183,6 +183,7 @@ def build_html(result) -> str:
             for e in result.excluded
         ],
     }
+    context["since_last_run"] = _since_last_run(result)
     return _environment().get_template("sheet.html.j2").render(**context)
 
 
@@ -215,6 +216,26 @@ def _brief(result) -> dict:
         "funded": narrative.funded_by_year(result),
         "provenance": narrative.provenance_line(result),
     }
+
+
+#: Lines of each part of "what changed" on the justification sheet; the workbook has all.
+CHANGE_LINES = 40
+
+
+def _since_last_run(result) -> dict | None:
+    """The "what changed since the last run" block: three lists of sentences, or None."""
+    from ..changes import describe
+
+    record = result.change_record
+    if not record.get("previous"):
+        return None
+    parts = {}
+    for part in ("inputs", "criteria", "moved"):
+        only = {"previous": record["previous"], **{k: [] for k in ("inputs", "criteria", "moved")}}
+        only[part] = record.get(part, [])
+        lines = describe(only, limit=CHANGE_LINES) if only[part] else []
+        parts[part] = [x for x in lines if not x.startswith(("No corridor", "Nothing changed"))]
+    return {"previous": record["previous"], **parts}
 
 
 def _plan_context(result) -> dict | None:

@@ -240,30 +240,39 @@ def method_labels(methods) -> dict:
 
 
 def assumptions_used(result) -> list[dict]:
-    """Every assumption with the value used, its unit, note, whether the workbook set it
-    and whether the value differs from the default (``changed``)."""
-    from ..assumptions import ASSUMPTIONS, resolve
+    """Every assumption with the value used, whether it is the default, and the default.
+
+    ``set_by`` is ``"default"`` where the value cell was blank or holds the
+    default itself, ``"changed"`` where the planner typed another value;
+    ``default`` holds the default beside a changed value (empty otherwise).
+    ``note`` describes the default and its source, so it is labelled that
+    way beside a changed value.
+    """
+    from ..assumptions import ASSUMPTIONS
+
+    def plain(value):
+        if isinstance(value, tuple):
+            return ", ".join(value)
+        if isinstance(value, bool):
+            return "yes" if value else "no"
+        return value
 
     given = set(result.inputs.assumptions)
-    defaults = resolve({})
     rows = []
     for k, a in ASSUMPTIONS.items():
         if k not in result.assumptions:
             continue
-        value = result.assumptions[k]
-        changed = value != defaults.get(k)
-        if isinstance(value, tuple):
-            value = ", ".join(value)
-        elif isinstance(value, bool):
-            value = "yes" if value else "no"
+        value = plain(result.assumptions[k])
+        default = plain(a.default)
+        changed = k in given and value != default
         rows.append(
             {
                 "key": k,
                 "value": value,
                 "unit": a.unit,
-                "set_by": "workbook" if k in given else "default",
-                "changed": bool(changed),
-                "note": a.note,
+                "set_by": "changed" if changed else "default",
+                "default": default if changed else "",
+                "note": f"The default ({default}): {a.note}" if changed else a.note,
             }
         )
     return rows

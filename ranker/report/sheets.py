@@ -9,6 +9,7 @@ from __future__ import annotations
 import pandas as pd
 from openpyxl.utils import get_column_letter
 
+from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
 from .narrative import assumptions_used, consistency_text, tipping_sentences
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
@@ -363,7 +364,7 @@ def run_info_sheet(writer, result) -> None:
     ws = writer.sheet("Run info", "Run information")
     info = [
         ("tool", f"ranker {result.tool_version}"),
-        ("input file", result.inputs.path.name),
+        ("input file", shown(result.inputs.path.name)),
         ("input SHA-256", result.inputs.sha256),
         ("run started (UTC)", result.started),
         ("weight set", result.weight_set),
@@ -391,10 +392,49 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 1, w)
     row = row + 2 + max(1, len(result.warnings))
     put(ws, row, 1, "Assumptions used").font = HEADER_FONT
-    table = pd.DataFrame(assumptions_used(result)).rename(columns={"set_by": "set by"})
+    table = pd.DataFrame(assumptions_used(result)).rename(
+        columns={"set_by": "default or changed", "note": "meaning and source of the default"}
+    )
     writer.table(ws, table, top=row + 1, name="assumptions_used")
     ws.column_dimensions["A"].width = 26
     ws.column_dimensions["B"].width = 70
+
+
+def contents_sheet(writer, result) -> None:
+    """The first result sheet: a link to every result sheet and what each holds.
+
+    Written after the others (it lists them), then moved in front of them.
+    """
+    from openpyxl.worksheet.hyperlink import Hyperlink
+
+    listed = list(writer.names)
+    ws = writer.sheet("Contents", "Contents: the result sheets of this run", CAUTION)
+    put(ws, 4, 1, "sheet").font = HEADER_FONT
+    put(ws, 4, 2, "what it holds").font = HEADER_FONT
+    for i, name in enumerate(listed, start=5):
+        cell = put(ws, i, 1, name)
+        cell.hyperlink = Hyperlink(ref=cell.coordinate, location=f"'{name}'!A1", display=name)
+        cell.style = "Hyperlink"
+        put(ws, i, 2, writer.titles.get(name, ""))
+    row = 5 + len(listed) + 1
+    ours = set(listed) | {ws.title}
+    kept = [n for n in writer.wb.sheetnames if n not in ours and not n.startswith("ranker_")]
+    put(
+        ws,
+        row,
+        1,
+        "Your sheets come first, as you left them: "
+        + (", ".join(kept) or "none")
+        + ". Edit them and run this workbook again to refresh these result sheets.",
+    )
+    ws.freeze_panes = "A5"
+    ws.column_dimensions["A"].width = 24
+    ws.column_dimensions["B"].width = 90
+    wb = writer.wb
+    if listed:
+        wb.move_sheet(ws, offset=wb.index(wb[listed[0]]) - wb.index(ws))
+    writer.names.remove(ws.title)
+    writer.names.insert(0, ws.title)
 
 
 #: Result sheets in the order they are written.
@@ -412,4 +452,4 @@ WRITERS = [
     run_info_sheet,
 ]
 
-__all__ = ["WRITERS", "criterion_unit"]
+__all__ = ["WRITERS", "contents_sheet", "criterion_unit"]

@@ -30,6 +30,7 @@ import numpy as np
 import pandas as pd
 
 from ranker.errors import InputError, Problems
+from ranker.plain import plain
 
 from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
 from .batch import Scorer, rank_batch
@@ -53,19 +54,6 @@ __all__ = ["Robustness", "futures", "stress_test"]
 
 #: Progress units besides the Monte Carlo samples: one per other analysis.
 _STAGES = 4
-
-
-def _plain(value):
-    """Make a value JSON-ready: numpy scalars to Python, NaN to None."""
-    if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list | tuple):
-        return [_plain(v) for v in value]
-    if isinstance(value, np.generic):
-        value = value.item()
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value
 
 
 @dataclass
@@ -142,9 +130,9 @@ class Robustness:
         """Return a JSON-ready summary (plain types; NaN as null)."""
 
         def records(frame):
-            return [_plain(r) for r in frame.to_dict(orient="records")]
+            return [plain(r) for r in frame.to_dict(orient="records")]
 
-        return _plain(
+        return plain(
             {
                 "samples": int(self.samples),
                 "seed": int(self.seed),
@@ -329,9 +317,12 @@ def _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer):
             identical.update(frozenset((a, b)) for a in members for b in members if a < b)
     better = np.where(scorer.is_benefit, 1.0, -1.0)
     y = x * better
-    for i in range(n):
-        others = np.delete(np.arange(n), i)
-        if n > 1 and np.all(y[i] >= y[others]) and np.all((y[i] > y[others]).any(axis=1)):
+    # Corridor i dominates every other one when it is at least as good on every
+    # criterion (so it holds every column's best value) and strictly better
+    # somewhere than each other (so no other corridor equals it everywhere).
+    best = np.nonzero((y == y.max(axis=0)).all(axis=1))[0] if n > 1 else []
+    for i in best:
+        if (y == y[i]).all(axis=1).sum() == 1:
             warns.append(
                 f"{namer.corridor(ids[i], start=True)} is at least as good as every "
                 "other corridor on every criterion: it dominates them, and sound "
@@ -500,8 +491,11 @@ def stress_test(
         )
         done = samples
         warns.extend(acc.notes)
-        acceptability = pd.DataFrame(
-            acc.acceptability, index=index, columns=[f"rank {r}" for r in range(1, n + 1)]
+        acceptability = pd.DataFrame(  # no copy: (n x n) is 800 MB at 10,000 corridors
+            acc.acceptability,
+            index=index,
+            columns=[f"rank {r}" for r in range(1, n + 1)],
+            copy=False,
         )
         first = pd.Series(acc.first_rank, index=index, name="first_rank")
         central = pd.DataFrame(acc.central_weights, index=index, columns=keys)

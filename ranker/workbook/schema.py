@@ -15,8 +15,8 @@ import re
 from dataclasses import dataclass
 
 from ranker.builtin import BUILTIN_CRITERIA
+from ranker.constants import KM_PER_MI, M_PER_FT
 from ranker.workbook import tables as _t
-from ranker.workbook.units import KM_PER_MI, M_PER_FT
 
 #: Name of the instructions sheet the template writes first.
 INSTRUCTIONS = "How to fill in"
@@ -100,8 +100,6 @@ class SheetSchema:
         Columns in template order (empty for the ``Pairwise`` matrix).
     layout : str
         ``"table"`` (header row 1, one record a row) or ``"matrix"``.
-    key_field : str
-        Field naming each row uniquely (``""`` for list sheets).
     """
 
     name: str
@@ -109,7 +107,6 @@ class SheetSchema:
     purpose: str
     fields: tuple[Field, ...]
     layout: str = "table"
-    key_field: str = ""
 
     def field(self, key: str) -> Field:
         """Return the field with canonical key ``key``."""
@@ -280,6 +277,15 @@ ASSUMPTION_FIELDS = (
         width=18,
     ),
     _f(
+        "default",
+        "",
+        "text",
+        False,
+        "The built-in default, used while value is blank (for reading; the tool reads "
+        "only the value column).",
+        width=16,
+    ),
+    _f(
         "unit",
         "",
         "text",
@@ -445,14 +451,12 @@ SHEETS: dict[str, SheetSchema] = {
             "One row per corridor: its code, name and the facts the built-in criteria "
             "are derived from. Any further numeric column may serve as a criterion.",
             CORRIDOR_FIELDS,
-            key_field="corridor_id",
         ),
         SheetSchema(
             _t.JURISDICTIONS,
             False,
             "One row per jurisdiction with its policy readiness (needed for policy_readiness).",
             JURISDICTION_FIELDS,
-            key_field="jurisdiction",
         ),
         SheetSchema(
             _t.CORRIDOR_MILES,
@@ -464,10 +468,9 @@ SHEETS: dict[str, SheetSchema] = {
         SheetSchema(
             _t.ASSUMPTIONS,
             False,
-            "Every model assumption with its default; change a value to use yours, "
+            "Every model assumption with its default beside it; type a value to use yours, "
             "leave it blank for the default.",
             ASSUMPTION_FIELDS,
-            key_field="key",
         ),
         SheetSchema(
             _t.CRITERIA,
@@ -475,7 +478,6 @@ SHEETS: dict[str, SheetSchema] = {
             "Which criteria take part, whether more is better (benefit) or less "
             "(cost), and one column per weight set.",
             CRITERIA_FIELDS,
-            key_field="criterion",
         ),
         SheetSchema(
             _t.ADOPTION,

@@ -6,8 +6,8 @@ import re
 
 import pytest
 
+from ranker.constants import KM_PER_MI, M_PER_FT
 from ranker.workbook import schema as S
-from ranker.workbook.units import KM_PER_MI, M_PER_FT
 
 # Sheet names and keys as the product contract (SPEC.md, "Input workbook") spells them.
 CONTRACT = {
