@@ -154,7 +154,8 @@ def rank_inputs(
         inputs=inputs,
         assumptions=assumptions,
         weight_set=chosen.name,
-        weights=used,
+        weights=effective_weights(included, scores),
+        chosen_weights=used,
         overrides=overrides,
         weight_sets=p.weight_sets,
         criteria=included,
@@ -333,6 +334,16 @@ def apply_overrides(
         return dict(chosen.weights), {}
     keys = [c.key for c in included]
     return apply_shares(chosen.weights, overrides, keys), dict(overrides)
+
+
+def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]:
+    """Return the weights used in scoring for every included criterion [-].
+
+    A criterion left out of scoring (the same value for every corridor) has
+    weight 0 and the rest keep the shares :func:`ranker.score.score_matrix`
+    rescaled them to, so these weights reproduce every score.
+    """
+    return {c.key: float(scores.weights.get(c.key, 0.0)) for c in included}
 
 
 def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, seed, progress):

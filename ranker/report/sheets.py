@@ -12,7 +12,7 @@ from openpyxl.utils import get_column_letter
 from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
 from .live_sheet import live_sheet
-from .narrative import assumptions_used, consistency_text
+from .narrative import assumptions_used, consistency_text, tipping_sentences
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
@@ -137,6 +137,10 @@ def weights_sheet(writer, result) -> None:
     frame = pd.DataFrame(index=pd.Index(keys, name="criterion"))
     frame["label"] = [c.label for c in result.criteria]
     frame["used [-]"] = [result.weights.get(k, 0.0) for k in keys]
+    notes = result.weight_notes()
+    if any(notes.values()):
+        frame["chosen [-]"] = [result.chosen_weights.get(k, 0.0) for k in keys]
+        frame["why they differ"] = [notes.get(k, "") for k in keys]
     for w in result.weight_sets:
         frame[f"{w.name} [-]"] = [w.weights.get(k, float("nan")) for k in keys]
         if w.how == "points" or "rank" in w.how:
@@ -262,6 +266,8 @@ def robustness_sheet(writer, result) -> None:
         row += 2
     put(ws, row, 1, "Weight tipping points").font = HEADER_FONT
     tips = pd.DataFrame(rob.tipping_points)
+    if len(tips):
+        tips["sentence"] = tipping_sentences(result)
     if len(tips):
         _, _, row, _ = writer.table(ws, tips, top=row + 1, name="tipping")
     else:
