@@ -34,7 +34,7 @@ SCREENED = "#8c8c8c"
 BUILT = "#0072B2"
 NOT_YET = "#d3d8de"
 PAD = 14.0  # space inside the frame around the network [px]
-MIN_H, MAX_H = 260.0, 520.0  # height of the map frame [px]
+MIN_H, MAX_H = 240.0, 340.0  # height of the map frame [px]
 LINE_MIN, LINE_MAX = 1.5, 8.0  # stroke width of the least and most travelled corridor [px]
 
 
@@ -309,7 +309,7 @@ def place_labels(canvas, frame, places, *, size=FONT_PX, dots=True) -> list[str]
     return skipped
 
 
-def network_map(result, props: dict) -> tuple[str, list[str]]:
+def network_map(result, props: dict, *, max_height: float = MAX_H) -> tuple[str, list[str]]:
     """Return the map's SVG and the places whose names did not fit.
 
     Parameters
@@ -319,9 +319,11 @@ def network_map(result, props: dict) -> tuple[str, list[str]]:
     props : dict
         Corridor id -> properties, as :func:`ranker.geo.export.corridor_properties`
         returns them (the same numbers as the GeoJSON file).
+    max_height : float
+        Tallest the frame may be [px].
     """
     network = result.network
-    frame = Frame(network, x0=1.0, y0=1.0, width=WIDTH - 2.0, max_height=MAX_H)
+    frame = Frame(network, x0=1.0, y0=1.0, width=WIDTH - 2.0, max_height=max_height)
     colours, legend, meaning = colour_groups(result)
     corridors = result.inputs.corridors
     trucks = corridors["trucks_per_day"] if "trucks_per_day" in corridors else None
@@ -409,7 +411,7 @@ def coverage_maps(result) -> str:
         y = rec.get("year_funded")
         if y is not None and not pd.isna(y):
             done[rec["corridor_id"]] = int(y)
-    per_row = 4 if len(years) > 3 else max(len(years), 1)
+    per_row = min(max(len(years), 1), 6)
     cell_w = (WIDTH - 8.0 * (per_row - 1)) / per_row
     frames, rows = [], math.ceil(len(years) / per_row)
     probe = Frame(network, x0=0, y0=0, width=cell_w, max_height=cell_w * 0.9, margin=8.0)
@@ -480,6 +482,7 @@ def map_context(result) -> dict | None:
         "missing": network.missing,
         "skipped_labels": skipped,
         "colour_meaning": meaning,
+        "geojson": result.inputs.path.stem + "-ranked.geojson",
         "shortest_mi": min(lengths.values()),
         "longest_mi": max(lengths.values()),
     }
