@@ -87,7 +87,13 @@ def candidates(path: Path) -> list[Mutant]:
     source = path.read_text(encoding="utf-8")
     lines = source.splitlines()
     out = []
+    previous = None
     for tok in tokenize.generate_tokens(io.StringIO(source).readline):
+        before, previous = previous, tok
+        # ``*`` or ``/`` right after ``(`` or ``,`` marks arguments (``*args``, ``*, key``,
+        # ``/``), not arithmetic: such a mutant would only move a parameter's kind.
+        if tok.string in ("*", "/") and before is not None and before.string in ("(", ","):
+            continue
         row, col = tok.start
         if row > len(lines):  # the end-of-file tokens
             continue
