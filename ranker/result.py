@@ -41,7 +41,13 @@ class Result:
     weight_set : str
         Name of the weight set used.
     weights : dict of str to float
-        Weights used, normalised to sum 1, after ``--weight`` overrides [-].
+        Weights used in scoring, one per included criterion, summing to 1:
+        after ``--weight`` overrides, with a criterion left out of scoring
+        (the same value for every corridor) at 0 and the others rescaled [-].
+        Every score is reproduced from these and the matrix.
+    chosen_weights : dict of str to float
+        The chosen set after overrides, normalised to sum 1, before any
+        criterion was left out [-].
     overrides : dict of str to float
         ``--weight KEY=VALUE`` overrides as given (points before renormalising).
     weight_sets : list of ResolvedWeights
@@ -99,10 +105,25 @@ class Result:
     started: str
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
+    chosen_weights: dict[str, float] = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
     change_record: dict = field(
         default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}
     )
+
+    def weight_notes(self) -> dict[str, str]:
+        """Criterion to why its weight used differs from the chosen one ("" where not)."""
+        dropped = set(getattr(self.scores, "dropped", []) or [])
+        out = {}
+        for key, used in self.weights.items():
+            chosen = self.chosen_weights.get(key, used)
+            if key in dropped:
+                out[key] = "left out: the same value for every corridor"
+            elif abs(chosen - used) > 1e-12:
+                out[key] = "rescaled after a criterion was left out"
+            else:
+                out[key] = ""
+        return out
 
     @property
     def primary_method(self) -> str:

@@ -170,9 +170,11 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
             f"{PAIRWISE}: the {DEFAULT_RI_TABLE} random-index table stops at 10 criteria; "
             f"no consistency ratio for {n}."
         )
-    if n >= 3:
-        index, i, j, k = triple_inconsistency(a)[0]
-        fix = revise_triple(a, (i, j, k))
+    index, i, j, k = triple_inconsistency(a)[0] if n >= 3 else (0.0, 0, 0, 0)
+    fix = revise_triple(a, (i, j, k)) if index > 1e-9 else None
+    now = res["cr"] if res["cr"] is not None else res["ci"]
+    # Suggest a revision only where it lowers the ratio: never for a consistent matrix.
+    if fix is not None and fix["cr_after"] < now - 1e-9:
         where, upper = typed_at[(min(fix["row"], fix["col"]), max(fix["row"], fix["col"]))]
         forward = fix["row"] < fix["col"]
         current, suggested = fix["current"], fix["suggested"]
@@ -201,12 +203,13 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
                 f"(the consistency ratio would then be {fix['cr_after']:.3f})"
             ),
         )
-        if res["cr"] is not None and res["cr"] > CR_LIMIT:
-            warns.append(
-                f"{PAIRWISE}: consistency ratio {res['cr']:.3f} is above {CR_LIMIT:.2f} "
-                f"({DEFAULT_RI_TABLE}); the most inconsistent triple is {keys[i]}, {keys[j]}, "
-                f"{keys[k]}; {consistency['suggestion']}."
-            )
+    if res["cr"] is not None and res["cr"] > CR_LIMIT:
+        warns.append(
+            f"{PAIRWISE}: consistency ratio {res['cr']:.3f} is above {CR_LIMIT:.2f} "
+            f"({DEFAULT_RI_TABLE}); the most inconsistent triple is {keys[i]}, {keys[j]}, "
+            f"{keys[k]}"
+            + (f"; {consistency['suggestion']}." if consistency["suggestion"] else ".")
+        )
     return ResolvedWeights(
         "pairwise",
         dict(zip(keys, res["weights"].tolist(), strict=True)),

@@ -178,3 +178,18 @@ def test_pairwise_cells_use_the_readers_coordinates_when_recorded():
     inputs.columns["Pairwise"] = {"capital_cost": "C", "trucks": "B", "readiness": "D"}
     revisit = resolve_weight_sets(inputs, MATRIX, ASSUME)[0].consistency["revisit"]
     assert revisit["cell"] == "Pairwise!D3"
+
+
+def test_consistent_pairwise_suggests_nothing_and_prints_no_negative_zero():
+    """A consistent matrix (a_ik = a_ij a_jk) has CI = CR = 0 (Saaty 1980): nothing to revisit."""
+    from ranker.report.narrative import consistency_text
+
+    pw = _pairwise([[1, 2, 4], [NAN, 1, 2], [NAN, NAN, 1]])
+    out = _resolve(
+        [WeightSet("default", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "H")], pw
+    )
+    c = next(s for s in out if s.name == "pairwise").consistency
+    assert c["suggestion"] is None and c["revisit"] is None
+    text = consistency_text({**c, "ci": -1e-16, "cr": -2e-16})
+    assert "-0.0000" not in text and "CI 0.0000, CR 0.0000" in text
+    assert "revisit" not in text
