@@ -636,6 +636,17 @@ _TABLE = [
         low=0.0,
         low_open=True,
     ),
+    _a(
+        "tier_confidence",
+        0.9,
+        "[-]",
+        "float",
+        "Share of samples in which every corridor of a higher tier must rank above every corridor of a lower tier; inside a tier the order is not settled (common practice: a 90% level).",
+        "robustness",
+        low=0.5,
+        high=1.0,
+        low_open=True,
+    ),
     # -- phasing --------------------------------------------------------------------------
     _a(
         "budget_carry_over",

@@ -1,65 +1,392 @@
-"""What changed between two runs: weights, values, and who moved.
+"""What changed since the last run, for people: inputs by cell, values, ranks.
 
-Both sides are JSON summaries (:func:`ranker.report.summary.summary_json`);
-the previous one is read back from the previous results workbook.
+A run stores its *state* in the results workbook (:func:`run_state`): the
+value of every input it read, keyed by what the value is (an assumption, a
+weight of a set, a field of a corridor), with the weights, ranks, tiers and
+criterion values it found. The next run compares its own state with that one
+(:func:`compare`) and says in plain words what differs (:func:`describe`):
+first each changed input by cell and label, with old and new values in their
+unit; then the criterion values that moved; then the corridors that changed
+rank or tier.
 """
 
 from __future__ import annotations
 
+import math
 
-def compare(previous: dict | None, current: dict) -> list[str]:
-    """Return plain sentences describing what changed since ``previous``.
+#: Relative difference below which two numbers count as equal [-].
+SAME = 1e-12
+#: State format; a state of another version is not compared field by field.
+STATE_VERSION = 2
 
-    An empty list means nothing changed that moves the outputs; None as
-    ``previous`` means there was no earlier run to compare with.
+
+# -- the state a run leaves behind ----------------------------------------------------
+
+
+def _plain(value):
+    if isinstance(value, tuple):
+        return ", ".join(str(v) for v in value)
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if hasattr(value, "item"):  # numpy scalars
+        value = value.item()
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
+    return value
+
+
+def input_values(result) -> dict[str, object]:
+    """Return every input value of the run, keyed by what it is.
+
+    Keys: ``a:KEY`` (assumption, the value used, default or typed),
+    ``w:SET:CRITERION`` (a weight as typed), ``c:CRITERION:FIELD`` (a
+    ``Criteria`` setting), ``r:CORRIDOR:FIELD`` (a ``Corridors`` number),
+    ``b:YEAR`` (a ``Budget`` line), ``j:CODE`` (a jurisdiction's readiness),
+    ``o:--weight:CRITERION``, ``o:--weights``, ``o:--samples`` and
+    ``o:--seed`` (command-line choices).
     """
-    if not previous:
-        return []
-    out: list[str] = []
-    if previous.get("weight_set") != current.get("weight_set"):
-        out.append(
-            f"Weight set changed from '{previous.get('weight_set')}' to "
-            f"'{current.get('weight_set')}'."
+    inputs = result.inputs
+    out: dict[str, object] = {}
+    for key, value in result.assumptions.items():
+        out[f"a:{key}"] = _plain(value)
+    for ws in inputs.weight_sets:
+        for key, value in ws.values.items():
+            out[f"w:{ws.name}:{key}"] = _plain(value)
+    for c in inputs.criteria:
+        out[f"c:{c.key}:include"] = "yes" if c.include else "no"
+        out[f"c:{c.key}:direction"] = c.direction
+        for name in ("at_least", "at_most", "uncertainty_pct"):
+            out[f"c:{c.key}:{name}"] = _plain(getattr(c, name))
+    corridors = inputs.corridors
+    numeric = [c for c in corridors.columns if c != "name" and corridors[c].dtype.kind in "fiu"]
+    for col in numeric:
+        for cid, value in zip(corridors.index, corridors[col].to_numpy(), strict=True):
+            out[f"r:{cid}:{col}"] = _plain(value)
+    for cid, name in zip(corridors.index, corridors["name"], strict=True):
+        out[f"r:{cid}:name"] = str(name)
+    if inputs.budget is not None:
+        for year, usd in zip(inputs.budget["year"], inputs.budget["capital_usd"], strict=True):
+            out[f"b:{int(year)}"] = _plain(usd)
+    if inputs.jurisdictions is not None and "readiness" in inputs.jurisdictions:
+        for code, value in inputs.jurisdictions["readiness"].items():
+            out[f"j:{code}"] = _plain(value)
+    out["o:--weights"] = result.weight_set
+    out["o:--samples"] = int(result.samples)
+    out["o:--seed"] = int(result.seed)
+    for key, share in result.overrides.items():
+        out[f"o:--weight:{key}"] = float(share)
+    return out
+
+
+def run_state(result) -> dict:
+    """Return what a later run needs to say what changed (stored in the results workbook)."""
+    ranking = result.ranking
+    matrix = result.matrix.loc[ranking.index]
+    values = matrix.to_dict(orient="index")
+    tiers = ranking["tier"] if "tier" in ranking.columns else None
+    rows = []
+    for cid, name, rank in zip(ranking.index, ranking["name"], ranking["rank"], strict=True):
+        row = {
+            "corridor_id": str(cid),
+            "name": str(name),
+            "rank": int(rank),
+            "criteria": {k: _plain(float(v)) for k, v in values[cid].items()},
+        }
+        if tiers is not None:
+            row["tier"] = int(tiers[cid])
+        rows.append(row)
+    return {
+        "version": STATE_VERSION,
+        "weight_set": result.weight_set,
+        "weights": {k: float(v) for k, v in result.weights.items()},
+        "ranking": rows,
+        "inputs": input_values(result),
+    }
+
+
+# -- naming a value for people ----------------------------------------------------------
+
+
+def ordinal(n: int) -> str:
+    """Return ``1st``, ``2nd``, ``3rd``, ``4th``, ``11th``, ``21st`` ..."""
+    if 10 <= n % 100 <= 20:
+        return f"{n}th"
+    return f"{n}{ {1: 'st', 2: 'nd', 3: 'rd'}.get(n % 10, 'th') }"
+
+
+def _unit(unit: str) -> str:
+    u = (unit or "").strip().strip("[]").strip()
+    return "" if u in ("-", "") else u
+
+
+def _number(x: float, digits: int) -> str:
+    if float(x).is_integer() and abs(x) < 1e15:
+        return f"{x:,.0f}"
+    if abs(x) >= 1000:
+        return f"{x:,.{max(0, digits - 4)}f}"
+    text = f"{x:.{digits}g}"
+    if "e" in text:
+        return f"{x:.{digits + 2}f}".rstrip("0").rstrip(".")
+    return text
+
+
+def format_pair(old, new, unit: str = "") -> str:
+    """Return ``"288,000 -> 400,000 USD"``: both values in one scale, then the unit.
+
+    Dollar amounts of a million or more are shown in millions
+    (``"12.3 -> 15.3 million USD"``); digits are added until the two values
+    read differently. Text is quoted; a missing value reads ``blank``.
+    """
+    u = _unit(unit)
+    nums = [v for v in (old, new) if isinstance(v, (int, float)) and not isinstance(v, bool)]
+    if len(nums) < 2 or old == new:
+
+        def text(v):
+            if v is None or v == "":
+                return "blank"
+            if isinstance(v, (int, float)) and not isinstance(v, bool):
+                return _number(float(v), 4)
+            return f"'{v}'"
+
+        return f"{text(old)} -> {text(new)}" + (f" {u}" if u and nums else "")
+    scale, suffix = 1.0, u
+    if "USD" in u and max(abs(old), abs(new)) >= 1e6:
+        scale, suffix = 1e6, "million " + u
+    a, b = old / scale, new / scale
+    if scale > 1:  # millions: the same decimals on both sides, as few as tell them apart
+        for decimals in range(1, 10):
+            sa, sb = f"{a:,.{decimals}f}", f"{b:,.{decimals}f}"
+            if sa != sb:
+                break
+        return f"{sa} -> {sb} {suffix}"
+    for digits in range(3, 13):
+        sa, sb = _number(a, digits), _number(b, digits)
+        if sa != sb:
+            break
+    return f"{sa} -> {sb}" + (f" {suffix}" if suffix else "")
+
+
+def _where_and_label(key: str, result) -> tuple[str, str, str]:
+    """Return (cell, label, unit) of an input value's key in the current run."""
+    from .assumptions import ASSUMPTIONS
+    from .report.sheets import criterion_unit
+    from .workbook import tables as T
+    from .workbook.schema import SHEETS
+
+    inputs = result.inputs
+    labels = {c.key: c.label or c.key for c in inputs.criteria}
+    kind, _, rest = key.partition(":")
+    if kind == "a":
+        a = ASSUMPTIONS.get(rest)
+        short = a.note.split(";")[0].split(" (")[0].strip().rstrip(".") if a else ""
+        short = short[:1].lower() + short[1:] if short else ""
+        label = f"{rest} ({short})" if short else rest
+        cell = inputs.where(T.ASSUMPTIONS, "value", rest)
+        if cell == T.ASSUMPTIONS:
+            cell = f"{T.ASSUMPTIONS} (default)"
+        return cell, label, a.unit if a else ""
+    if kind == "w":
+        name, _, crit = rest.partition(":")
+        ws = next((w for w in inputs.weight_sets if w.name == name), None)
+        row = inputs.rows.get(T.CRITERIA, {}).get(crit)
+        cell = f"{T.CRITERIA}!{ws.column}{row}" if ws and ws.column and row else T.CRITERIA
+        several = len(inputs.weight_sets) > 1
+        label = f"weight on {labels.get(crit, crit)}" + (f" in set {name}" if several else "")
+        unit = "rank" if ws is not None and ws.kind == "rank" else "points"
+        return cell, label, unit
+    if kind == "c":
+        crit, _, name = rest.partition(":")
+        label = f"{name.replace('_', ' ')} of {labels.get(crit, crit)}"
+        unit = "%" if name == "uncertainty_pct" else criterion_unit(crit)
+        return inputs.where(T.CRITERIA, name, crit), label, unit
+    if kind == "r":
+        cid, _, name = rest.partition(":")
+        fields = {f.key: f for f in SHEETS[T.CORRIDORS].fields}
+        unit = fields[name].unit if name in fields else ""
+        return inputs.where(T.CORRIDORS, name, cid), f"{name} of {cid}", unit
+    if kind == "b":
+        rows = inputs.rows.get(T.BUDGET, {})
+        return (
+            inputs.where(T.BUDGET, "capital_usd", int(rest)) if rows else T.BUDGET,
+            (f"budget for {rest}"),
+            "USD",
         )
-    pw, cw = previous.get("weights", {}), current.get("weights", {})
-    for key in sorted(set(pw) | set(cw)):
-        a, b = pw.get(key), cw.get(key)
-        if a is None:
-            out.append(f"Criterion {key} was added (weight {b:.3f}).")
-        elif b is None:
-            out.append(f"Criterion {key} was removed (weight was {a:.3f}).")
-        elif abs(a - b) > 5e-4:
-            out.append(f"Weight on {key} changed from {a:.3f} to {b:.3f}.")
+    if kind == "j":
+        return inputs.where(T.JURISDICTIONS, "readiness", rest), f"readiness of {rest}", ""
+    if rest == "--weights":
+        return "--weights", "weight set used", ""
+    if rest == "--samples":
+        return "--samples", "Monte Carlo samples", "samples"
+    if rest == "--seed":
+        return "--seed", "random seed", ""
+    return "--weight", f"share of {labels.get(rest.partition(':')[2], rest)}", "%"
+
+
+def _differ(a, b) -> bool:
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)):
+        return abs(a - b) > SAME * max(1.0, abs(a), abs(b))
+    return a != b
+
+
+# -- comparing two states ---------------------------------------------------------------
+
+_ORDER = {"o": 0, "a": 1, "c": 2, "w": 3, "r": 4, "b": 5, "j": 6}
+
+
+def compare(previous: dict | None, current: dict, result=None) -> dict:
+    """Return what changed from ``previous`` to ``current`` (two :func:`run_state` dicts).
+
+    Returns
+    -------
+    dict
+        ``inputs`` (``cell``, ``label``, ``old``, ``new``, ``unit``),
+        ``criteria`` (``corridor_id``, ``criterion``, ``old``, ``new``, and
+        ``label``, ``unit``) and ``moved`` (``corridor_id``, ``name``,
+        ``old_rank``, ``new_rank``, ``old_tier``, ``new_tier``); all empty
+        when ``previous`` is None.
+    """
+    from .report.sheets import criterion_unit
+
+    out: dict = {"inputs": [], "criteria": [], "moved": []}
+    if not previous:
+        return out
+    labels = {}
+    if result is not None:
+        labels = {c.key: c.label or c.key for c in result.criteria}
+    old_in, new_in = previous.get("inputs") or {}, current.get("inputs") or {}
     before = {r["corridor_id"]: r for r in previous.get("ranking", [])}
     now = {r["corridor_id"]: r for r in current.get("ranking", [])}
-    for cid in sorted(set(now) - set(before)):
-        out.append(
-            f"{now[cid]['name']} ({cid}) is new in the ranking, at rank {now[cid]['rank']}."
+    old_ids = {k.split(":")[1] for k in old_in if k.startswith("r:") and k.endswith(":name")}
+    new_ids = {k.split(":")[1] for k in new_in if k.startswith("r:") and k.endswith(":name")}
+    if not old_in:  # an older state: only the ranked corridors are known
+        old_ids, new_ids = set(before), set(now)
+    changed = []
+    for key in new_in.keys() & old_in.keys():
+        if key.startswith("r:") and key.split(":")[1] not in old_ids:
+            continue
+        if _differ(old_in[key], new_in[key]):
+            changed.append(key)
+    for key in new_in.keys() - old_in.keys():
+        if key.startswith("o:--weight:"):
+            changed.append(key)
+    for key in old_in.keys() - new_in.keys():
+        if key.startswith("o:--weight:"):
+            changed.append(key)
+    changed.sort(key=lambda k: (_ORDER.get(k[0], 9), k))
+    for key in changed:
+        cell, label, unit = _where_and_label(key, result) if result is not None else (key, key, "")
+        out["inputs"].append(
+            {
+                "cell": cell,
+                "label": label,
+                "old": old_in.get(key),
+                "new": new_in.get(key),
+                "unit": _unit(unit),
+            }
         )
-    for cid in sorted(set(before) - set(now)):
-        out.append(f"{before[cid]['name']} ({cid}) is no longer ranked.")
-    changed_values = []
-    for cid in sorted(set(now) & set(before)):
+    for cid in sorted(new_ids - old_ids):
+        name = new_in.get(f"r:{cid}:name", (now.get(cid) or {}).get("name", cid))
+        cell = result.inputs.where("Corridors", "corridor_id", cid) if result else "Corridors"
+        out["inputs"].append(
+            {"cell": cell, "label": f"corridor added: {name}", "old": None, "new": cid, "unit": ""}
+        )
+    for cid in sorted(old_ids - new_ids):
+        name = old_in.get(f"r:{cid}:name", (before.get(cid) or {}).get("name", cid))
+        out["inputs"].append(
+            {
+                "cell": "Corridors",
+                "label": f"corridor removed: {name}",
+                "old": cid,
+                "new": None,
+                "unit": "",
+            }
+        )
+    for cid in [c for c in now if c in before]:
         a, b = before[cid].get("criteria", {}), now[cid].get("criteria", {})
-        for key in sorted(set(a) & set(b)):
+        for key in [k for k in b if k in a]:
             x, y = a[key], b[key]
-            if x is None or y is None:
+            if x is None or y is None or not _differ(x, y):
                 continue
-            if abs(x - y) > 1e-9 * max(1.0, abs(x), abs(y)):
-                changed_values.append(f"{key} of {cid} {x:.4g} -> {y:.4g}")
-    if changed_values:
-        shown = "; ".join(changed_values[:8])
-        more = f" (and {len(changed_values) - 8} more)" if len(changed_values) > 8 else ""
-        out.append(f"Criterion values changed: {shown}{more}.")
-    moved = []
-    for cid in sorted(set(now) & set(before), key=lambda c: now[c]["rank"]):
+            out["criteria"].append(
+                {
+                    "corridor_id": cid,
+                    "criterion": key,
+                    "old": x,
+                    "new": y,
+                    "label": labels.get(key, key),
+                    "unit": _unit(criterion_unit(key)),
+                }
+            )
+    for cid in [c for c in now if c in before]:
         r0, r1 = before[cid]["rank"], now[cid]["rank"]
-        if r0 != r1:
-            moved.append(f"{now[cid]['name']} {'up' if r1 < r0 else 'down'} from {r0} to {r1}")
-    if moved:
-        out.append("Moved: " + "; ".join(moved) + ".")
-    elif before and now and not out:
-        out.append("The order is unchanged.")
-    elif before and now:
-        out.append("No corridor changed rank.")
+        t0, t1 = before[cid].get("tier"), now[cid].get("tier")
+        if r0 != r1 or (t0 is not None and t1 is not None and t0 != t1):
+            out["moved"].append(
+                {
+                    "corridor_id": cid,
+                    "name": now[cid].get("name", cid),
+                    "old_rank": r0,
+                    "new_rank": r1,
+                    "old_tier": t0,
+                    "new_tier": t1,
+                }
+            )
+    out["moved"].sort(key=lambda m: (m["new_rank"], m["corridor_id"]))
     return out
+
+
+def describe(changes: dict, *, limit: int | None = None) -> list[str]:
+    """Return the changes as plain sentences, inputs first, then values, then moves.
+
+    ``limit`` caps the lines of each of the three parts, with one line
+    saying how many more there are.
+    """
+    if changes.get("previous") is None and not any(
+        changes.get(k) for k in ("inputs", "criteria", "moved")
+    ):
+        return []
+
+    def capped(lines: list[str], what: str) -> list[str]:
+        if limit is None or len(lines) <= limit:
+            return lines
+        return lines[:limit] + [f"... and {len(lines) - limit} more {what} (all in the workbook)"]
+
+    inputs = []
+    for c in changes.get("inputs", []):
+        if c["label"].startswith(("corridor added", "corridor removed")):
+            inputs.append(f"{c['cell']}: {c['label']}")
+        else:
+            pair = format_pair(c["old"], c["new"], c["unit"])
+            inputs.append(f"{c['cell']}, {c['label']}: {pair}")
+    values = [
+        f"{c['label']} of {c['corridor_id']}: {format_pair(c['old'], c['new'], c['unit'])}"
+        for c in changes.get("criteria", [])
+    ]
+    moved = []
+    for m in changes.get("moved", []):
+        line = f"{m['corridor_id']}: {ordinal(m['old_rank'])} -> {ordinal(m['new_rank'])}"
+        if m.get("old_tier") is not None and m.get("new_tier") is not None:
+            if m["old_tier"] != m["new_tier"]:
+                line += f" (tier {m['old_tier']} -> {m['new_tier']})"
+        moved.append(line)
+    lines = capped(inputs, "changed inputs") + capped(values, "changed values")
+    if moved:
+        lines += capped(moved, "moves")
+    elif lines:
+        lines.append("No corridor changed rank.")
+    else:
+        lines.append("Nothing changed: the same inputs give the same order.")
+    return lines
+
+
+def json_changes(changes: dict) -> dict:
+    """Return the ``changes`` field of the JSON summary."""
+    return {
+        "previous": changes.get("previous"),
+        "inputs": list(changes.get("inputs", [])),
+        "criteria": [
+            {k: c[k] for k in ("corridor_id", "criterion", "old", "new", "label", "unit")}
+            for c in changes.get("criteria", [])
+        ],
+        "moved": list(changes.get("moved", [])),
+    }

@@ -10,12 +10,12 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-import time
 import traceback
 from pathlib import Path
 
 from . import __version__
 from .errors import InputError
+from .progress import Progress
 
 EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
 
@@ -59,8 +59,9 @@ def _parser() -> argparse.ArgumentParser:
         "--weight",
         action="append",
         default=[],
-        metavar="KEY=VALUE",
-        help="override one criterion's weight for this run (repeatable)",
+        metavar="KEY=SHARE",
+        help="set one criterion's final share of the weight in percent (40 or 40%%); the "
+        "others keep their proportions (repeatable, one per criterion)",
     )
     r.add_argument(
         "--samples",
@@ -84,58 +85,29 @@ def _err(*lines: str) -> None:
 
 
 def parse_overrides(pairs: list[str]) -> dict[str, float]:
-    """Parse ``KEY=VALUE`` pairs of ``--weight``; raise InputError when malformed."""
-    out: dict[str, float] = {}
-    for pair in pairs:
-        key, sep, value = pair.partition("=")
-        try:
-            if not sep or not key.strip():
-                raise ValueError
-            out[key.strip().lower().replace(" ", "_")] = float(value.strip().rstrip("%")) / (
-                100.0 if value.strip().endswith("%") else 1.0
-            )
-        except ValueError:
-            raise InputError.one(
-                "--weight",
-                f"{pair!r} is not KEY=VALUE",
-                "write for example --weight capital_cost=30",
-            ) from None
-    return out
+    """Parse ``KEY=SHARE`` pairs of ``--weight`` into shares in percent; see parse_shares."""
+    from .score.override import parse_shares
 
-
-class Progress:
-    """A plain progress bar on standard error."""
-
-    def __init__(self, enabled: bool):
-        self.enabled = enabled and sys.stderr.isatty()
-        self.last = 0.0
-
-    def __call__(self, done: int, total: int) -> None:
-        if not self.enabled or total <= 0:
-            return
-        now = time.monotonic()
-        if done < total and now - self.last < 0.1:
-            return
-        self.last = now
-        width = 30
-        filled = int(width * done / total)
-        sys.stderr.write(f"\rrobustness [{'#' * filled}{'.' * (width - filled)}] {done}/{total}")
-        if done >= total:
-            sys.stderr.write("\n")
-        sys.stderr.flush()
+    return parse_shares(pairs)
 
 
 def cmd_template(args) -> int:
+    from .files import make_out_dir, os_error, shown
     from .workbook.template import write_template
 
     path: Path = args.path
     if path.suffix.lower() != ".xlsx":
         raise InputError.one(
-            str(path), "the template must be an .xlsx file", "name it like inputs.xlsx"
+            shown(path), "the template must be an .xlsx file", "name it like inputs.xlsx"
         )
-    if path.exists():
-        raise InputError.one(str(path), "a file of this name exists", "choose a new file name")
-    write_template(path)
+    if path.exists() or path.is_symlink():
+        raise InputError.one(shown(path), "a file of this name exists", "choose a new file name")
+    make_out_dir(path.parent, flag="the template's path")
+    try:
+        write_template(path)
+    except OSError as exc:
+        raise os_error(exc, path) from exc
+    path = shown(path)
     print(f"Wrote the input template to {path}. Fill it in, then run: ranker check {path}")
     return EXIT_OK
 
@@ -155,21 +127,28 @@ def run_once(args, overrides: dict[str, float]):
 
     samples = DEFAULT_SAMPLES if args.samples is None else args.samples
     seed = DEFAULT_SEED if args.seed is None else args.seed
-    progress = Progress(not (args.quiet or args.json) and samples >= 2000)
-    result = rank_workbook(
-        args.input,
-        weights=args.weights,
-        weight_overrides=overrides,
-        samples=samples,
-        seed=seed,
-        progress=progress,
-    )
-    write_outputs(result, args.out)
+    progress = Progress(not (args.quiet or args.json), samples=samples)
+    try:
+        progress.stage("reading the workbook")
+        result = rank_workbook(
+            args.input,
+            weights=args.weights,
+            weight_overrides=overrides,
+            samples=samples,
+            seed=seed,
+            progress=progress,
+        )
+        progress.stage("writing the results workbook and the justification sheet")
+        write_outputs(result, args.out)
+    finally:
+        progress.close()
     return result
 
 
 #: Rows of the ranking printed on the terminal; the outputs hold them all.
 PRINTED_ROWS = 30
+#: Lines of each part of "what changed" printed on the terminal; the outputs hold them all.
+PRINTED_CHANGES = 12
 
 
 def print_ranking(result, stream=None) -> None:
@@ -179,6 +158,10 @@ def print_ranking(result, stream=None) -> None:
     stream = stream or sys.stdout
     method = result.primary_method
     print(f"Ranking by {method}, weight set '{result.weight_set}':", file=stream)
+    labels = {c.key: c.label for c in result.criteria}
+    shown = ", ".join(f"{labels.get(k, k)} {w:.1%}" for k, w in result.weights.items())
+    given = ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items())
+    print(f"  weights: {shown}" + (f" (after --weight {given})" if given else ""), file=stream)
     ranking = result.ranking
     first = result.robustness.first_rank if has_samples(result.robustness) else None
     for cid, row in ranking.iloc[:PRINTED_ROWS].iterrows():
@@ -195,16 +178,27 @@ def print_ranking(result, stream=None) -> None:
             f"against limit {e['limit']:.4g})",
             file=stream,
         )
-    for line in result.changes:
-        print(f"  changed since the last run: {line}", file=stream)
+    if result.changes:
+        from .changes import describe
+
+        previous = result.change_record.get("previous")
+        print(f"What changed since the last run ({previous}):", file=stream)
+        for line in describe(result.change_record, limit=PRINTED_CHANGES):
+            print(f"  {line}", file=stream)
     for w in result.warnings:
         print(f"warning: {w}", file=sys.stderr)
     print(f"Results workbook: {result.outputs['workbook']}", file=stream)
     print(f"Justification sheet: {result.outputs['html']}", file=stream)
+    if "geojson" in result.outputs:
+        print(f"Corridors for GIS (GeoJSON): {result.outputs['geojson']}", file=stream)
 
 
 def cmd_run(args) -> int:
+    from .files import check_out_dir
+
     overrides = parse_overrides(args.weight)
+    if args.out is not None:
+        check_out_dir(args.out)
     if args.watch:
         from .watch import watch
 
@@ -220,10 +214,14 @@ def cmd_run(args) -> int:
 
 def cmd_demo(args) -> int:
     from .demo import write_demo
+    from .files import make_out_dir, os_error
 
     out: Path = args.out
-    out.mkdir(parents=True, exist_ok=True)
-    path = write_demo(out)
+    make_out_dir(out)
+    try:
+        path = write_demo(out)
+    except OSError as exc:
+        raise os_error(exc, out) from exc
     run_args = argparse.Namespace(
         input=path,
         out=out,
@@ -235,12 +233,44 @@ def cmd_demo(args) -> int:
         quiet=False,
         watch=False,
     )
+    from .files import shown
+
     print_ranking(run_once(run_args, {}))
-    print(f"Demo input workbook: {path}")
+    print(f"Demo input workbook: {shown(path)}")
     return EXIT_OK
 
 
 COMMANDS = {"template": cmd_template, "check": cmd_check, "run": cmd_run, "demo": cmd_demo}
+
+
+def _safe_streams() -> None:
+    """Make standard output and error safe to write: present, and never an encoding error.
+
+    A closed standard output (``ranker run x >&-``) becomes a sink; a file
+    name that is not valid UTF-8 prints with its odd bytes escaped.
+    """
+    import os
+
+    for name in ("stdout", "stderr"):
+        stream = getattr(sys, name)
+        if stream is None:
+            setattr(sys, name, open(os.devnull, "w", encoding="utf-8"))  # noqa: SIM115
+        elif hasattr(stream, "reconfigure"):
+            try:
+                stream.reconfigure(errors="backslashreplace")
+            except (OSError, ValueError):
+                pass
+
+
+def _quiet_pipe() -> None:
+    """After a broken pipe, send further output nowhere (``ranker run --json | head``)."""
+    import os
+
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError, AttributeError):
+        pass
 
 
 def main(argv: list[str] | None = None) -> int:
@@ -267,10 +297,17 @@ def _plain_warning(message, category, filename, lineno, file=None, line=None) ->
 def _main(argv: list[str] | None) -> int:
     from .crash import Terminated, stop_on_sigterm, write_error_log
 
+    _safe_streams()
     args = _parser().parse_args(argv)
     try:
         with stop_on_sigterm():  # a kill unwinds like Ctrl-C: no temporary file is left
-            return COMMANDS[args.command](args)
+            code = COMMANDS[args.command](args)
+            sys.stdout.flush()
+            return code
+    except BrokenPipeError:
+        # The reader went away (``| head``): the outputs are written; nothing to report.
+        _quiet_pipe()
+        return EXIT_OK
     except InputError as exc:
         _err(*(str(p) for p in exc.problems))
         _err(f"{len(exc.problems)} problem(s) found; nothing was written.")

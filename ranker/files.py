@@ -16,6 +16,8 @@ from .errors import InputError
 #: HTML) so that a later run knows it may replace the file.
 MARKER = "ranker-output"
 HTML_MARKER = f'<meta name="generator" content="{MARKER}">'
+#: The GeoJSON output's marker: the first member of its collection's properties.
+GEOJSON_MARKER = f'"generator": "{MARKER}"'
 
 
 def written_by_ranker(path: Path) -> bool:
@@ -31,6 +33,9 @@ def written_by_ranker(path: Path) -> bool:
         if path.suffix.lower() == ".html":
             with open(path, "rb") as f:
                 return HTML_MARKER.encode() in f.read(4096)
+        if path.suffix.lower() == ".geojson":
+            with open(path, "rb") as f:
+                return GEOJSON_MARKER.encode() in f.read(4096)
         with zipfile.ZipFile(path) as z:
             if "docProps/custom.xml" not in z.namelist():
                 return False
@@ -69,22 +74,65 @@ def check_replaceable(path: Path) -> None:
         )
 
 
-def check_out_dir(out_dir: Path) -> None:
-    """Raise InputError when ``out_dir`` cannot take the outputs."""
-    if not out_dir.exists():
+def _nearest_existing(path: Path) -> Path:
+    """Return ``path`` or its nearest ancestor that exists (as the file system sees it)."""
+    path = Path(os.path.abspath(path))
+    while not os.path.lexists(path) and path.parent != path:
+        path = path.parent
+    return path
+
+
+def check_out_dir(out_dir: Path, *, flag: str = "--out") -> None:
+    """Raise InputError when ``out_dir`` cannot take the outputs.
+
+    A folder that does not exist yet is fine when it can be created: its
+    nearest existing ancestor must be a folder the user may write.
+    """
+    out_dir = Path(out_dir)
+    base = _nearest_existing(out_dir)
+    if not base.is_dir():
+        what = "is a file, not a folder" if base.exists() else "cannot be reached"
+        if base != Path(os.path.abspath(out_dir)):
+            what += f", so {shown(out_dir)} cannot be made inside it"
+        raise InputError.one(shown(base), what, f"give a folder with {flag}")
+    if not os.access(base, os.W_OK | os.X_OK):
         raise InputError.one(
-            str(out_dir),
-            "the output folder does not exist",
-            "create it, or choose another with --out",
+            shown(base),
+            "the folder is read-only for you"
+            + (
+                ""
+                if base == out_dir
+                else f", so no folder can be created inside it for {shown(out_dir)}"
+            ),
+            f"choose a folder you can write with {flag}",
         )
-    if not out_dir.is_dir():
-        raise InputError.one(str(out_dir), "is not a folder", "give a folder with --out")
-    if not os.access(out_dir, os.W_OK):
-        raise InputError.one(
-            str(out_dir),
-            "the output folder is read-only",
-            "choose a folder you can write with --out",
-        )
+
+
+def make_out_dir(out_dir: Path, *, flag: str = "--out") -> bool:
+    """Create ``out_dir`` (and missing parents) where needed; return True if created.
+
+    Raises
+    ------
+    InputError
+        Where a file stands in the way or the place is not writable.
+    """
+    out_dir = Path(out_dir)
+    check_out_dir(out_dir, flag=flag)
+    if out_dir.is_dir():
+        return False
+    try:
+        out_dir.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise os_error(exc, out_dir) from exc
+    return True
+
+
+def shown(path) -> str:
+    """Return ``path`` as printable text (bytes that are not UTF-8 shown as U+FFFD)."""
+    text = os.fspath(path)
+    if isinstance(text, bytes):
+        return text.decode("utf-8", "replace")
+    return text.encode("utf-8", "surrogateescape").decode("utf-8", "replace")
 
 
 def _default_mode() -> int:
@@ -176,14 +224,14 @@ def write_all_atomic(files: dict[Path, bytes]) -> None:
         for tmp in temps.values():
             _remove(tmp)
         if isinstance(exc, OSError):
-            raise _os_error(exc, current) from exc
+            raise os_error(exc, current) from exc
         raise
     for bak in backups.values():
         _remove(bak)
 
 
-def _os_error(exc: OSError, path: Path | None = None) -> InputError:
-    where = str(path) if path is not None else (exc.filename or "output")
+def os_error(exc: OSError, path: Path | None = None) -> InputError:
+    where = shown(path) if path is not None else shown(exc.filename or "output")
     if exc.errno == errno.ENOSPC:
         return InputError.one(
             str(where), "the disk is full", "free some space or choose another --out"
@@ -193,6 +241,10 @@ def _os_error(exc: OSError, path: Path | None = None) -> InputError:
             str(where),
             "cannot write here (read-only, or the file is open in another program)",
             "close the file in the spreadsheet program, or choose another folder with --out",
+        )
+    if exc.errno in (errno.ENOTDIR, errno.EEXIST):
+        return InputError.one(
+            str(where), "a file stands where a folder is needed", "give a folder with --out"
         )
     if exc.errno == errno.ENOENT:
         return InputError.one(

@@ -8,7 +8,6 @@ stress results -> plan. Reports are written from the :class:`Result` by
 from __future__ import annotations
 
 import datetime as _dt
-import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -17,6 +16,7 @@ import pandas as pd
 
 from .assumptions import resolve
 from .errors import InputError, Problem, Problems
+from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
 
@@ -42,14 +42,15 @@ def rank_workbook(
     weights : str, optional
         Name of the weight set to use; default the first set.
     weight_overrides : mapping, optional
-        Criterion key to weight points replacing that criterion's points in
-        the chosen set before renormalising (``--weight KEY=VALUE``).
+        Criterion key to its final share of the weight in percent; the other
+        criteria keep their proportions (``--weight KEY=SHARE``).
     samples : int
         Monte Carlo samples for rank acceptability; 0 turns it off.
     seed : int
         Seed of the random stream.
     progress : callable, optional
-        Called as ``progress(done, total)`` during the Monte Carlo.
+        Called as ``progress(done, total)`` during the Monte Carlo; where it
+        has a ``stage(name)`` method, that is called as each stage begins.
 
     Returns
     -------
@@ -97,13 +98,19 @@ def rank_inputs(
             f"give at most {MAX_SAMPLES:,} samples",
         )
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
+    stage(progress, "deriving the criteria")
     p = prepare(inputs)
     assumptions, matrix, kept = p.assumptions, p.matrix, p.kept
     warnings = list(p.warnings)
     included = inputs.included
     chosen = choose_weight_set(p.weight_sets, weights)
     used, overrides = apply_overrides(chosen, weight_overrides, included)
+    if overrides:
+        from .score.override import small_share_warnings
 
+        warnings.extend(small_share_warnings(overrides))
+
+    stage(progress, "scoring")
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
     warnings.extend(scores.warnings)
 
@@ -114,6 +121,7 @@ def rank_inputs(
             "robustness analysis skipped."
         )
     elif len(kept) >= 2:
+        stage(progress, "robustness: samples, rank-reversal checks, tipping points")
         robustness = _stress(
             matrix.loc[kept],
             included,
@@ -132,19 +140,26 @@ def rank_inputs(
 
     futures = None
     if inputs.scenarios is not None and len(inputs.scenarios):
+        stage(progress, "futures of the Scenarios sheet")
         futures = _futures(inputs, used, scores)
         warnings.extend(futures.get("warnings", []))
 
     plan = None
     if inputs.budget is not None and len(inputs.budget):
+        stage(progress, "build plan under the budget")
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
+
+    from .geo.network import corridor_network, network_warnings
+
+    warnings.extend(network_warnings(corridor_network(inputs), inputs))
 
     return Result(
         inputs=inputs,
         assumptions=assumptions,
         weight_set=chosen.name,
-        weights=used,
+        weights=effective_weights(included, scores),
+        chosen_weights=used,
         overrides=overrides,
         weight_sets=p.weight_sets,
         criteria=included,
@@ -296,7 +311,7 @@ def choose_weight_set(sets: list, name: str | None):
     if name is None:
         return board[0] if board else sets[0]
     for s in sets:
-        if s.name == normalize_key(name):
+        if s.name.lower() == normalize_key(name):
             return s
     raise InputError.one(
         "--weights",
@@ -310,36 +325,29 @@ def apply_overrides(
     overrides: Mapping[str, float] | None,
     included: list[CriterionSpec],
 ) -> tuple[dict[str, float], dict[str, float]]:
-    """Replace some criteria's weights in the chosen set and renormalise it to sum 1.
+    """Set some criteria's final shares of the chosen set; the others keep their proportions.
 
-    For a set of points (the ``weight`` columns) an override is in the same
-    points the planner typed: ``--weight capital_cost=40`` replaces capital
-    cost's points by 40. For sets made otherwise (rank order, pairwise,
-    objective) it replaces the normalised weight. Either way the set is then
-    divided by its sum.
+    ``overrides`` maps a criterion key to its final share in percent
+    (``--weight capital_cost=40``: capital cost gets 40 % of the weight),
+    for every kind of set; see :func:`ranker.score.override.apply_shares`.
+    Returns the final weights (summing to 1) and the shares as given [%].
     """
+    from .score.override import apply_shares
+
     if not overrides:
         return dict(chosen.weights), {}
-    base = dict(chosen.given) if chosen.how == "points" else dict(chosen.weights)
     keys = [c.key for c in included]
-    problems = Problems()
-    for key, value in overrides.items():
-        if key not in keys:
-            problems.add(
-                "--weight", f"{key} is not an included criterion", "use one of " + ", ".join(keys)
-            )
-        elif not math.isfinite(value) or value < 0:
-            problems.add(
-                "--weight", f"{key}={value} is not a weight", "give a number of 0 or more"
-            )
-    problems.raise_if_any()
-    base.update({k: float(v) for k, v in overrides.items()})
-    total = sum(base.get(k, 0.0) for k in keys)
-    if total <= 0:
-        raise InputError.one(
-            "--weight", "every weight of the set is zero", "give at least one weight above 0"
-        )
-    return {k: base.get(k, 0.0) / total for k in keys}, dict(overrides)
+    return apply_shares(chosen.weights, overrides, keys), dict(overrides)
+
+
+def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]:
+    """Return the weights used in scoring for every included criterion [-].
+
+    A criterion left out of scoring (the same value for every corridor) has
+    weight 0 and the rest keep the shares :func:`ranker.score.score_matrix`
+    rescaled them to, so these weights reproduce every score.
+    """
+    return {c.key: float(scores.weights.get(c.key, 0.0)) for c in included}
 
 
 def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, seed, progress):
@@ -367,6 +375,7 @@ def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, 
         labels={c.key: c.label for c in included},
         names=inputs.corridors["name"].astype(str).to_dict(),
         progress=progress,
+        tier_confidence=float(assumptions["tier_confidence"]),
     )
 
 
@@ -386,7 +395,7 @@ def _futures(inputs: Inputs, used, scores):
             kept, _ = screen(matrix, inputs.included, inputs)
             return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
         except InputError as exc:  # name the Scenarios cells, not the Assumptions sheet
-            from .workbook.places import in_scenario
+            from .workbook.scenario_cells import in_scenario
 
             name = next((n for n, o in scenarios.items() if o == overrides), "")
             raise in_scenario(inputs, name, overrides, exc) from None

@@ -15,6 +15,11 @@ from . import __version__
 if TYPE_CHECKING:  # annotations only
     import pandas as pd
 
+    from .derive.run import Derivation
+    from .plan.phasing import Plan
+    from .score.scoring import Scores
+    from .score.weights import ResolvedWeights
+    from .stress import Robustness
     from .workbook.tables import CriterionSpec, Inputs
 
 #: Seed used when none is given, so two runs of one input give identical outputs.
@@ -36,10 +41,16 @@ class Result:
     weight_set : str
         Name of the weight set used.
     weights : dict of str to float
-        Weights used, normalised to sum 1, after ``--weight`` overrides [-].
+        Weights used in scoring, one per included criterion, summing to 1:
+        after ``--weight`` overrides, with a criterion left out of scoring
+        (the same value for every corridor) at 0 and the others rescaled [-].
+        Every score is reproduced from these and the matrix.
+    chosen_weights : dict of str to float
+        The chosen set after overrides, normalised to sum 1, before any
+        criterion was left out [-].
     overrides : dict of str to float
         ``--weight KEY=VALUE`` overrides as given (points before renormalising).
-    weight_sets : list
+    weight_sets : list of ResolvedWeights
         Every weight set (:class:`ranker.score.weights.ResolvedWeights`).
     criteria : list of CriterionSpec
         The included criteria, in sheet order.
@@ -66,6 +77,11 @@ class Result:
         Monte Carlo settings used.
     started : str
         Start time, ISO 8601 in UTC.
+    changes : list of str
+        What changed since the last run, in plain sentences (empty without one).
+    change_record : dict
+        The same as data: ``previous`` (path or None), ``inputs``,
+        ``criteria``, ``moved`` (:func:`ranker.changes.compare`).
     """
 
     inputs: Inputs
@@ -73,23 +89,41 @@ class Result:
     weight_set: str
     weights: dict[str, float]
     overrides: dict[str, float]
-    weight_sets: list
+    weight_sets: list[ResolvedWeights]
     criteria: list[CriterionSpec]
     matrix: pd.DataFrame
     provenance: dict[str, str]
-    derivation: object | None
+    derivation: Derivation | None
     excluded: list[dict]
-    scores: object
-    robustness: object | None
+    scores: Scores
+    robustness: Robustness | None
     futures: dict | None
-    plan: object | None
+    plan: Plan | None
     warnings: list[str]
     samples: int
     seed: int
     started: str
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
+    chosen_weights: dict[str, float] = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
+    change_record: dict = field(
+        default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}
+    )
+
+    def weight_notes(self) -> dict[str, str]:
+        """Criterion to why its weight used differs from the chosen one ("" where not)."""
+        dropped = set(getattr(self.scores, "dropped", []) or [])
+        out = {}
+        for key, used in self.weights.items():
+            chosen = self.chosen_weights.get(key, used)
+            if key in dropped:
+                out[key] = "left out: the same value for every corridor"
+            elif abs(chosen - used) > 1e-12:
+                out[key] = "rescaled after a criterion was left out"
+            else:
+                out[key] = ""
+        return out
 
     @property
     def primary_method(self) -> str:
@@ -98,8 +132,10 @@ class Result:
 
     @cached_property
     def ranking(self) -> pd.DataFrame:
-        """Kept corridors sorted by rank: rank, name, then one score column per method.
+        """Kept corridors sorted by rank: rank, name, tier, then score columns per method.
 
+        ``tier`` is 1 for the first tier (:mod:`ranker.stress.tiers`); without
+        a stress test (one corridor left) tiers follow exact ties of rank.
         Built once, on first use, for every writer that reads it; copy it
         before changing it.
         """
@@ -115,7 +151,22 @@ class Result:
             table[f"rank_{method}"] = s.ranks[method]
         table.index.name = "corridor_id"
         order = np.lexsort((np.arange(len(table)), table["rank"].to_numpy()))
-        return table.iloc[order]
+        table = table.iloc[order]
+        tier = getattr(self.robustness, "tier", None)
+        if tier is not None and len(tier):
+            column = tier.reindex(table.index).to_numpy()
+        else:
+            ranks = table["rank"].to_numpy()
+            column = np.concatenate([[1], 1 + np.cumsum(ranks[1:] > ranks[:-1])])[: len(ranks)]
+        table.insert(2, "tier", column.astype(int))
+        return table
+
+    @cached_property
+    def network(self):
+        """Positions of the corridors (:class:`ranker.geo.Network`), or None without any."""
+        from .geo import corridor_network
+
+        return corridor_network(self.inputs)
 
     def to_json(self) -> dict:
         """Return the JSON summary of the contract (plus added fields)."""

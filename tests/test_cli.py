@@ -7,6 +7,7 @@ import json
 
 import pytest
 from openpyxl import load_workbook
+from openpyxl.utils import get_column_letter
 
 from ranker.cli import main, parse_overrides
 from ranker.errors import InputError
@@ -49,15 +50,16 @@ def test_run_json_matches_workbook_ranking(direct_workbook, capsys):
     assert _sha(direct_workbook) == before  # the input is never modified
 
 
-def test_weight_override_is_renormalised_and_recorded(direct_workbook, capsys):
+def test_weight_override_is_a_final_share_and_recorded(direct_workbook, capsys):
     code = main(
         ["run", str(direct_workbook), "--json", "--samples", "0", "--weight", "cost_musd=80"]
     )
     summary = json.loads(capsys.readouterr().out)
     assert code == 0
-    # points 80, 40, 20 -> 80/140, 40/140, 20/140 (common practice: renormalise to sum 1)
-    assert summary["weights"]["cost_musd"] == pytest.approx(80 / 140)
-    assert summary["weights"]["risk"] == pytest.approx(20 / 140)
+    # points 40, 40, 20: cost gets 80 %, the others share 20 % as 40 : 20
+    assert summary["weights"]["cost_musd"] == pytest.approx(0.8, abs=1e-12)
+    assert summary["weights"]["freight_share"] == pytest.approx(0.2 * 40 / 60, abs=1e-12)
+    assert summary["weights"]["risk"] == pytest.approx(0.2 * 20 / 60, abs=1e-12)
     assert summary["weight_overrides"] == {"cost_musd": 80.0}
 
 
@@ -87,15 +89,67 @@ def test_refuses_to_replace_foreign_file(direct_workbook, capsys):
     assert not direct_workbook.with_name("direct-ranked.xlsx").exists()
 
 
-def test_rerun_replaces_own_outputs(direct_workbook, capsys):
-    assert main(["run", str(direct_workbook), "--samples", "0", "--quiet"]) == 0
-    assert main(["run", str(direct_workbook), "--samples", "0", "--quiet"]) == 0
+def test_rerun_of_the_results_workbook_refreshes_it_in_place(direct_workbook, capsys):
+    """Run, edit a weight in the results workbook, run that workbook: two outputs, edit kept."""
+    assert main(["run", str(direct_workbook), "--samples", "0", "--json"]) == 0
+    first = {r["corridor_id"]: r["rank"] for r in json.loads(capsys.readouterr().out)["ranking"]}
     out = direct_workbook.with_name("direct-ranked.xlsx")
-    # re-running the output workbook replaces its result sheets, never duplicates them
-    assert main(["run", str(out), "--samples", "0", "--quiet"]) == 0
-    again = load_workbook(direct_workbook.with_name("direct-ranked-ranked.xlsx"))
+    wb = load_workbook(out)
+    ws = wb["Criteria"]
+    heads = [c.value for c in ws[1]]
+    col = heads.index("weight") + 1
+    rows = {ws.cell(row=r, column=1).value: r for r in range(2, ws.max_row + 1)}
+    cell = ws.cell(row=rows["risk"], column=col)
+    assert cell.value == 20
+    cell.value = 400  # risk (a cost) now dominates the weights
+    wb.save(out)
+    capsys.readouterr()
+    assert main(["run", str(out), "--samples", "0", "--json"]) == 0
+    summary = json.loads(capsys.readouterr().out)
+    folder = sorted(p.name for p in direct_workbook.parent.iterdir())
+    assert folder == ["direct-ranked.html", "direct-ranked.xlsx", "direct.xlsx"]
+    assert summary["outputs"]["workbook"] == str(out)
+    again = load_workbook(out)
+    assert again["Criteria"].cell(row=rows["risk"], column=col).value == 400  # edit kept
     assert again.sheetnames.count("Ranking") == 1
     assert not any(name.startswith("Ranking (") for name in again.sheetnames)
+    changes = summary["changes"]
+    assert changes["previous"] == str(out)
+    where = f"Criteria!{get_column_letter(col)}{rows['risk']}"
+    assert {
+        "cell": where,
+        "label": "weight on Delivery risk in set default",
+        "old": 20,
+        "new": 400,
+        "unit": "points",
+    } in changes["inputs"]
+    now = {r["corridor_id"]: r["rank"] for r in summary["ranking"]}
+    moved = {m["corridor_id"]: (m["old_rank"], m["new_rank"]) for m in changes["moved"]}
+    assert moved == {c: (first[c], now[c]) for c in now if first[c] != now[c]}
+    assert moved  # the edit does move corridors
+    for m in changes["moved"]:
+        assert set(m) >= {"corridor_id", "old_rank", "new_rank", "old_tier", "new_tier"}
+
+
+def test_running_the_input_again_compares_with_its_results(direct_workbook, capsys):
+    assert main(["run", str(direct_workbook), "--samples", "0", "--quiet"]) == 0
+    assert (
+        main(["run", str(direct_workbook), "--samples", "0", "--json", "--weight", "risk=60"]) == 0
+    )
+    changes = json.loads(capsys.readouterr().out)["changes"]
+    assert changes["previous"] == str(direct_workbook.with_name("direct-ranked.xlsx"))
+    assert {
+        "cell": "--weight",
+        "label": "share of Delivery risk",
+        "old": None,
+        "new": 60.0,
+        "unit": "%",
+    } in changes["inputs"]
+    assert sorted(p.name for p in direct_workbook.parent.iterdir()) == [
+        "direct-ranked.html",
+        "direct-ranked.xlsx",
+        "direct.xlsx",
+    ]
 
 
 def test_missing_input_file(tmp_path, capsys):
@@ -117,8 +171,9 @@ def test_template_refuses_existing(tmp_path, capsys):
 
 def test_parse_overrides():
     assert parse_overrides(["a=1", "B = 2.5"]) == {"a": 1.0, "b": 2.5}
-    assert parse_overrides(["a=40%"]) == {"a": 0.4}
-    with pytest.raises(InputError, match="--weight: 'a' is not KEY=VALUE"):
+    assert parse_overrides(["a=40%"]) == {"a": 40.0}
+    assert parse_overrides(["a=40"]) == {"a": 40.0}
+    with pytest.raises(InputError, match="--weight: 'a' is not KEY=SHARE"):
         parse_overrides(["a"])
 
 

@@ -26,8 +26,10 @@ def test_foreign_file_is_not_replaced(tmp_path):
 
 
 def test_missing_and_read_only_folders(tmp_path):
-    with pytest.raises(InputError, match="does not exist"):
-        check_out_dir(tmp_path / "nope")
+    check_out_dir(tmp_path / "nope" / "deeper")  # a folder that can be created is fine
+    (tmp_path / "f").write_text("x")
+    with pytest.raises(InputError, match="is a file, not a folder"):
+        check_out_dir(tmp_path / "f" / "sub")
     ro = tmp_path / "ro"
     ro.mkdir()
     os.chmod(ro, 0o500)

@@ -61,4 +61,5 @@ def test_watch_reruns_on_save_and_reports_changes(direct_workbook, tmp_path, cap
     thread.join()
     assert len(results) == 2
     out = capsys.readouterr().out
-    assert "changed since the last run: Weight on cost_musd changed" in out
+    assert "What changed since the last run" in out
+    assert "weight on Cost in set default: 40 -> 90 points" in out

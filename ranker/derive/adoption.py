@@ -267,11 +267,6 @@ class AdoptionPath:
     frame: pd.DataFrame
     warnings: list[str] = field(default_factory=list)
 
-    def share_in(self, year: int) -> float:
-        """Return the electric share of the stock in ``year`` [-]."""
-        row = self.frame.loc[self.frame["year"] == year, "electric_share"]
-        return float(row.iloc[0])
-
 
 def adoption_path(
     *, model: str, assumptions: dict, end_year: int, table: pd.DataFrame | None = None

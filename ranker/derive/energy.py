@@ -28,14 +28,7 @@ from __future__ import annotations
 
 import numpy as np
 
-#: Standard acceleration of gravity, exact by definition (3rd CGPM, 1901) [m/s^2].
-G_M_PER_S2 = 9.80665
-#: The international foot, 12 inches of 0.0254 m (1959 agreement), exact [m].
-M_PER_FT = 12 * 0.0254
-#: The international avoirdupois pound, 7000 grains of 64.79891 mg (1959 agreement) [kg].
-KG_PER_LB = 7000 * 64.79891e-6
-#: Joules in one kilowatt-hour, 1000 W x 3600 s [J/kWh].
-J_PER_KWH = 1000.0 * 3600.0
+from ..constants import G_M_PER_S2, J_PER_KWH, KG_PER_LB, M_PER_FT
 
 
 def flat_energy_per_mile(length_mi: np.ndarray, *, energy_kwh_per_mi: float) -> np.ndarray:

@@ -45,36 +45,6 @@ def discount_factor_compound(years: np.ndarray, *, rate_per_yr: float) -> np.nda
     return (1.0 + rate_per_yr) ** -t  # (P/F, i, t) of [1]
 
 
-def npv_end_of_year(cash_flows_usd: np.ndarray, *, rate_per_yr: float) -> np.ndarray:
-    """Compute the net present value of yearly cash flows, first one undiscounted [USD].
-
-    Parameters
-    ----------
-    cash_flows_usd : array_like, shape (..., T)
-        Cash flow of year ``t = 0 .. T-1`` along the last axis [USD].
-    rate_per_yr : float
-        Discount rate [1/yr].
-
-    Returns
-    -------
-    ndarray or float, shape (...)
-        ``sum_t CF_t (1 + i) ** -t`` [USD].
-
-    References
-    ----------
-    .. [1] W. G. Sullivan, E. M. Wicks and C. P. Koelling, "Engineering
-       Economy", 16th ed., Pearson, 2015, ch. 4 (present worth).
-
-    Examples
-    --------
-    >>> round(float(npv_end_of_year([100.0, 110.0], rate_per_yr=0.1)), 9)
-    200.0
-    """
-    cf = np.asarray(cash_flows_usd, dtype=float)
-    factors = discount_factor_compound(np.arange(cf.shape[-1]), rate_per_yr=rate_per_yr)
-    return cf @ factors
-
-
 def capital_recovery_factor(
     rate_per_yr: float | np.ndarray, years: float | np.ndarray
 ) -> np.ndarray:
@@ -111,33 +81,3 @@ def capital_recovery_factor(
     with np.errstate(divide="ignore", invalid="ignore"):
         crf = i * growth / (growth - 1.0)  # (A/P, i, N) of [1]
     return np.where(i == 0.0, 1.0 / n, crf)
-
-
-def present_worth_factor_annuity(
-    rate_per_yr: float | np.ndarray, years: float | np.ndarray
-) -> np.ndarray:
-    """Compute the uniform-series present-worth factor (P/A, i, n) [yr].
-
-    Parameters
-    ----------
-    rate_per_yr : float or array_like
-        Interest (discount) rate ``i`` [1/yr].
-    years : float or array_like
-        Number of end-of-year payments ``n`` [yr].
-
-    Returns
-    -------
-    ndarray
-        ``1 / (A/P, i, n)`` [yr].
-
-    References
-    ----------
-    .. [1] W. G. Sullivan, E. M. Wicks and C. P. Koelling, "Engineering
-       Economy", 16th ed., Pearson, 2015, ch. 4, (P/A, i, N).
-
-    Examples
-    --------
-    >>> round(float(present_worth_factor_annuity(0.07, 10)), 4)
-    7.0236
-    """
-    return 1.0 / capital_recovery_factor(rate_per_yr, years)

@@ -15,6 +15,7 @@ from collections.abc import Iterable
 from pathlib import Path
 
 from ..assumptions import ASSUMPTIONS, Assumption
+from ..builtin import BUILTIN_CRITERIA
 from .needs import NEEDS
 
 #: Assumption groups the derivation reads, in document order.
@@ -136,10 +137,12 @@ COLUMNS: dict[str, tuple[str, str]] = {
     "jurisdiction_miles": ("[mi]", "Sum of the corridor's miles on Corridor miles."),
     "jurisdictions": ("[-]", "Jurisdictions the corridor crosses."),
     "miles_gap": ("[-]", "|jurisdiction_miles - length_mi| / length_mi."),
-    # -- criteria (values) -------------------------------------------------------------------
-    "capital_cost": ("[USD]", "Criterion (cost): capital_cost_usd."),
-    "charging_revenue": ("[USD]", "Criterion (benefit): revenue_npv_usd."),
-    "grid_headroom": ("[-]", "Criterion (benefit): headroom_ratio."),
+    # -- criteria (values), from the registry ------------------------------------------------
+    **{
+        k: (c.unit, f"Criterion ({c.direction}): {c.column}.")
+        for k, c in BUILTIN_CRITERIA.items()
+        if c.column != k
+    },
     # -- adoption path (one row per year) ---------------------------------------------------
     "year": ("[year]", "Calendar year; the first row is analysis_year."),
     "electric_share": ("[-]", "Electric share of the heavy trucks on the road (the stock)."),

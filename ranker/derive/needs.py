@@ -14,6 +14,7 @@ import numpy as np
 import pandas as pd
 
 from ..assumptions import ASSUMPTIONS, parse_default
+from ..builtin import BUILTIN_CRITERIA
 from ..errors import Problems
 from ..workbook.tables import (
     ADOPTION,
@@ -26,21 +27,15 @@ from ..workbook.tables import (
     ASSUMPTIONS as ASSUMPTIONS_SHEET,
 )
 
-#: Criterion key to the (sheet, fields) it needs; ``jurisdiction`` on
-#: Jurisdictions is the sheet's key column.
+#: Criterion key to the (sheet, fields) it needs (from the registry
+#: :data:`ranker.builtin.BUILTIN_CRITERIA`); ``jurisdiction`` on Jurisdictions is
+#: the sheet's key column.
 NEEDS: dict[str, tuple[tuple[str, tuple[str, ...]], ...]] = {
-    "policy_readiness": (
-        (JURISDICTIONS, ("jurisdiction", "readiness")),
-        (CORRIDOR_MILES, ("corridor_id", "jurisdiction", "miles")),
-    ),
-    "capital_cost": ((CORRIDORS, ("length_mi", "trucks_per_day", "grid_headroom_mw")),),
-    "charging_revenue": ((CORRIDORS, ("length_mi", "trucks_per_day")),),
-    "grid_headroom": ((CORRIDORS, ("length_mi", "trucks_per_day", "grid_headroom_mw")),),
-    "terrain_penalty": ((CORRIDORS, ("length_mi", "climb_ft")),),
+    k: c.needs for k, c in BUILTIN_CRITERIA.items()
 }
 
 #: Criteria that need the charger sizing (and so the adoption path).
-SIZED = ("capital_cost", "charging_revenue", "grid_headroom")
+SIZED = tuple(k for k, c in BUILTIN_CRITERIA.items() if c.sized)
 
 #: Corridors field to (lowest value, whether the lowest value itself is refused, fix).
 FIELD_RULES: dict[str, tuple[float, bool, str]] = {
@@ -62,7 +57,7 @@ FIELD_RULES: dict[str, tuple[float, bool, str]] = {
 
 
 @dataclass
-class Plan:
+class Checked:
     """What the checks settled.
 
     Attributes
@@ -273,7 +268,7 @@ def _check_assumptions(
 
 def check_inputs(
     inputs: Inputs, assumptions: dict, keys: Sequence[str], problems: Problems
-) -> tuple[Plan, bool]:
+) -> tuple[Checked, bool]:
     """Check everything the criteria ``keys`` need; record problems, do not raise.
 
     Parameters
@@ -289,7 +284,7 @@ def check_inputs(
 
     Returns
     -------
-    plan : Plan
+    plan : Checked
         Adoption model, Corridors fields with defaults, warnings.
     readiness_ok : bool
         Whether the readiness sheets are there to be checked row by row.
@@ -305,7 +300,7 @@ def check_inputs(
     >>> print(problems.items[0])
     Corridors: charging_revenue needs columns length_mi, trucks_per_day (missing: trucks_per_day); add them or give charging_revenue as a Corridors column
     """
-    plan = Plan()
+    plan = Checked()
     readiness_ok = _check_sheets(inputs, keys, problems)
     plan.fields = _corridor_fields(inputs, keys, problems)
     if any(k in SIZED for k in keys):

@@ -21,34 +21,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-
-def discount_factor(years: np.ndarray, rate: float) -> np.ndarray:
-    """Compute the present-worth factor of each year, year 0 the first [-].
-
-    Parameters
-    ----------
-    years : ndarray of int, shape (T,)
-        Calendar years, ascending; the first is year 0 [year].
-    rate : float
-        Real discount rate [1/yr].
-
-    Returns
-    -------
-    ndarray, shape (T,)
-        ``(1 + rate) ** -(year - years[0])`` [-].
-
-    References
-    ----------
-    .. [1] W. G. Sullivan, E. M. Wicks and C. P. Koelling, "Engineering
-       Economy", 17th ed., Pearson, 2018, ch. 4, (P/F, i, N).
-
-    Examples
-    --------
-    >>> discount_factor(np.array([2027, 2028]), 0.1).round(4)
-    array([1.    , 0.9091])
-    """
-    years = np.asarray(years, dtype=float)
-    return (1.0 + rate) ** -(years - years[0])  # (P/F, i, N) of [1]
+from ..derive.finance import discount_factor_compound
 
 
 def value_score(score: np.ndarray, years: np.ndarray, rate: float) -> np.ndarray:
@@ -78,7 +51,9 @@ def value_score(score: np.ndarray, years: np.ndarray, rate: float) -> np.ndarray
     >>> value_score(np.array([1.0]), np.array([2027, 2029]), 0.0)
     array([[1., 1.]])
     """
-    return np.asarray(score, float)[:, None] * discount_factor(years, rate)[None, :]
+    t = np.asarray(years, dtype=float)
+    factor = discount_factor_compound(t - t[0], rate_per_yr=rate)
+    return np.asarray(score, float)[:, None] * factor[None, :]
 
 
 def value_truck_miles(truck_miles: np.ndarray, years: np.ndarray, rate: float) -> np.ndarray:
@@ -117,7 +92,7 @@ def value_truck_miles(truck_miles: np.ndarray, years: np.ndarray, rate: float) -
     """
     years = np.asarray(years, dtype=int)
     calendar = np.arange(years[0], years[-1] + 1)
-    factor = discount_factor(calendar, rate)
+    factor = discount_factor_compound(calendar - calendar[0], rate_per_yr=rate)
     tail = np.cumsum(factor[::-1])[::-1]  # sum of factors from each calendar year to the end
     served = tail[years - years[0]]
     return np.asarray(truck_miles, float)[:, None] * served[None, :]

@@ -10,13 +10,13 @@ turns both into payments (:mod:`ranker.plan.schedule`), compares them
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
 
+from ..plain import plain
 from ..workbook.tables import ASSUMPTIONS, BUDGET
 from . import optimise
 from .checks import _fail, check_endpoints, check_inputs, check_samples, check_series
@@ -88,42 +88,26 @@ class Plan:
         """Return the plan as plain JSON-ready types (NaN and blanks as None)."""
         return {
             "objective": self.objective,
-            "objective_value": {k: _plain(v) for k, v in self.objective_value.items()},
-            "gap": _plain(self.gap),
+            "objective_value": {k: plain(v) for k, v in self.objective_value.items()},
+            "gap": plain(self.gap),
             "greedy": _records(self.greedy),
             "optimised": _records(self.optimised),
             "schedule": _records(self.schedule),
             "budget": _records(self.budget),
             "differences": list(self.differences),
-            "coverage": _plain(self.coverage),
+            "coverage": plain(self.coverage),
             "year_one_share": (
                 None
                 if self.year_one_share is None
-                else {str(k): _plain(v) for k, v in self.year_one_share.items()}
+                else {str(k): plain(v) for k, v in self.year_one_share.items()}
             ),
             "warnings": list(self.warnings),
         }
 
 
-def _plain(v):
-    if isinstance(v, dict):
-        return {str(k): _plain(x) for k, x in v.items()}
-    if isinstance(v, (list, tuple)):
-        return [_plain(x) for x in v]
-    if v is None or v is pd.NA:
-        return None
-    if isinstance(v, (np.bool_, bool)):
-        return bool(v)
-    if isinstance(v, (np.integer,)):
-        return int(v)
-    if isinstance(v, (float, np.floating)):
-        return None if not math.isfinite(float(v)) else float(v)
-    return v
-
-
 def _records(frame: pd.DataFrame) -> list[dict]:
     return [
-        {k: _plain(v) for k, v in row.items()} for row in frame.astype(object).to_dict("records")
+        {k: plain(v) for k, v in row.items()} for row in frame.astype(object).to_dict("records")
     ]
 
 

@@ -9,8 +9,10 @@ from __future__ import annotations
 import pandas as pd
 from openpyxl.utils import get_column_letter
 
+from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
-from .narrative import assumptions_used, consistency_text
+from .live_sheet import live_sheet
+from .narrative import assumptions_used, consistency_text, tipping_sentences
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
@@ -20,13 +22,20 @@ def chart_height(bars: int) -> float:
     return min(24.0, 3.0 + 0.55 * bars)
 
 
+def tiers_sheet(writer, result) -> None:
+    """The Tiers sheet (:mod:`ranker.report.tiers_sheet`)."""
+    from .tiers_sheet import tiers_sheet as write
+
+    write(writer, result)
+
+
 def criterion_unit(key: str) -> str:
     """Return the unit of a criterion for headers ("" where unknown)."""
     return BUILTIN_CRITERIA[key].unit if key in BUILTIN_CRITERIA else ""
 
 
 def ranking_sheet(writer, result) -> None:
-    """Rank, corridor, scores and ranks per method, first-rank acceptability, flags."""
+    """Rank, corridor, tier, scores and ranks per method, first-rank acceptability, flags."""
     ws = writer.sheet("Ranking", "Corridor ranking", CAUTION)
     table = result.ranking.copy()
     rob = result.robustness
@@ -36,12 +45,6 @@ def ranking_sheet(writer, result) -> None:
     for group in result.scores.ties:
         for cid in group:
             flags[cid].append("tied")
-    if rob is not None and len(rob.closeness) and "practically_tied" in rob.closeness:
-        for _, row in rob.closeness.iterrows():
-            if row.get("practically_tied"):
-                for cid in (row.get("corridor_id"), row.get("next_id")):
-                    if cid in flags:
-                        flags[cid].append("practically tied with neighbour")
     table["flags"] = [", ".join(dict.fromkeys(flags[c])) for c in table.index]
     units = {c: "[-]" for c in table.columns if c.startswith("score_")}
     units["first_rank_acceptability"] = "[-]"
@@ -134,6 +137,10 @@ def weights_sheet(writer, result) -> None:
     frame = pd.DataFrame(index=pd.Index(keys, name="criterion"))
     frame["label"] = [c.label for c in result.criteria]
     frame["used [-]"] = [result.weights.get(k, 0.0) for k in keys]
+    notes = result.weight_notes()
+    if any(notes.values()):
+        frame["chosen [-]"] = [result.chosen_weights.get(k, 0.0) for k in keys]
+        frame["why they differ"] = [notes.get(k, "") for k in keys]
     for w in result.weight_sets:
         frame[f"{w.name} [-]"] = [w.weights.get(k, float("nan")) for k in keys]
         if w.how == "points" or "rank" in w.how:
@@ -156,7 +163,10 @@ def weights_sheet(writer, result) -> None:
             put(ws, row + i, 1 + j, v)
     if result.overrides:
         row += len(result.weight_sets) + 2
-        put(ws, row, 1, "Overrides on the command line (--weight)").font = HEADER_FONT
+        put(
+            ws, row, 1, "Final shares set on the command line (--weight KEY=SHARE) [%]"
+        ).font = HEADER_FONT
+        put(ws, row, 2, "the other criteria kept their proportions; see used [-] above")
         for i, (k, v) in enumerate(result.overrides.items(), start=1):
             put(ws, row + i, 1, k)
             put(ws, row + i, 2, v)
@@ -257,6 +267,8 @@ def robustness_sheet(writer, result) -> None:
     put(ws, row, 1, "Weight tipping points").font = HEADER_FONT
     tips = pd.DataFrame(rob.tipping_points)
     if len(tips):
+        tips["sentence"] = tipping_sentences(result)
+    if len(tips):
         _, _, row, _ = writer.table(ws, tips, top=row + 1, name="tipping")
     else:
         put(ws, row + 1, 1, "No weight change within 0..1 alters the order.")
@@ -320,6 +332,29 @@ def more_robustness_sheet(writer, result) -> None:
         writer.table(ws2, table, top=4, index_label="corridor_id", name="futures")
 
 
+def budget_sentence(plan) -> str:
+    """Say how far the first year's money goes and how many years the plan spans."""
+    greedy = plan.greedy
+    first = float(plan.budget["capital_usd"].iloc[0])
+    costs = greedy["capital_usd"].astype(float).cumsum()
+    fits = int((costs <= first + 1e-6).sum())
+    funded = greedy["year_funded"].dropna()
+    years = sorted({int(y) for y in funded})
+    span = f"{years[0]} to {years[-1]}" if years else "no year"
+    left = int(greedy["year_funded"].isna().sum())
+    return (
+        f"The first year's {first / 1e6:,.1f} million USD pays for the first {fits} of "
+        f"{len(greedy)} corridors by rank (together "
+        f"{float(greedy['capital_usd'].sum()) / 1e6:,.1f} million USD); the greedy plan funds "
+        f"corridors from {span}"
+        + (
+            f", and {left} {'stays' if left == 1 else 'stay'} unfunded within the budget."
+            if left
+            else "."
+        )
+    )
+
+
 def plan_sheet(writer, result) -> None:
     """Phased build plan: year by corridor, spend, remaining budget."""
     plan = result.plan
@@ -333,7 +368,8 @@ def plan_sheet(writer, result) -> None:
     )
     put(ws, bottom + 2, 1, "Spend by year and corridor").font = HEADER_FONT
     _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
-    lines = [f"Optimality gap of the optimised plan: {plan.gap:.2%}."] + list(plan.differences)
+    lines = [budget_sentence(plan), f"Optimality gap of the optimised plan: {plan.gap:.2%}."]
+    lines += list(plan.differences)
     if plan.coverage and plan.coverage.get("sentence"):
         lines.append(plan.coverage["sentence"])
     lines += [f"warning: {w}" for w in plan.warnings]
@@ -356,13 +392,13 @@ def run_info_sheet(writer, result) -> None:
     ws = writer.sheet("Run info", "Run information")
     info = [
         ("tool", f"ranker {result.tool_version}"),
-        ("input file", result.inputs.path.name),
+        ("input file", shown(result.inputs.path.name)),
         ("input SHA-256", result.inputs.sha256),
         ("run started (UTC)", result.started),
         ("weight set", result.weight_set),
         (
             "weight overrides",
-            ", ".join(f"{k}={v:g}" for k, v in result.overrides.items()) or "none",
+            ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items()) or "none",
         ),
         ("primary method", result.primary_method),
         ("methods", ", ".join(result.scores.scores.columns)),
@@ -384,10 +420,49 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 1, w)
     row = row + 2 + max(1, len(result.warnings))
     put(ws, row, 1, "Assumptions used").font = HEADER_FONT
-    table = pd.DataFrame(assumptions_used(result)).rename(columns={"set_by": "set by"})
+    table = pd.DataFrame(assumptions_used(result)).rename(
+        columns={"set_by": "default or changed", "note": "meaning and source of the default"}
+    )
     writer.table(ws, table, top=row + 1, name="assumptions_used")
     ws.column_dimensions["A"].width = 26
     ws.column_dimensions["B"].width = 70
+
+
+def contents_sheet(writer, result) -> None:
+    """The first result sheet: a link to every result sheet and what each holds.
+
+    Written after the others (it lists them), then moved in front of them.
+    """
+    from openpyxl.worksheet.hyperlink import Hyperlink
+
+    listed = list(writer.names)
+    ws = writer.sheet("Contents", "Contents: the result sheets of this run", CAUTION)
+    put(ws, 4, 1, "sheet").font = HEADER_FONT
+    put(ws, 4, 2, "what it holds").font = HEADER_FONT
+    for i, name in enumerate(listed, start=5):
+        cell = put(ws, i, 1, name)
+        cell.hyperlink = Hyperlink(ref=cell.coordinate, location=f"'{name}'!A1", display=name)
+        cell.style = "Hyperlink"
+        put(ws, i, 2, writer.titles.get(name, ""))
+    row = 5 + len(listed) + 1
+    ours = set(listed) | {ws.title}
+    kept = [n for n in writer.wb.sheetnames if n not in ours and not n.startswith("ranker_")]
+    put(
+        ws,
+        row,
+        1,
+        "Your sheets come first, as you left them: "
+        + (", ".join(kept) or "none")
+        + ". Edit them and run this workbook again to refresh these result sheets.",
+    )
+    ws.freeze_panes = "A5"
+    ws.column_dimensions["A"].width = 24
+    ws.column_dimensions["B"].width = 90
+    wb = writer.wb
+    if listed:
+        wb.move_sheet(ws, offset=wb.index(wb[listed[0]]) - wb.index(ws))
+    writer.names.remove(ws.title)
+    writer.names.insert(0, ws.title)
 
 
 #: Result sheets in the order they are written.
@@ -396,12 +471,14 @@ WRITERS = [
     criteria_sheet,
     normalised_sheet,
     weights_sheet,
+    live_sheet,
     methods_sheet,
     sizing_sheet,
     robustness_sheet,
+    tiers_sheet,
     more_robustness_sheet,
     plan_sheet,
     run_info_sheet,
 ]
 
-__all__ = ["WRITERS", "criterion_unit"]
+__all__ = ["WRITERS", "contents_sheet", "criterion_unit"]

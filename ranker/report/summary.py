@@ -2,33 +2,9 @@
 
 from __future__ import annotations
 
-import math
-
-import numpy as np
 import pandas as pd
 
-
-def clean(value):
-    """Return ``value`` as plain JSON types (NaN and infinity become None)."""
-    if isinstance(value, dict):
-        return {str(k): clean(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [clean(v) for v in value]
-    if isinstance(value, (pd.Series,)):
-        return clean(value.to_dict())
-    if isinstance(value, pd.DataFrame):
-        return clean(value.to_dict(orient="records"))
-    if isinstance(value, np.ndarray):
-        return clean(value.tolist())
-    if isinstance(value, (np.bool_, bool)):
-        return bool(value)
-    if isinstance(value, (np.integer,)):
-        return int(value)
-    if isinstance(value, (float, np.floating)):
-        f = float(value)
-        return f if math.isfinite(f) else None
-    return value
-
+from ..plain import plain
 
 #: Rank columns shown in the workbook and the heatmap before later ranks are folded.
 ACCEPTABILITY_COLUMNS = 25
@@ -53,6 +29,10 @@ def has_samples(robustness) -> bool:
 
 def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
+    from ..changes import json_changes
+    from ..files import shown
+    from .narrative import assumptions_used
+
     s = result.scores
     rob = result.robustness
     acceptability = rob.acceptability if has_samples(rob) else None
@@ -62,6 +42,7 @@ def summary_json(result) -> dict:
             "corridor_id": str(cid),
             "name": str(row["name"]),
             "rank": int(row["rank"]),
+            "tier": int(row["tier"]),
             "scores": {m: float(s.scores.at[cid, m]) for m in s.scores.columns},
             "ranks": {m: int(s.ranks.at[cid, m]) for m in s.ranks.columns},
             "criteria": {k: float(result.matrix.at[cid, k]) for k in result.matrix.columns},
@@ -69,16 +50,24 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
+        from .narrative import tipping_sentences
+
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
+        for record, sentence in zip(
+            robustness["tipping_points"], tipping_sentences(result), strict=True
+        ):
+            record["sentence"] = sentence
     else:
         robustness.update({"rank_reversal": [], "tipping_points": []})
     out = {
         "tool_version": result.tool_version,
         "input_sha256": result.inputs.sha256,
-        "input_file": result.inputs.path.name,
+        "input_file": shown(result.inputs.path.name),
         "weight_set": result.weight_set,
         "weights": {k: float(v) for k, v in result.weights.items()},
+        "weights_chosen": {k: float(v) for k, v in result.chosen_weights.items()},
+        "weight_notes": {k: v for k, v in result.weight_notes().items() if v},
         "weight_overrides": dict(result.overrides),
         "primary_method": result.primary_method,
         "methods": {
@@ -118,10 +107,12 @@ def summary_json(result) -> dict:
         "warnings": list(result.warnings),
         "started": result.started,
         "changes_since_last_run": list(result.changes),
+        "changes": json_changes(result.change_record),
+        "assumptions": assumptions_used(result),
         "outputs": dict(result.outputs),
     }
-    out = clean(out)
-    # Shares are finite by construction; attached after clean() to keep large runs fast.
+    out = plain(out)
+    # Shares are finite by construction; attached after plain() to keep large runs fast.
     rows = {}
     if acceptability is not None:
         table = acceptability.loc[result.ranking.index]

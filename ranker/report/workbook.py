@@ -25,6 +25,8 @@ from ..files import MARKER
 from .carry import CELL_CHARS, fit_cell
 
 SHEETS_PROPERTY = "ranker-sheets"
+#: Most rows and columns a result sheet freezes (title rows and the first header).
+FREEZE_ROWS, FREEZE_COLUMNS = 4, 2
 TAB_COLOUR = "1F4E79"
 TITLE_FONT = Font(bold=True, size=12, color="1F4E79")
 HEADER_FONT = Font(bold=True)
@@ -81,6 +83,24 @@ class SheetWriter:
         self.version = version
         self.stamp = stamp
         self.names: list[str] = []
+        #: Sheet name to its title (what the sheet holds), for the contents sheet.
+        self.titles: dict[str, str] = {}
+        self._frozen: set[str] = set()
+
+    def freeze(self, ws, top: int, left: int) -> None:
+        """Freeze the title rows and the first table's header, once per sheet.
+
+        At most :data:`FREEZE_ROWS` rows and :data:`FREEZE_COLUMNS` columns
+        are frozen, so that a sheet scrolls on a laptop screen; a table lower
+        down the sheet leaves the panes as the first one set them.
+        """
+        if ws.title in self._frozen:
+            return
+        self._frozen.add(ws.title)
+        if top <= FREEZE_ROWS and left <= FREEZE_COLUMNS:
+            ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
+        else:  # the first table starts lower: keep only the two title rows in view
+            ws.freeze_panes = "A3"
 
     def sheet(self, name: str, title: str, note: str = ""):
         """Create a result sheet with its title rows; return it."""
@@ -99,6 +119,7 @@ class SheetWriter:
         ws.sheet_properties.pageSetUpPr.fitToPage = True
         ws.print_options.gridLines = False
         self.names.append(ws.title)
+        self.titles[ws.title] = title
         return ws
 
     def _free_name(self, name: str) -> str:
@@ -172,7 +193,7 @@ class SheetWriter:
             tab = Table(displayName=table_name, ref=ref)
             tab.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
             ws.add_table(tab)
-        ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
+        self.freeze(ws, top, left)
         if len(headers) > 7:
             ws.page_setup.orientation = "landscape"
         return top, left, bottom, right
@@ -209,25 +230,10 @@ _CHUNK = 30_000  # characters per cell, under Excel's 32,767
 
 
 def compact_state(result) -> dict:
-    """Keep what a later run needs to say what changed: weights, ranks, values."""
-    ranking = result.ranking
-    matrix = result.matrix.loc[ranking.index]
-    values = matrix.to_dict(orient="index")
-    return {
-        "weight_set": result.weight_set,
-        "weights": {k: float(v) for k, v in result.weights.items()},
-        "ranking": [
-            {
-                "corridor_id": str(cid),
-                "name": str(name),
-                "rank": int(rank),
-                "criteria": {k: float(v) for k, v in values[cid].items()},
-            }
-            for cid, name, rank in zip(
-                ranking.index, ranking["name"], ranking["rank"], strict=True
-            )
-        ],
-    }
+    """Keep what a later run needs to say what changed (:func:`ranker.changes.run_state`)."""
+    from ..changes import run_state
+
+    return run_state(result)
 
 
 def read_state(path) -> dict | None:
@@ -306,6 +312,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
+    sheets.contents_sheet(writer, result)
     _write_state(wb, compact_state(result))
     writer.names.append(STATE_SHEET)
     props = [p for p in wb.custom_doc_props.props if p.name not in (SHEETS_PROPERTY, MARKER)]

@@ -45,8 +45,6 @@ class Method:
         the kernel combines (for the outputs).
     options : mapping of str to str
         Further kernel keyword to assumption key (``{"v": "vikor_v"}``).
-    normalization_note : str
-        One line for the outputs: which normalisation and how costs enter.
     """
 
     key: str
@@ -56,7 +54,6 @@ class Method:
     normalization_key: str | None
     normalizer: Callable[..., np.ndarray]
     options: Mapping[str, str] = field(default_factory=dict)
-    normalization_note: str = ""
 
     def kernel_options(self, assumptions: Mapping[str, object]) -> dict:
         """Return the kernel's keyword options read from resolved assumptions."""
@@ -89,7 +86,6 @@ METHODS: dict[str, Method] = {
         kernel=topsis,
         normalization_key="topsis_normalization",
         normalizer=_normalized,
-        normalization_note="topsis_normalization; after vector or sum a cost's ideal is its smallest value",
     ),
     "weighted_sum": Method(
         key="weighted_sum",
@@ -98,7 +94,6 @@ METHODS: dict[str, Method] = {
         kernel=weighted_sum,
         normalization_key="weighted_sum_normalization",
         normalizer=_normalized,
-        normalization_note="weighted_sum_normalization; vector and sum subtract costs",
     ),
     "weighted_product": Method(
         key="weighted_product",
@@ -107,7 +102,6 @@ METHODS: dict[str, Method] = {
         kernel=weighted_product,
         normalization_key=None,
         normalizer=weighted_product_normalized,
-        normalization_note="ratio: benefit x/max, cost min/x (values <= 0 shifted)",
     ),
     "vikor": Method(
         key="vikor",
@@ -117,6 +111,5 @@ METHODS: dict[str, Method] = {
         normalization_key=None,
         normalizer=_vikor_normalized,
         options={"v": "vikor_v"},
-        normalization_note="distance from the best (f* - f)/(f* - f-), 0 best",
     ),
 }

@@ -12,6 +12,7 @@ through a callback. The modules hold the pure analyses:
 * :mod:`.tipping` -- weight tipping points and rank intervals.
 * :mod:`.consensus` -- stakeholder weight sets, Borda and Copeland.
 * :mod:`.closeness` -- gaps between neighbours, "practically tied".
+* :mod:`.tiers` -- pairwise winning shares and the tiers they settle.
 * :mod:`.scenarios` -- futures.
 * :mod:`.batch` -- batch ranking by sorting and the kernel wrapper.
 
@@ -29,14 +30,23 @@ import numpy as np
 import pandas as pd
 
 from ranker.errors import InputError, Problems
+from ranker.plain import plain
 
 from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
 from .batch import Scorer, rank_batch
 from .closeness import COLUMNS as CLOSENESS_COLUMNS
-from .closeness import adjacent_pairs, closeness_table
+from .closeness import adjacent_pairs, closeness_table, same_tier_flags
 from .consensus import compare_weight_sets, consensus_json
 from .reversal import all_checks
 from .scenarios import futures
+from .tiers import (
+    TIER_CONFIDENCE,
+    RankStore,
+    Tiers,
+    nearest_first_tier_change,
+    tiers_from_ranks,
+    tiers_without_samples,
+)
 from .tipping import INTERVAL_COLUMNS, sweep_criterion, tipping_records
 from .words import Namer, listing
 
@@ -44,19 +54,6 @@ __all__ = ["Robustness", "futures", "stress_test"]
 
 #: Progress units besides the Monte Carlo samples: one per other analysis.
 _STAGES = 4
-
-
-def _plain(value):
-    """Make a value JSON-ready: numpy scalars to Python, NaN to None."""
-    if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
-    if isinstance(value, list | tuple):
-        return [_plain(v) for v in value]
-    if isinstance(value, np.generic):
-        value = value.item()
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value
 
 
 @dataclass
@@ -114,14 +111,28 @@ class Robustness:
     #: matrix's criterion order; None when it was off. Later stages (the build plan)
     #: re-use them so every analysis sees the same samples.
     weight_draws: np.ndarray | None = None
+    #: Tier per corridor (index ``corridor_id``), 1 = first (:mod:`ranker.stress.tiers`).
+    tier: pd.Series | None = None
+    #: Share of samples in which the a-th corridor of the order ranks above the
+    #: b-th, for the first :data:`ranker.stress.tiers.TOP_MATRIX` corridors of the
+    #: order at the chosen weights; diagonal 0 [-]. Ids in :attr:`pairwise_ids`.
+    pairwise_wins: np.ndarray | None = None
+    #: Corridor ids of the rows and columns of :attr:`pairwise_wins`, in order.
+    pairwise_ids: list[str] = field(default_factory=list)
+    #: The tiers with the shares behind them (neighbour and cut shares).
+    tiers: Tiers | None = None
+    #: The smallest one-weight change that alters the first tier's corridors:
+    #: ``criterion`` (key), ``current``, ``weight_at``, ``distance`` [-],
+    #: ``direction``, ``entering``, ``leaving`` (corridor ids); None if none in [0, 1].
+    first_tier_change: dict | None = None
 
     def to_json(self) -> dict:
         """Return a JSON-ready summary (plain types; NaN as null)."""
 
         def records(frame):
-            return [_plain(r) for r in frame.to_dict(orient="records")]
+            return [plain(r) for r in frame.to_dict(orient="records")]
 
-        return _plain(
+        return plain(
             {
                 "samples": int(self.samples),
                 "seed": int(self.seed),
@@ -140,6 +151,14 @@ class Robustness:
                 "stakeholders": self.stakeholders,
                 "closeness": records(self.closeness),
                 "warnings": list(self.warnings),
+                "pairwise_wins": (
+                    None
+                    if self.pairwise_wins is None or not self.samples
+                    else np.round(self.pairwise_wins, 12).tolist()
+                ),
+                "pairwise_ids": list(self.pairwise_ids),
+                "tier_confidence": None if self.tiers is None else self.tiers.confidence,
+                "first_tier_change": self.first_tier_change,
             }
         )
 
@@ -298,9 +317,12 @@ def _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer):
             identical.update(frozenset((a, b)) for a in members for b in members if a < b)
     better = np.where(scorer.is_benefit, 1.0, -1.0)
     y = x * better
-    for i in range(n):
-        others = np.delete(np.arange(n), i)
-        if n > 1 and np.all(y[i] >= y[others]) and np.all((y[i] > y[others]).any(axis=1)):
+    # Corridor i dominates every other one when it is at least as good on every
+    # criterion (so it holds every column's best value) and strictly better
+    # somewhere than each other (so no other corridor equals it everywhere).
+    best = np.nonzero((y == y.max(axis=0)).all(axis=1))[0] if n > 1 else []
+    for i in best:
+        if (y == y[i]).all(axis=1).sum() == 1:
             warns.append(
                 f"{namer.corridor(ids[i], start=True)} is at least as good as every "
                 "other corridor on every criterion: it dominates them, and sound "
@@ -336,6 +358,7 @@ def stress_test(
     labels: dict[str, str] | None = None,
     names: dict[str, str] | None = None,
     progress: Callable[[int, int], None] | None = None,
+    tier_confidence: float = TIER_CONFIDENCE,
 ) -> Robustness:
     """Run every robustness analysis on one ranking.
 
@@ -376,6 +399,9 @@ def stress_test(
     progress : callable, optional
         ``progress(done, total)``: units are Monte Carlo samples plus one
         per other analysis.
+    tier_confidence : float
+        Share of samples a higher tier must win against every lower
+        corridor, in (0.5, 1] [-] (see :mod:`ranker.stress.tiers`).
 
     Returns
     -------
@@ -443,6 +469,8 @@ def stress_test(
         raise ValueError(f"the scoring kernel returned no finite score for {listing(bad)}")
     r0 = rank_batch(g0)
     pairs = adjacent_pairs(g0)
+    order = np.lexsort((np.arange(n), r0))  # the order of the ranking table
+    store = RankStore(order, samples) if samples else None
     ss_w, ss_v, ss_c = np.random.SeedSequence(seed).spawn(3)
     index = pd.Index(ids, name="corridor_id")
     draws = None
@@ -459,11 +487,15 @@ def stress_test(
             rng_confidence=np.random.default_rng(ss_c),
             pairs=pairs,
             progress=(lambda d, t: progress(d, total)) if progress else None,
+            on_ranks=store.add,
         )
         done = samples
         warns.extend(acc.notes)
-        acceptability = pd.DataFrame(
-            acc.acceptability, index=index, columns=[f"rank {r}" for r in range(1, n + 1)]
+        acceptability = pd.DataFrame(  # no copy: (n x n) is 800 MB at 10,000 corridors
+            acc.acceptability,
+            index=index,
+            columns=[f"rank {r}" for r in range(1, n + 1)],
+            copy=False,
         )
         first = pd.Series(acc.first_rank, index=index, name="first_rank")
         central = pd.DataFrame(acc.central_weights, index=index, columns=keys)
@@ -483,6 +515,21 @@ def stress_test(
         central = pd.DataFrame(np.nan, index=index, columns=keys)
         confidence = pd.Series(np.nan, index=index, name="confidence")
         closeness_mc = {}
+    if store is not None:
+        tiers = tiers_from_ranks(store.ranks, float(tier_confidence))
+        del store
+    else:
+        tiers = tiers_without_samples(r0[order])
+    tier = pd.Series(0, index=index, name="tier", dtype=int)
+    tier.iloc[order] = tiers.tier
+    change = nearest_first_tier_change(scorer, x, w, order[tiers.tier == 1])
+    if change is not None:
+        change = {
+            **change,
+            "criterion": keys[change["criterion"]],
+            "entering": [ids[i] for i in change["entering"]],
+            "leaving": [ids[i] for i in change["leaving"]],
+        }
     checks = all_checks(scorer, x, w, ids, names, labels)
     tick()
     sweeps = [sweep_criterion(scorer, x, w, c) for c in range(k)] if k > 1 else []
@@ -498,6 +545,8 @@ def stress_test(
         if n > 1
         else pd.DataFrame(columns=CLOSENESS_COLUMNS)
     )
+    if len(closeness) and tiers.samples:
+        closeness = same_tier_flags(closeness, tier, namer)
     tick()
     return Robustness(
         samples=samples,
@@ -513,4 +562,9 @@ def stress_test(
         closeness=closeness,
         warnings=warns,
         weight_draws=draws,
+        tier=tier,
+        pairwise_wins=tiers.pairwise_wins,
+        pairwise_ids=[ids[i] for i in order[: tiers.pairwise_wins.shape[0]]],
+        tiers=tiers,
+        first_tier_change=change,
     )

@@ -21,6 +21,11 @@ Documented rules
 * Ties: a corridor tied with others spreads its draw evenly over the ranks
   the tied group occupies (see :mod:`ranker.stress.batch`), so each row and
   each column of the acceptability matrix sums to 1.
+* Counting: each sample adds its share to the (corridor, rank) cells it
+  fills, entry by entry (``numpy.add.at``) into one (n x n) table, so the
+  work per chunk is proportional to the chunk, not to the table; a corridor
+  without ties adds exactly 1, so the shares of untied samples are exact
+  counts divided by the number of samples.
 * Samples are scored in chunks so that no kernel call builds more than
   :data:`ranker.stress.batch.ELEMENT_BUDGET` elements per intermediate
   array; the weight draws are made once up front and the value draws come
@@ -46,6 +51,8 @@ from .batch import Scorer, beat_thresholds, chunk_size, first_share, rank_bounds
 
 #: Element budget for the confidence-factor draws: draws x winners x n x k [-].
 CONFIDENCE_BUDGET = 100_000_000
+#: Elements of the score-difference table sorted at once for its percentiles [-].
+PERCENTILE_BUDGET = 8_000_000
 
 
 def weights_dirichlet(
@@ -168,6 +175,39 @@ class Acceptability:
     notes: list[str] = field(default_factory=list)
 
 
+def add_rank_shares(
+    counts: np.ndarray, slots: np.ndarray, low: np.ndarray, high: np.ndarray, share: np.ndarray
+) -> None:
+    """Add each sample's rank shares to the flat (corridor x rank) table, in place [samples].
+
+    Entry ``(j, i)`` of the chunk puts corridor ``i`` at positions ``low``
+    to ``high`` of sample ``j``; each position gets ``share = 1 / (high -
+    low + 1)`` (the tie rule of :mod:`ranker.stress.batch`). An untied
+    entry adds exactly 1 to cell ``slots[i] + low - 1``.
+
+    Parameters
+    ----------
+    counts : ndarray, shape (n * n,)
+        Running table, ``counts[i * n + r]`` for corridor i at rank r + 1 [samples].
+    slots : ndarray of int, shape (1, n)
+        ``i * n`` per corridor [-].
+    low, high : ndarray of int, shape (c, n)
+        Best and worst tied position, 1 = best [-].
+    share : ndarray, shape (c, n)
+        ``1 / (high - low + 1)`` [-].
+    """
+    tied = high > low
+    # Corridor by corridor (the transpose), so the additions walk the table in order.
+    plain = (slots + low - 1).T[~tied.T]
+    np.add.at(counts, plain, 1.0)
+    if tied.any():
+        j, i = np.nonzero(tied)
+        size = (high - low + 1)[j, i]
+        start = np.repeat(slots[0, i] + low[j, i] - 1, size)
+        offset = np.arange(size.sum()) - np.repeat(np.cumsum(size) - size, size)
+        np.add.at(counts, start + offset, np.repeat(share[j, i], size))
+
+
 def _scores_for(scorer, matrix, weights, spread, rng):
     """Score one chunk of samples: weights (c, k), values shaken where spread > 0.
 
@@ -197,6 +237,7 @@ def rank_acceptability(
     rng_confidence: np.random.Generator | None = None,
     pairs: np.ndarray | None = None,
     progress: Callable[[int, int], None] | None = None,
+    on_ranks: Callable[[int, np.ndarray], None] | None = None,
 ) -> Acceptability:
     """Compute SMAA-2 rank acceptabilities, central weights and confidence factors.
 
@@ -219,6 +260,9 @@ def rank_acceptability(
         tracked over the samples (for the closeness analysis).
     progress : callable, optional
         ``progress(done, total)`` after each chunk [samples].
+    on_ranks : callable, optional
+        ``on_ranks(start, ranks)`` with the competition ranks (c, n) of
+        samples ``start .. start + c - 1`` (for :mod:`ranker.stress.tiers`).
 
     Returns
     -------
@@ -245,23 +289,23 @@ def rank_acceptability(
     s = w_all.shape[0]
     spread = np.zeros(k) if spread is None else np.asarray(spread, dtype=float)
     pairs = np.zeros((0, 2), dtype=int) if pairs is None else np.asarray(pairs, dtype=int)
-    diff_acc = np.zeros(n * (n + 1))
+    counts = np.zeros(n * n)  # [i * n + r]: samples (shares) with corridor i at rank r + 1
     first_sum = np.zeros(n)
     central_sum = np.zeros((n, k))
     # Pair x sample, so that each pair's percentiles come from one contiguous row.
     diffs = np.empty((len(pairs), s), dtype=np.float32)
     swaps = np.zeros(len(pairs))
-    slots = (np.arange(n) * (n + 1))[None, :]
+    slots = (np.arange(n) * n)[None, :]
     # A chunk of samples is (c, n) scores; shaken values are stacked in smaller pieces.
     step = chunk_size(n, 1)
     for start in range(0, s, step):
         w = w_all[start : start + step]
         g = _scores_for(scorer, x, w, spread, rng_values)
         low, high = rank_bounds(g)
+        if on_ranks is not None:
+            on_ranks(start, low)
         share = 1.0 / (high - low + 1)
-        # Spread each sample over the tied positions: +share at low, -share after high.
-        diff_acc += np.bincount((slots + low - 1).ravel(), share.ravel(), n * (n + 1))
-        diff_acc -= np.bincount((slots + high).ravel(), share.ravel(), n * (n + 1))
+        add_rank_shares(counts, slots, low, high, share)
         # Only the first-placed corridors of each sample add to b^1 and the central weights.
         row, col = np.nonzero(low == 1)
         first = share[row, col]
@@ -273,14 +317,19 @@ def rank_acceptability(
             swaps += (gb > beat_thresholds(ga)).sum(axis=0)
         if progress is not None:
             progress(min(s, start + step), s)
-    counts = np.cumsum(diff_acc.reshape(n, n + 1), axis=1)[:, :n]
-    acc = counts / s if s else np.zeros((n, n))
+    acc = counts.reshape(n, n)
+    if s:
+        acc /= s  # in place: at 10,000 corridors the table is 800 MB
     with np.errstate(invalid="ignore", divide="ignore"):
         central = np.where(first_sum[:, None] > 0, central_sum / first_sum[:, None], np.nan)
     notes: list[str] = []
     confidence, draws = _confidence(scorer, x, central, spread, rng_confidence, s, notes)
     if len(pairs) and s:
-        low_q, high_q = np.percentile(diffs, [5.0, 95.0], axis=1)
+        low_q, high_q = np.empty(len(pairs)), np.empty(len(pairs))
+        block = max(1, PERCENTILE_BUDGET // s)  # bounds the sorting copy's memory
+        for start in range(0, len(pairs), block):
+            part = np.percentile(diffs[start : start + block], [5.0, 95.0], axis=1)
+            low_q[start : start + block], high_q[start : start + block] = part
     else:
         low_q = high_q = np.full(len(pairs), np.nan)
     return Acceptability(

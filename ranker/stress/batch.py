@@ -245,6 +245,43 @@ class Scorer:
             )
         return out
 
+    def rows(self, matrix: np.ndarray, weights: np.ndarray, cols: np.ndarray) -> np.ndarray:
+        """Score corridors ``cols[m]`` of one matrix under weight row ``m``; oriented [-].
+
+        Through the kernel's row scorer (:data:`ranker.stress.rows.ROW_SCORERS`)
+        when it has one, built once per matrix; otherwise every corridor is
+        scored under each weight row and the wanted ones taken.
+
+        Parameters
+        ----------
+        matrix : ndarray, shape (n, k)
+            Decision matrix in the criteria's own units.
+        weights : ndarray, shape (m, k)
+            Weights [-].
+        cols : ndarray of int, shape (m, p)
+            Corridor indices [-].
+
+        Returns
+        -------
+        ndarray, shape (m, p)
+            Oriented scores [-].
+        """
+        from .rows import ROW_SCORERS
+
+        factory = ROW_SCORERS.get(self.kernel)
+        if factory is None:
+            return np.take_along_axis(self.weights(matrix, weights), cols, axis=1)
+        cached = getattr(self, "_row_cache", None)
+        if cached is None or cached[0] is not matrix:
+            cached = (matrix, factory(matrix, self.is_benefit, **self.options))
+            self._row_cache = cached
+        out = np.empty(cols.shape)
+        step = max(1, ELEMENT_BUDGET // max(1, cols.shape[1] * matrix.shape[1]))
+        for start in range(0, len(cols), step):
+            part = cached[1](weights[start : start + step], cols[start : start + step])
+            out[start : start + step] = self._orient(part)
+        return out
+
     def stack(self, matrices: np.ndarray, weights: np.ndarray) -> np.ndarray:
         """Score matrices (s, m, k) under weights (s, k) or one (k,); oriented (s, m) [-].
 

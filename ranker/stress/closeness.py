@@ -7,10 +7,13 @@ Documented rule
 ---------------
 * With Monte Carlo samples (weights and, where stated, values shaken as in
   :mod:`ranker.stress.acceptability`): the pair is practically tied when
-  the lower one is ahead in at least :data:`SWAP_SHARE` (10 %) of the
-  samples. The 5-95 % range of the pair's score difference over the samples
-  is reported beside it; a range reaching below zero means the gap is
-  within what the stated uncertainty can move.
+  both are in the same tier (:mod:`ranker.stress.tiers`), the one rule the
+  outputs use: no cut between them is settled at ``tier_confidence``. The
+  share of samples in which the lower one is ahead and the 5-95 % range of
+  the pair's score difference are reported beside it; a range reaching
+  below zero means the gap is within what the stated uncertainty can move.
+  (:func:`closeness_table` alone, without tiers, flags a swap share of at
+  least :data:`SWAP_SHARE`; :func:`same_tier_flags` replaces that flag.)
 * Identical scores (within the tie rule of :mod:`ranker.stress.batch`) are
   always practically tied.
 * Without samples: only a gap smaller than :data:`SMALL_GAP` (1 %) of the
@@ -127,3 +130,45 @@ def closeness_table(
             )
         rows.append([int(ranks[a]), ids[a], ids[b], gap, bool(flag), share, lo, hi, reason])
     return pd.DataFrame(rows, columns=COLUMNS)
+
+
+def same_tier_flags(table: pd.DataFrame, tier: pd.Series, namer: Namer) -> pd.DataFrame:
+    """Flag adjacent pairs as practically tied exactly when they share a tier.
+
+    Parameters
+    ----------
+    table : DataFrame
+        From :func:`closeness_table`, with Monte Carlo columns.
+    tier : Series
+        Tier per corridor id, 1 = first [-].
+    namer : Namer
+        For the reasons.
+
+    Returns
+    -------
+    DataFrame
+        A copy with ``practically_tied`` and ``reason`` from the tiers.
+    """
+    out = table.copy()
+    flags, reasons = [], []
+    for rec in out.to_dict(orient="records"):
+        a, b = rec["corridor_id"], rec["next_id"]
+        same = int(tier[a]) == int(tier[b])
+        share = rec.get("swap_share")
+        ahead = (
+            ""
+            if share is None or (isinstance(share, float) and np.isnan(share))
+            else f"{namer.corridor(b)} comes out ahead in {100 * share:.1f}% of the samples; "
+        )
+        exact = rec["reason"] in ("equal scores", _IDENTICAL)
+        flags.append(bool(same or exact))
+        where = (
+            f"both in tier {int(tier[a])}" if same else f"tiers {int(tier[a])} and {int(tier[b])}"
+        )
+        reasons.append(f"{rec['reason']}; {where}" if exact else ahead + where)
+    out["practically_tied"] = flags
+    out["reason"] = reasons
+    return out
+
+
+_IDENTICAL = "identical values on every criterion"

@@ -50,6 +50,8 @@ TOLERANCE = 1e-6
 LINEAR_RTOL = 1e-9
 #: Corridors per block of the closed-form crossing search [-].
 AFFINE_ROWS = 256
+#: Score entries (corridors narrowed at once x all corridors) per narrowing block [-].
+NARROW_BUDGET = 2_500_000
 
 
 def sweep_weights(weights: np.ndarray, criterion: int, t: np.ndarray) -> np.ndarray:
@@ -197,15 +199,6 @@ def _crossings_affine(a: np.ndarray, b: np.ndarray, t0: float):
     )
 
 
-def _state(g: np.ndarray, i: np.ndarray, code: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Rank and ahead-set fingerprint of corridor ``i[r]`` in score row ``g[r]``."""
-    rows = np.arange(len(i))
-    beaten_by = g > beat_thresholds(g[rows, i])[:, None]
-    rank = 1 + beaten_by.sum(axis=1)
-    fingerprint = np.where(beaten_by, code[None, :], np.uint64(0)).sum(axis=1, dtype=np.uint64)
-    return rank, fingerprint
-
-
 def _crossings_grid(scorer, x, w, c, grid, g, g0):
     """Bracket each corridor's first change on the grid, then narrow it down."""
     n = g.shape[1]
@@ -221,41 +214,70 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
         1: (np.ones(n), np.full(n, -1), ranks[g0].copy()),
         -1: (np.zeros(n), np.full(n, -1), ranks[g0].copy()),
     }
+    thresholds = beat_thresholds(g)
     for side, rows in ((1, np.arange(g0 + 1, len(grid))), (-1, np.arange(g0 - 1, -1, -1))):
         if not rows.size:
             continue
         hit = changed[rows]
         first = rows[np.argmax(hit, axis=0)]
         who = np.nonzero(hit.any(axis=0))[0]
-        step = max(1, 250_000 // n)
+        step = max(1, NARROW_BUDGET // n)
         for start in range(0, who.size, step):
             i = who[start : start + step]
+            ra, rb = first[i] - side, first[i]
+            cols = _partners(g, thresholds, ra, rb, i)
             t, by, after = _narrow(
                 scorer,
                 x,
                 w,
                 c,
                 i,
-                grid[first[i] - side],
-                grid[first[i]],
-                g[first[i] - side],
-                g[first[i]],
+                grid[ra],
+                grid[rb],
+                g[ra[:, None], cols],
+                g[rb[:, None], cols],
                 ranks[g0, i],
-                prints[g0, i],
-                code,
+                cols,
             )
             ends[side][0][i], ends[side][1][i], ends[side][2][i] = t, by, after
     (high, high_by, high_rank), (low, low_by, low_rank) = ends[1], ends[-1]
     return low, high, low_by, high_by, low_rank, high_rank
 
 
-def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, print0, code):
+def _partners(g, thresholds, ra, rb, i) -> np.ndarray:
+    """Corridors whose order with i differs between grid rows ra and rb, i first.
+
+    ``thresholds`` is :func:`beat_thresholds` of the grid's scores ``g``.
+    Returns ``cols`` (m, 1 + p): column 0 is ``i``, then the partners in
+    increasing index order, padded with ``i`` itself (a corridor never beats
+    itself, so the padding never flips).
+    """
+    rows = np.arange(len(i))
+    ai, bi = g[ra, i][:, None], g[rb, i][:, None]
+    flips = (ai > thresholds[ra]) != (bi > thresholds[rb])
+    flips |= (g[ra] > thresholds[ra, i][:, None]) != (g[rb] > thresholds[rb, i][:, None])
+    flips[rows, i] = False
+    size = flips.sum(axis=1)
+    cols = np.repeat(i[:, None], 1 + max(1, int(size.max(initial=0))), axis=1)
+    r, j = np.nonzero(flips)
+    place = np.arange(r.size) - np.repeat(np.cumsum(size) - size, size)
+    cols[r, 1 + place] = j
+    return cols
+
+
+def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, cols):
     """Narrow [a, b] (state of i unchanged at a, changed at b) to TOLERANCE.
 
     Each round guesses the first crossing by linear interpolation of every
     partner's score difference across the bracket (false position), then
     scores the weights just either side of the guess; after 8 rounds the
     guess is the midpoint (bisection), so the search always ends.
+
+    Only the partners whose order with i differs between a and b are
+    scored (:meth:`Scorer.rows`): the others keep their order across the
+    bracket, as the grid rule assumes (a pair crossing twice inside one
+    grid cell is not seen): ``cols`` from :func:`_partners`. ``rank0`` is
+    the rank at a, the current one.
 
     Returns
     -------
@@ -270,33 +292,40 @@ def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, print0, code):
     rows = np.arange(m)
     a, b = a.astype(float).copy(), b.astype(float).copy()
     ga, gb = ga.copy(), gb.copy()
+    # Beaters of i outside the partners: the same all across the bracket.
+    outside = rank0 - 1 - _beaten(ga).sum(axis=1)
+    state0 = _beaten(ga)
+    local = np.zeros(m, dtype=np.int64)  # i is column 0 of its partner rows
     half = TOLERANCE / 2
     t = np.full(m, np.nan)
     by = np.full(m, -1)
     after = np.zeros(m, dtype=np.int64)
     todo = rows.copy()
+
+    def named(j, where):
+        return np.where(j >= 0, cols[where, np.maximum(j, 0)], -1)
+
     for it in range(80):
         narrow = np.abs(b[todo] - a[todo]) <= 2 * half
         done = todo[narrow]
         t[done] = (a[done] + b[done]) / 2
-        by[done] = _first_flip(ga[done], gb[done], i[done])[1]
-        after[done] = _state(gb[done], i[done], code)[0]
+        by[done] = named(_first_flip(ga[done], gb[done], local[done])[1], done)
+        after[done] = 1 + outside[done] + _beaten(gb[done]).sum(axis=1)
         todo = todo[~narrow]
         if not todo.size:
             break
-        frac, _ = _first_flip(ga[todo], gb[todo], i[todo])
+        frac, _ = _first_flip(ga[todo], gb[todo], local[todo])
         frac = np.where(np.isfinite(frac) & (it < 8), frac, 0.5)
         lo = np.minimum(a[todo], b[todo]) + half
         hi = np.maximum(a[todo], b[todo]) - half
         guess = np.clip(a[todo] + frac * (b[todo] - a[todo]), lo, hi)
         toward = np.sign(b[todo] - a[todo])
         near, far = guess - toward * half, guess + toward * half
-        g_near = scorer.weights(x, sweep_weights(w, c, near))
-        g_far = scorer.weights(x, sweep_weights(w, c, far))
-        r1, p1 = _state(g_near, i[todo], code)
-        r2, p2 = _state(g_far, i[todo], code)
-        moved_near = (r1 != rank0[todo]) | (p1 != print0[todo])
-        moved_far = (r2 != rank0[todo]) | (p2 != print0[todo])
+        g_near = scorer.rows(x, sweep_weights(w, c, near), cols[todo])
+        g_far = scorer.rows(x, sweep_weights(w, c, far), cols[todo])
+        s_far = _beaten(g_far)
+        moved_near = (_beaten(g_near) != state0[todo]).any(axis=1)
+        moved_far = (s_far != state0[todo]).any(axis=1)
         hit = ~moved_near & moved_far
         before = moved_near
         past = ~moved_near & ~moved_far
@@ -306,22 +335,28 @@ def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, print0, code):
         a[k], ga[k] = far[past], g_far[past]
         k = todo[hit]
         t[k] = guess[hit]
-        by[k] = _first_flip(g_near[hit], g_far[hit], i[k])[1]
-        after[k] = r2[hit]
+        by[k] = named(_first_flip(g_near[hit], g_far[hit], local[k])[1], k)
+        after[k] = 1 + outside[k] + s_far[hit].sum(axis=1)
         todo = todo[~hit]
         if not todo.size:
             break
     left = np.isnan(t)
     t[left] = (a[left] + b[left]) / 2
-    after[left] = _state(gb[left], i[left], code)[0]
+    after[left] = 1 + outside[left] + _beaten(gb[left]).sum(axis=1)
     return t, by, after
+
+
+def _beaten(h: np.ndarray) -> np.ndarray:
+    """Which partners (columns 1..) beat the corridor in column 0, row by row."""
+    return h[:, 1:] > beat_thresholds(h[:, :1])
 
 
 def _first_flip(ga: np.ndarray, gb: np.ndarray, i: np.ndarray):
     """Earliest partner whose order with i flips between rows ga and gb.
 
     Returns the interpolated fraction of the way from a to b (clipped to
-    [0, 1]; 1 where nothing flips) and the partner (-1 if none).
+    [0, 1]; 1 where nothing flips) and the partner (-1 if none): the one
+    with the smallest fraction, the lowest index among equals.
     """
     rows = np.arange(len(i))
     ai, bi = ga[rows, i][:, None], gb[rows, i][:, None]
@@ -334,11 +369,13 @@ def _first_flip(ga: np.ndarray, gb: np.ndarray, i: np.ndarray):
     db = bi[r, 0] - gb[r, j]
     with np.errstate(divide="ignore", invalid="ignore"):
         cut = da / (da - db)
-    frac = np.ones(flips.shape)  # a partner that does not flip counts as the far end
+    # A partner that does not flip sorts after every one that does (even one
+    # interpolated at the far end) and, for the guess, counts as the far end.
+    frac = np.full(flips.shape, 2.0)
     frac[r, j] = np.where(np.isnan(cut), 0.5, np.clip(cut, 0.0, 1.0))
     j = np.argmin(frac, axis=1)
     best = frac[rows, j]
-    return best, np.where(np.isfinite(best), j, -1)
+    return np.minimum(best, 1.0), np.where(best <= 1.0, j, -1)
 
 
 def _ranks_beyond(scorer, x, w, c, ranks, low, high, low_by, high_by):
@@ -375,12 +412,14 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
     Returns
     -------
     records : list of dict
-        JSON-ready tipping points: ``criterion``, ``current_weight``, ``kind``
-        (``top`` for a change of first place, ``rank`` otherwise),
-        ``corridor_id``, ``other_id``, ``weight_at``, ``direction`` (``above``
-        or ``below``), ``rank_before``, ``rank_after`` (of ``corridor_id``),
-        ``sentence``. A crossing that ends the intervals of both corridors
-        is listed once.
+        JSON-ready tipping points (numbers only; the words are
+        :func:`ranker.report.narrative.tipping_sentence`): ``criterion``,
+        ``current_weight``, ``kind`` (``top`` for a change of first place,
+        ``rank`` otherwise), ``corridor_id``, ``other_id``, ``weight_at``,
+        ``direction`` (``above`` or ``below``), ``rank_before``,
+        ``rank_after`` (of ``corridor_id``), ``other_rank_before``,
+        ``other_rank_after`` (of ``other_id``, just past ``weight_at``). A
+        crossing that ends the intervals of both corridors is listed once.
     intervals : list of list
         Rows for :data:`INTERVAL_COLUMNS`.
     """
@@ -407,26 +446,7 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
                 if any(abs(t - u) <= 2 * TOLERANCE for u in seen.get(pair, [])):
                     continue
                 seen.setdefault(pair, []).append(float(t))
-                moves = "rises above" if direction == "above" else "falls below"
-                at = weight_text(float(t), sw.current)
-                who, other = namer.corridor(ids[i], start=True), namer.corridor(ids[by])
-                if r == 1:
-                    kind = "top"
-                    sentence = (
-                        f"{namer.corridor(ids[by], start=True)} overtakes "
-                        f"{namer.corridor(ids[i])} for first place if the weight on "
-                        f"{label} {moves} {at}; it is {now} now."
-                    )
-                else:
-                    kind = "rank"
-                    verb = (
-                        f"moves up from {ordinal(r)} to {ordinal(after)}, past {other},"
-                        if after < r
-                        else f"drops from {ordinal(r)} to {ordinal(after)}, behind {other},"
-                    )
-                    sentence = (
-                        f"{who} {verb} if the weight on {label} {moves} {at}; it is {now} now."
-                    )
+                kind = "top" if r == 1 else "rank"
                 events.append(
                     {
                         "criterion": key,
@@ -438,8 +458,11 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
                         "direction": direction,
                         "rank_before": r,
                         "rank_after": int(after),
+                        # The passed corridor sits next to it just past the crossing
+                        # (no other crossing at the same weight).
+                        "other_rank_before": int(sw.ranks[by]),
+                        "other_rank_after": int(after) + (1 if after < r else -1),
                         "exact": bool(sw.exact),
-                        "sentence": sentence,
                     }
                 )
         events.sort(key=lambda e: (e["kind"] != "top", abs(e["weight_at"] - sw.current)))

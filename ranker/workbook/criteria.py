@@ -32,6 +32,18 @@ JUDGMENT_HIGH = 9.0
 RECIPROCAL_TOLERANCE = 0.05
 
 
+def _typed_name(t: Table, col: int, name: str) -> str:
+    """The set name as the planner typed it (``weight:Board`` gives ``Board``, not ``board``)."""
+    cell = t.grid.get(1, col)
+    try:
+        text = U.parse_text(raw(cell)) if cell is not None else ""
+    except CellValueError:
+        return name
+    parts = [p.strip() for p in str(text).split(":")]
+    typed = "_".join(parts[1].split()) if len(parts) > 1 else ""
+    return typed if typed.lower() == name else name
+
+
 def _weight_columns(t: Table, problems: Problems) -> list[tuple[S.WeightHeader, int, str]]:
     out: list[tuple[S.WeightHeader, int, str]] = []
     names: dict[str, int] = {}
@@ -58,7 +70,7 @@ def _weight_columns(t: Table, problems: Problems) -> list[tuple[S.WeightHeader, 
             )
             continue
         names[wh.name] = col
-        out.append((wh, col, key))
+        out.append((S.WeightHeader(_typed_name(t, col, wh.name), wh.kind), col, key))
     if not out:
         problems.add(
             f"{t.sheet}!1:1",

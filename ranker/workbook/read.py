@@ -34,6 +34,7 @@ import pandas as pd
 from openpyxl.utils import column_index_from_string, get_column_letter, range_boundaries
 
 from ranker.errors import InputError, Problems
+from ranker.workbook import places as _places
 from ranker.workbook import sheets as _sheets
 from ranker.workbook import tables as T
 from ranker.workbook.criteria import read_criteria, read_pairwise
@@ -162,7 +163,7 @@ def _load_grids(path, pre, limits, problems):
             pre.warnings.append(
                 f"{canon}!{span}: the totals row of a spreadsheet table; it was not read as data"
             )
-        if part.hidden:
+        if part.hidden and canon != T.GEOMETRY:  # template --from hides the point list
             pre.warnings.append(f"{canon}: the sheet is hidden; it was read all the same")
         rows = sorted(r for r in part.hidden_rows if r in grid.data_rows)
         if rows:
@@ -325,6 +326,12 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
         )
     if T.PAIRWISE in grids and T.CRITERIA in tables:
         inputs.pairwise = read_pairwise(grids[T.PAIRWISE], problems, inputs)
+    if T.PLACES in tables:
+        inputs.places = _places.read_places(tables[T.PLACES], problems, inputs)
+        if inputs.places is not None and T.CORRIDORS in tables:
+            _places.check_connects_places(tables[T.CORRIDORS], inputs.places, problems)
+    if T.GEOMETRY in tables:
+        inputs.geometry = _places.read_geometry(tables[T.GEOMETRY], problems, inputs, corridors)
     for grid in grids.values():
         _sheets.formula_outside(grid, problems)
     return inputs

@@ -14,8 +14,9 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
+from ranker.builtin import BUILTIN_CRITERIA
+from ranker.constants import KM_PER_MI, M_PER_FT
 from ranker.workbook import tables as _t
-from ranker.workbook.units import KM_PER_MI, M_PER_FT
 
 #: Name of the instructions sheet the template writes first.
 INSTRUCTIONS = "How to fill in"
@@ -99,8 +100,6 @@ class SheetSchema:
         Columns in template order (empty for the ``Pairwise`` matrix).
     layout : str
         ``"table"`` (header row 1, one record a row) or ``"matrix"``.
-    key_field : str
-        Field naming each row uniquely (``""`` for list sheets).
     """
 
     name: str
@@ -108,7 +107,6 @@ class SheetSchema:
     purpose: str
     fields: tuple[Field, ...]
     layout: str = "table"
-    key_field: str = ""
 
     def field(self, key: str) -> Field:
         """Return the field with canonical key ``key``."""
@@ -279,6 +277,15 @@ ASSUMPTION_FIELDS = (
         width=18,
     ),
     _f(
+        "default",
+        "",
+        "text",
+        False,
+        "The built-in default, used while value is blank (for reading; the tool reads "
+        "only the value column).",
+        width=16,
+    ),
+    _f(
         "unit",
         "",
         "text",
@@ -434,6 +441,85 @@ SCENARIO_FIELDS = (
     _f("note", "", "text", False, "Optional remark.", width=40),
 )
 
+PLACE_FIELDS = (
+    _f(
+        "place",
+        "",
+        "text",
+        True,
+        "Short unique name of the place, as the connects column of Corridors writes it "
+        "(for example Northport).",
+        width=22,
+    ),
+    _f("name", "", "text", False, "Optional. Name shown on the map; blank: the place.", width=28),
+    _f(
+        "lat",
+        "[deg]",
+        "number",
+        True,
+        "Latitude, WGS 84, in decimal degrees north (south is negative) [deg].",
+        number_format="0.00000",
+        width=12,
+        low=-90.0,
+        high=90.0,
+    ),
+    _f(
+        "lon",
+        "[deg]",
+        "number",
+        True,
+        "Longitude, WGS 84, in decimal degrees east (west is negative) [deg].",
+        number_format="0.00000",
+        width=12,
+        low=-180.0,
+        high=180.0,
+    ),
+)
+
+GEOMETRY_FIELDS = (
+    _f(
+        "corridor_id",
+        "",
+        "text",
+        True,
+        "The corridor this point of its line belongs to (a corridor_id of Corridors).",
+        width=12,
+    ),
+    _f(
+        "part",
+        "",
+        "int",
+        True,
+        "Part of the corridor's line, 1 for a single line; a line in several pieces counts "
+        "them 1, 2, ...",
+        number_format="0",
+        width=8,
+        low=1,
+    ),
+    _f(
+        "lon",
+        "[deg]",
+        "number",
+        True,
+        "Longitude of the point, WGS 84 [deg]. Points of a part follow in the order of the rows.",
+        number_format="0.000000",
+        width=13,
+        low=-180.0,
+        high=180.0,
+    ),
+    _f(
+        "lat",
+        "[deg]",
+        "number",
+        True,
+        "Latitude of the point, WGS 84 [deg].",
+        number_format="0.000000",
+        width=13,
+        low=-90.0,
+        high=90.0,
+    ),
+)
+
 #: Every contract sheet, in contract order.
 SHEETS: dict[str, SheetSchema] = {
     s.name: s
@@ -444,14 +530,12 @@ SHEETS: dict[str, SheetSchema] = {
             "One row per corridor: its code, name and the facts the built-in criteria "
             "are derived from. Any further numeric column may serve as a criterion.",
             CORRIDOR_FIELDS,
-            key_field="corridor_id",
         ),
         SheetSchema(
             _t.JURISDICTIONS,
             False,
             "One row per jurisdiction with its policy readiness (needed for policy_readiness).",
             JURISDICTION_FIELDS,
-            key_field="jurisdiction",
         ),
         SheetSchema(
             _t.CORRIDOR_MILES,
@@ -463,10 +547,9 @@ SHEETS: dict[str, SheetSchema] = {
         SheetSchema(
             _t.ASSUMPTIONS,
             False,
-            "Every model assumption with its default; change a value to use yours, "
+            "Every model assumption with its default beside it; type a value to use yours, "
             "leave it blank for the default.",
             ASSUMPTION_FIELDS,
-            key_field="key",
         ),
         SheetSchema(
             _t.CRITERIA,
@@ -474,7 +557,6 @@ SHEETS: dict[str, SheetSchema] = {
             "Which criteria take part, whether more is better (benefit) or less "
             "(cost), and one column per weight set.",
             CRITERIA_FIELDS,
-            key_field="criterion",
         ),
         SheetSchema(
             _t.ADOPTION,
@@ -503,76 +585,23 @@ SHEETS: dict[str, SheetSchema] = {
             "re-ranked under each scenario.",
             SCENARIO_FIELDS,
         ),
-    )
-}
-
-
-@dataclass(frozen=True)
-class BuiltinCriterion:
-    """A criterion the tool can derive.
-
-    Attributes
-    ----------
-    key : str
-        Criterion key.
-    direction : str
-        Usual direction.
-    label : str
-        Default label.
-    unit : str
-        Unit of the criterion's values.
-    meaning : str
-        One line for notes and docs.
-    """
-
-    key: str
-    direction: str
-    label: str
-    unit: str
-    meaning: str
-
-
-#: The five built-in criteria, in template order.
-BUILTIN_CRITERIA: dict[str, BuiltinCriterion] = {
-    c.key: c
-    for c in (
-        BuiltinCriterion(
-            "policy_readiness",
-            "benefit",
-            "Policy readiness",
-            "[0-100]",
-            "Mileage-weighted mean readiness of the jurisdictions along the corridor.",
+        SheetSchema(
+            _t.PLACES,
+            False,
+            "Where the places named in connects lie (latitude and longitude, WGS 84); "
+            "yields the network map and a GeoJSON file of the results.",
+            PLACE_FIELDS,
         ),
-        BuiltinCriterion(
-            "capital_cost",
-            "cost",
-            "Capital cost",
-            "[USD]",
-            "Charging ports, sites, and grid upgrade where the new peak exceeds headroom.",
-        ),
-        BuiltinCriterion(
-            "charging_revenue",
-            "benefit",
-            "Charging revenue",
-            "[USD]",
-            "Net present value of the charging margin over the horizon.",
-        ),
-        BuiltinCriterion(
-            "grid_headroom",
-            "benefit",
-            "Grid headroom",
-            "[-]",
-            "Headroom divided by the corridor's new peak charging load (1 = just fits).",
-        ),
-        BuiltinCriterion(
-            "terrain_penalty",
-            "cost",
-            "Terrain penalty",
-            "[-]",
-            "Extra traction energy from climbing, as a fraction of flat-road energy.",
+        SheetSchema(
+            _t.GEOMETRY,
+            False,
+            "The corridors' lines as drawn in a GIS, one row per point (filled by "
+            "ranker template --from, and hidden there); blank: straight lines between places.",
+            GEOMETRY_FIELDS,
         ),
     )
 }
+
 
 #: Canonical field key to unit, for every numeric field of every sheet and
 #: every built-in criterion (for outputs: ``FIELD_UNITS["length_mi"] == "[mi]"``).

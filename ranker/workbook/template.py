@@ -3,7 +3,9 @@
 The first sheet, "How to fill in", says what each sheet is for and the steps
 of a run. Every contract sheet follows with its header row, a note on every
 header (meaning and unit), number formats, frozen headers and widths.
-``Assumptions`` is pre-filled with every key and its default, and
+``Assumptions`` lists every key with its value cell empty and the default
+beside it (a blank value means the default; only a typed value counts as the
+planner's), and
 ``Criteria`` with the five built-in criteria at equal weight.
 """
 
@@ -40,6 +42,7 @@ _TEXT_WIDTH = 100
 _HEADER_FONT = Font(bold=True)
 _HEADER_FILL = PatternFill("solid", fgColor="DDE4EE")
 _BAND_FILL = PatternFill("solid", fgColor="F3F5F8")
+_DEFAULT_FONT = Font(italic=True, color="595959")
 _WRAP = Alignment(wrap_text=True, vertical="top")
 
 
@@ -211,17 +214,23 @@ def _instructions(wb: Workbook) -> None:
 
 
 def _fill_assumptions(ws) -> None:
+    """Every key with its default beside an empty value cell (blank = the default)."""
+    col = {f.key: i for i, f in enumerate(SHEETS[T.ASSUMPTIONS].fields, start=1)}
     groups: list[str] = []
     for r, a in enumerate(ASSUMPTIONS.values(), start=2):
-        ws.cell(row=r, column=1, value=a.key)
-        ws.cell(row=r, column=2, value=a.default)
-        ws.cell(row=r, column=3, value=a.unit)
-        ws.cell(row=r, column=4, value=a.note)
-        ws.cell(row=r, column=5, value=a.group)
+        ws.cell(row=r, column=col["key"], value=a.key)
+        default = ", ".join(a.default) if isinstance(a.default, tuple) else a.default
+        if isinstance(default, bool):
+            default = "yes" if default else "no"
+        ws.cell(row=r, column=col["default"], value=default if default != "" else None)
+        ws.cell(row=r, column=col["unit"], value=a.unit)
+        ws.cell(row=r, column=col["note"], value=a.note)
+        ws.cell(row=r, column=col["group"], value=a.group)
+        ws.cell(row=r, column=col["default"]).font = _DEFAULT_FONT
         if a.group not in groups:
             groups.append(a.group)
         if groups.index(a.group) % 2:
-            for c in range(1, 6):
+            for c in range(1, len(col) + 1):
                 ws.cell(row=r, column=c).fill = _BAND_FILL
         if a.kind in ("choice", "bool"):
             words = a.choices if a.kind == "choice" else ("yes", "no")
@@ -230,9 +239,9 @@ def _fill_assumptions(ws) -> None:
                     "list", words, title=a.key, message="Choose one of: " + ", ".join(words) + "."
                 )
                 ws.add_data_validation(dv)
-                dv.add(f"B{r}")
+                dv.add(f"{get_column_letter(col['value'])}{r}")
         elif a.kind == "list":
-            ws.cell(row=r, column=2).comment = _note(
+            ws.cell(row=r, column=col["value"]).comment = _note(
                 "Comma-separated, from: " + ", ".join(a.choices) + "."
             )
 

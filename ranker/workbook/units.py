@@ -29,11 +29,6 @@ import difflib
 import math
 import re
 
-#: Kilometres per international mile [km/mi] (exact, NIST SP 811 B.8).
-KM_PER_MI = 1.609344
-#: Metres per international foot [m/ft] (exact, NIST SP 811 B.8).
-M_PER_FT = 0.3048
-
 #: Spreadsheet error values a formula can leave in a cell.
 SPREADSHEET_ERRORS = (
     "#DIV/0!",
@@ -443,35 +438,3 @@ def check_range(
             f"holds {x:,.10g}, outside the allowed range",
             f"type a value {allowed}{(' ' + unit) if unit else ''}",
         )
-
-
-def km_to_mi(km):
-    """Convert kilometres to miles.
-
-    Parameters
-    ----------
-    km : float or array_like
-        Distance [km].
-
-    Returns
-    -------
-    float or array_like
-        Distance [mi].
-    """
-    return km / KM_PER_MI
-
-
-def m_to_ft(m):
-    """Convert metres to feet.
-
-    Parameters
-    ----------
-    m : float or array_like
-        Height [m].
-
-    Returns
-    -------
-    float or array_like
-        Height [ft].
-    """
-    return m / M_PER_FT

@@ -233,10 +233,10 @@ def _weights_unknown(folder):
 
 @stage(
     "weight_not_key_value",
-    "--weight is given without =VALUE.",
+    "--weight is given without =SHARE.",
     2,
     "--weight",
-    "is not KEY=VALUE",
+    "is not KEY=SHARE",
     check=0,
 )
 def _weight_no_value(folder):
@@ -245,10 +245,10 @@ def _weight_no_value(folder):
 
 @stage(
     "weight_not_a_number",
-    "--weight gives a word as the value.",
+    "--weight gives a word as the share.",
     2,
     "--weight",
-    "is not KEY=VALUE",
+    "is not KEY=SHARE",
     check=0,
 )
 def _weight_word(folder):
@@ -269,10 +269,10 @@ def _weight_unknown(folder):
 
 @stage(
     "weight_negative",
-    "--weight gives a negative weight.",
+    "--weight gives a negative share.",
     2,
     "--weight",
-    "is not a weight",
+    "is outside 0-100 %",
     check=0,
 )
 def _weight_negative(folder):
@@ -284,7 +284,7 @@ def _weight_negative(folder):
     "--weight gives nan.",
     2,
     "--weight",
-    "is not a weight",
+    "is outside 0-100 %",
     check=0,
 )
 def _weight_nan(folder):
@@ -293,10 +293,10 @@ def _weight_nan(folder):
 
 @stage(
     "weights_all_zero",
-    "--weight sets every criterion's weight to 0.",
+    "--weight sets every criterion's share to 0.",
     2,
     "--weight",
-    "every weight of the set is zero",
+    "the shares sum to 0 %, not 100 %",
     check=0,
 )
 def _weights_zero(folder):
@@ -345,16 +345,53 @@ def _samples_huge(folder):
 
 
 @stage(
-    "output_folder_missing",
-    "--out names a folder that does not exist.",
+    "output_folder_under_a_file",
+    "--out names a folder inside a file.",
     2,
-    "nope",
-    "the output folder does not exist",
+    "notes.txt",
+    "is a file, not a folder",
     check=0,
 )
-def _out_missing(folder):
+def _out_under_file(folder):
+    (folder / "notes.txt").write_text("my notes")
     path, extra = _valid(folder)
-    return path, [*extra, "--out", str(folder / "out" / "nope")]
+    return path, [*extra, "--out", str(folder / "notes.txt" / "out")]
+
+
+@stage(
+    "weight_share_over_100",
+    "--weight gives a share above 100 %.",
+    2,
+    "--weight",
+    "is outside 0-100 %",
+    check=0,
+)
+def _weight_over(folder):
+    return _valid(folder, None, "--weight", "capital_cost=140")
+
+
+@stage(
+    "weight_repeated",
+    "--weight names the same criterion twice.",
+    2,
+    "--weight",
+    "capital_cost is given twice",
+    check=0,
+)
+def _weight_twice(folder):
+    return _valid(folder, None, "--weight", "capital_cost=20", "--weight", "capital_cost=30")
+
+
+@stage(
+    "weight_shares_over_100",
+    "Shares of several --weight flags sum above 100 %.",
+    2,
+    "--weight",
+    "above 100 %",
+    check=0,
+)
+def _weight_sum(folder):
+    return _valid(folder, None, "--weight", "capital_cost=60", "--weight", "charging_revenue=50")
 
 
 @stage(
@@ -362,7 +399,7 @@ def _out_missing(folder):
     "--out names a file.",
     2,
     "notes.txt",
-    "is not a folder",
+    "is a file, not a folder",
     check=0,
 )
 def _out_file(folder):

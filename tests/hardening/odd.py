@@ -736,7 +736,7 @@ def _loop(folder):
     "--out names a symbolic link to a folder that was removed.",
     2,
     "gone",
-    "does not exist",
+    "cannot be reached",
     check=0,
 )
 def _out_dangling(folder):

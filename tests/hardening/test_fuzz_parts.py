@@ -114,5 +114,6 @@ def test_damaged_part_never_ends_in_an_internal_error(seed_name, n, tmp_path):
         assert_refused(outcome)
         assert_no_output(out, [])
     else:
-        assert set(listing(out)) == {"input-ranked.html", "input-ranked.xlsx"}, what
+        made = {Path(n).suffix for n in listing(out)}
+        assert {".html", ".xlsx"} <= made, (what, listing(out))
     assert sha256(path) == digest

@@ -47,13 +47,29 @@ def _run(path, out, *extra):
     return run("run", path, "--samples", "0", "--quiet", "--out", out, *extra)
 
 
-def test_missing_output_folder_is_not_created(workbook, tmp_path):
+def test_missing_output_folder_is_created(workbook, tmp_path):
     digest = sha256(workbook)
-    outcome = _run(workbook, tmp_path / "nowhere")
-    assert_refused(outcome, "nowhere")
-    assert "the output folder does not exist" in outcome.err
-    assert not (tmp_path / "nowhere").exists()
+    outcome = _run(workbook, tmp_path / "new" / "deeper")
+    assert outcome.code == 0, outcome.err
+    assert listing(tmp_path / "new" / "deeper") == OUTPUTS
     assert sha256(workbook) == digest
+
+
+def test_a_file_where_the_output_folder_should_be(workbook, tmp_path):
+    (tmp_path / "plain.txt").write_text("x")
+    digest = sha256(workbook)
+    outcome = _run(workbook, tmp_path / "plain.txt" / "sub")
+    assert_refused(outcome, "plain.txt")
+    assert "is a file, not a folder" in outcome.err
+    assert sha256(workbook) == digest
+
+
+def test_a_failed_input_creates_no_output_folder(tmp_path):
+    bad = tmp_path / "bad.xlsx"
+    bad.write_bytes(b"not a workbook")
+    outcome = _run(bad, tmp_path / "never")
+    assert outcome.code == 2
+    assert not (tmp_path / "never").exists()
 
 
 def test_outputs_are_readable_by_others_as_the_umask_allows(workbook, out):

@@ -8,7 +8,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ranker.plan.objectives import OBJECTIVES, discount_factor, value_score, value_truck_miles
+from ranker.plan.objectives import OBJECTIVES, value_score, value_truck_miles
 
 # numpy-financial's closed forms lose digits for rates near zero, so rates are 0 or >= 0.1 %.
 RATES = st.one_of(st.just(0.0), st.floats(1e-3, 0.3))
@@ -45,7 +45,10 @@ def test_truck_miles_value_is_an_annuity_due_from_completion(rate, years, seed):
 
 
 def test_gaps_in_years_are_discounted_by_calendar_year():
-    assert discount_factor(np.array([2027, 2030]), 0.1)[1] == pytest.approx(1.1**-3)
+    # (P/F, 10 %, 3) = 1.1^-3 (Sullivan, Wicks and Koelling 2015, ch. 4)
+    assert value_score(np.array([1.0]), np.array([2027, 2030]), 0.1)[0, 1] == pytest.approx(
+        1.1**-3
+    )
     # 2027 and 2030 plan years; from 2027 the corridor serves 2027..2030 (4 years)
     assert value_truck_miles(np.array([1.0]), np.array([2027, 2030]), 0.0).tolist() == [[4.0, 1.0]]
 

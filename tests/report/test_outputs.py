@@ -26,6 +26,7 @@ RESULT_SHEETS = [
     "Sizing",
     "Adoption path",
     "Robustness",
+    "Tiers",
     "Weight ranges",
     "Futures",
     "Phasing",
@@ -70,6 +71,44 @@ def test_workbook_ranking_equals_json(demo_run):
     assert [(r[0], r[1]) for r in rows] == [
         (x["corridor_id"], x["rank"]) for x in summary["ranking"]
     ]
+
+
+def test_json_tiers_follow_the_pairwise_shares(demo_run):
+    """Tiers and shares as the contract pins them, and the tier rule holds on the shares."""
+    result, paths = demo_run
+    summary = result.to_json()
+    ids = [e["corridor_id"] for e in summary["ranking"]]
+    tiers = [e["tier"] for e in summary["ranking"]]
+    wins = summary["robustness"]["pairwise_wins"]
+    assert summary["robustness"]["pairwise_ids"] == ids  # 13 corridors: all of them
+    assert len(wins) == len(ids) and all(len(row) == len(ids) for row in wins)
+    assert tiers[0] == 1 and all(0 <= b - a <= 1 for a, b in zip(tiers, tiers[1:], strict=False))
+    confidence = summary["robustness"]["tier_confidence"]
+    assert confidence == 0.9  # the documented default of tier_confidence
+    for i in range(len(ids)):
+        assert wins[i][i] == 0.0
+        for j in range(len(ids)):
+            assert wins[i][j] + wins[j][i] <= 1.0 + 1e-12
+            if tiers[i] < tiers[j]:
+                assert wins[i][j] >= confidence
+    # Each cut that is not a tier boundary has some pair across it below the level.
+    for p in range(len(ids) - 1):
+        if tiers[p] == tiers[p + 1]:
+            across = [wins[i][j] for i in range(p + 1) for j in range(p + 1, len(ids))]
+            assert min(across) < confidence
+    wb = load_workbook(paths["workbook"], read_only=True)
+    rows = [r for r in wb["Tiers"].iter_rows(min_row=7, values_only=True) if r[0]]
+    assert [r[0] for r in rows] == ids
+    assert [r[1] for r in rows] == tiers
+    sheet = [list(r[2 : 2 + len(ids)]) for r in rows]
+    assert (
+        max(
+            abs(a - b)
+            for ra, rb in zip(sheet, wins, strict=True)
+            for a, b in zip(ra, rb, strict=True)
+        )
+        < 1e-12
+    )
 
 
 def test_html_golden(demo_run):

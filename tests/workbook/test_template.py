@@ -9,7 +9,7 @@ import openpyxl
 import pytest
 from defusedxml import ElementTree as SafeET
 
-from ranker.assumptions import ASSUMPTIONS, parse_default
+from ranker.assumptions import ASSUMPTIONS
 from ranker.workbook import SHEETS, read_workbook, write_template
 from ranker.workbook.schema import BUILTIN_CRITERIA, INSTRUCTIONS
 from ranker.workbook.template import LIST_MAX, MESSAGE_MAX, TITLE_MAX
@@ -112,15 +112,20 @@ def test_parts_are_well_formed_xml(template):
                 SafeET.fromstring(zf.read(name))
 
 
-def test_assumptions_prefilled_with_every_key(book):
+def test_assumptions_list_every_key_with_an_empty_value_and_the_default_beside(book):
     ws = book["Assumptions"]
+    assert [c.value for c in ws[1]][:6] == ["key", "value", "default", "unit", "note", "group"]
     rows = list(ws.iter_rows(min_row=2, values_only=True))
     assert [r[0] for r in rows] == list(ASSUMPTIONS)
     for r in rows:
         a = ASSUMPTIONS[r[0]]
-        default = None if a.default == "" else a.default  # an empty default is a blank cell
-        assert (r[1], r[2], r[3], r[4]) == (default, a.unit, a.note, a.group)
-    groups = [r[4] for r in rows]
+        default = ", ".join(a.default) if isinstance(a.default, tuple) else a.default
+        if isinstance(default, bool):
+            default = "yes" if default else "no"
+        default = None if default == "" else default  # an empty default is a blank cell
+        # the value cell is empty: only a value the planner types counts as theirs
+        assert (r[1], r[2], r[3], r[4], r[5]) == (None, default, a.unit, a.note, a.group)
+    groups = [r[5] for r in rows]
     # grouped: each group's rows are contiguous
     assert len(set(groups)) == len(
         [g for i, g in enumerate(groups) if i == 0 or groups[i - 1] != g]
@@ -177,11 +182,8 @@ def test_round_trip(tmp_path):
     assert inputs.budget["capital_usd"].tolist() == [2e7]
     assert inputs.scenarios["value"].tolist() == [420000.0]
     assert inputs.pairwise is None  # the template's matrix holds no judgment
-    # every pre-filled assumption reads back as its typed default
-    # a key whose default is blank reads as not set, so the default applies
-    assert inputs.assumptions == {
-        k: parse_default(a) for k, a in ASSUMPTIONS.items() if a.default != ""
-    }
+    # the template's value cells are empty: no assumption counts as the planner's
+    assert inputs.assumptions == {}
     assert inputs.warnings == []
     assert inputs.where("Corridors", "length_mi", "C02") == "Corridors!D3"
     assert inputs.sheet_names[0] == INSTRUCTIONS

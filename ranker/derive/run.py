@@ -1,0 +1,305 @@
+"""Run the derivation: check the inputs, run the models in order, collect every number.
+
+Data flow, one module per model::
+
+    needs     what each criterion needs; every missing input in one error
+    adoption  electric share of the trucks on the road, year by year
+              (stock: vintage turnover; choice: prices and logit; finance: NPV, CRF)
+    energy    battery energy of one truck pass: flat road + terrain
+    sizing    stations and ports for target_year (energy balance, Erlang C)
+    grid      new peak load, upgrade above headroom, headroom ratio
+    costs     capital cost: ports, sites, grid upgrade
+    revenue   NPV of the charging margin along the adoption path
+    readiness mileage-weighted readiness of the jurisdictions crossed
+    glossary  unit and meaning of every column; the tables of docs/derivation.md
+
+:func:`derive_criteria` checks what the requested criteria need (one
+``InputError`` listing everything missing), runs the models, and returns a
+:class:`Derivation` holding the criteria, every intermediate number, the
+adoption path, and the unit and meaning of every column.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+import pandas as pd
+
+from ..builtin import BUILTIN_CRITERIA
+from ..errors import Problems
+from ..workbook.tables import Inputs
+from .adoption import adoption_path
+from .costs import capital_cost_unit_rates
+from .energy import (
+    climb_energy_two_way,
+    flat_energy_per_mile,
+    terrain_penalty_energy_ratio,
+)
+from .finance import discount_factor_compound
+from .glossary import COLUMNS
+from .grid import grid_upgrade_excess, headroom_ratio_peak, peak_load_coincidence
+from .needs import Checked, check_inputs
+from .readiness import policy_readiness
+from .revenue import demand_charge_npv_peak, en_route_energy_per_year, margin_npv_charging
+from .sizing import charger_sizing
+
+#: Built-in criterion key to its direction (from :data:`ranker.builtin.BUILTIN_CRITERIA`).
+BUILT_IN: dict[str, str] = {k: c.direction for k, c in BUILTIN_CRITERIA.items()}
+
+#: Built-in criterion key to the ``sizing`` column holding its value.
+CRITERION_COLUMN: dict[str, str] = {k: c.column for k, c in BUILTIN_CRITERIA.items()}
+
+
+@dataclass
+class Derivation:
+    """Derived criteria with everything behind them.
+
+    Attributes
+    ----------
+    values : DataFrame
+        Index ``corridor_id``; one column per requested criterion, in the
+        order asked.
+    sizing : DataFrame
+        Index ``corridor_id``; every intermediate number (energy per pass,
+        sizing, grid, cost parts, revenue parts, readiness check), the
+        criteria among them (:data:`CRITERION_COLUMN`).
+    adoption : DataFrame
+        One row per year from ``analysis_year`` to the later of
+        ``target_year`` and the last horizon year; empty when no criterion
+        needs the sizing.
+    units : dict of str to str
+        Column name (``values``, ``sizing`` and ``adoption``) to unit, like
+        ``"[kWh/day]"``.
+    notes : dict of str to str
+        Column name to a one-line formula or meaning.
+    warnings : list of str
+        Doubtful but legal input met while deriving.
+    """
+
+    values: pd.DataFrame
+    sizing: pd.DataFrame
+    adoption: pd.DataFrame
+    units: dict[str, str] = field(default_factory=dict)
+    notes: dict[str, str] = field(default_factory=dict)
+    warnings: list[str] = field(default_factory=list)
+
+
+def _energy(plan: Checked, a: dict) -> dict[str, np.ndarray]:
+    f = plan.fields
+    flat = flat_energy_per_mile(f["length_mi"], energy_kwh_per_mi=a["energy_kwh_per_mi"])
+    climb = climb_energy_two_way(
+        f["climb_ft"],
+        f["descent_ft"],
+        gross_weight_lb=a["gross_weight_lb"],
+        drivetrain_efficiency=a["drivetrain_efficiency"],
+        regen_fraction=a["regen_fraction"],
+    )
+    return {
+        "climb_ft": f["climb_ft"],
+        "descent_ft": f["descent_ft"],
+        "flat_energy_kwh": flat,
+        "climb_energy_kwh": climb,
+        "energy_per_pass_kwh": flat + climb,
+        "terrain_penalty": terrain_penalty_energy_ratio(climb, flat),
+    }
+
+
+def _adoption(inputs: Inputs, plan: Checked, a: dict) -> pd.DataFrame:
+    start, horizon = int(a["analysis_year"]), int(a["horizon_years"])
+    end = max(int(a["target_year"]), start + horizon - 1)
+    path = adoption_path(
+        model=plan.adoption_model, assumptions=a, end_year=end, table=inputs.adoption
+    )
+    plan.warnings.extend(path.warnings)
+    frame = path.frame
+    t = frame["year"].to_numpy() - start
+    frame["traffic_index"] = (1.0 + a["truck_traffic_growth_rate"]) ** t
+    frame["in_horizon"] = t < horizon
+    frame["discount_factor"] = np.where(
+        t < horizon, discount_factor_compound(t, rate_per_yr=a["discount_rate"]), np.nan
+    )
+    return frame
+
+
+def _size(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
+    """Charging sites and ports for ``target_year`` (energy balance and Erlang C)."""
+    f = plan.fields
+    at_target = path.loc[path["year"] == int(a["target_year"])].iloc[0]
+    tpd_target = f["trucks_per_day"] * at_target["traffic_index"]
+    out = {
+        "trucks_per_day_target": tpd_target,
+        "electric_share_target": np.full(tpd_target.size, at_target["electric_share"]),
+    }
+    out.update(
+        charger_sizing(
+            length_mi=f["length_mi"],
+            trucks_per_day=tpd_target,
+            electric_share=float(at_target["electric_share"]),
+            energy_kwh_per_pass=energy["energy_per_pass_kwh"],
+            assumptions=a,
+        )
+    )
+    return out
+
+
+def _grid_and_cost(plan: Checked, a: dict, sized: dict) -> dict[str, np.ndarray]:
+    """New peak load, grid upgrade above headroom, headroom ratio and capital cost."""
+    out = {
+        "peak_load_mw": peak_load_coincidence(
+            sized["ports"],
+            charger_power_kw=a["charger_power_kw"],
+            coincidence_factor=a["coincidence_factor"],
+        )
+    }
+    headroom = plan.fields.get("grid_headroom_mw")
+    given = headroom is not None and bool(np.isfinite(headroom).all())
+    upgrade = grid_upgrade_excess(out["peak_load_mw"], headroom) if given else np.nan
+    cost = capital_cost_unit_rates(
+        sized["ports"],
+        sized["stations"],
+        upgrade,
+        port_cost_usd=a["port_cost_usd"],
+        site_cost_usd=a["site_cost_usd"],
+        grid_upgrade_usd_per_mw=a["grid_upgrade_usd_per_mw"],
+    )
+    out.update({"ports_cost_usd": cost.ports, "sites_cost_usd": cost.sites})
+    if given:
+        out.update(
+            {
+                "grid_headroom_mw": headroom,
+                "grid_upgrade_mw": upgrade,
+                "grid_upgrade_cost_usd": cost.grid_upgrade,
+                "capital_cost_usd": cost.total,
+                "headroom_ratio": headroom_ratio_peak(headroom, out["peak_load_mw"]),
+            }
+        )
+    return out
+
+
+def _revenue(
+    plan: Checked, a: dict, energy: dict, path: pd.DataFrame, peak_load_mw: np.ndarray
+) -> dict[str, np.ndarray]:
+    """NPV of the charging margin over the horizon, less the demand charges."""
+    # En-route energy of a fully electric fleet at today's traffic, scaled by year.
+    horizon = path.loc[path["in_horizon"]]
+    full = plan.fields["trucks_per_day"] * energy["energy_per_pass_kwh"] * a["en_route_share"]
+    kwh = en_route_energy_per_year(
+        full, horizon["electric_share"].to_numpy(), horizon["traffic_index"].to_numpy()
+    )
+    margin = margin_npv_charging(
+        kwh,
+        charging_price_usd_per_kwh=a["charging_price_usd_per_kwh"],
+        energy_cost_usd_per_kwh=a["energy_cost_usd_per_kwh"],
+        discount_rate=a["discount_rate"],
+    )
+    demand = demand_charge_npv_peak(
+        peak_load_mw * 1000.0,
+        demand_charge_usd_per_kw_month=a["demand_charge_usd_per_kw_month"],
+        years=len(horizon),
+        discount_rate=a["discount_rate"],
+    )
+    return {
+        "en_route_kwh_first_year": kwh[:, 0],
+        "en_route_kwh_horizon": kwh.sum(axis=1),
+        "margin_npv_usd": margin,
+        "demand_charge_npv_usd": demand,
+        "revenue_npv_usd": margin - demand,
+    }
+
+
+def _sizing(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
+    """The sizing stage: sites and ports, then grid and cost, then revenue."""
+    out = _size(plan, a, energy, path)
+    out.update(_grid_and_cost(plan, a, out))
+    out.update(_revenue(plan, a, energy, path, out["peak_load_mw"]))
+    return out
+
+
+def derive_criteria(inputs: Inputs, assumptions: dict, keys: Sequence[str]) -> Derivation:
+    """Derive the built-in criteria ``keys`` of every corridor.
+
+    Parameters
+    ----------
+    inputs : Inputs
+        Typed workbook (:class:`ranker.workbook.tables.Inputs`).
+    assumptions : dict
+        Every assumption's value (:func:`ranker.assumptions.resolve`).
+    keys : sequence of str
+        Keys of :data:`BUILT_IN` to derive. The charger sizing (and the
+        adoption path) is computed whenever ``capital_cost``,
+        ``charging_revenue`` or ``grid_headroom`` is asked.
+
+    Returns
+    -------
+    Derivation
+
+    Raises
+    ------
+    ranker.errors.InputError
+        Everything the criteria need and do not find, at once: missing
+        sheets and columns (per criterion), empty or invalid cells,
+        inconsistent assumptions, unknown jurisdictions, miles that miss
+        the corridor length beyond ``miles_error_tolerance``.
+    ValueError
+        A key that is not a built-in criterion.
+
+    Examples
+    --------
+    >>> from pathlib import Path
+    >>> from ranker.assumptions import resolve
+    >>> corridors = pd.DataFrame(
+    ...     {"name": ["North"], "length_mi": [120.0], "trucks_per_day": [3000.0],
+    ...      "climb_ft": [1500.0], "grid_headroom_mw": [5.0]},
+    ...     index=pd.Index(["N1"], name="corridor_id"))
+    >>> inp = Inputs(path=Path("x.xlsx"), sha256="0", corridors=corridors, criteria=[],
+    ...              weight_sets=[])
+    >>> d = derive_criteria(inp, resolve({}), ["capital_cost", "terrain_penalty"])
+    >>> list(d.values.columns)
+    ['capital_cost', 'terrain_penalty']
+    >>> d.units["capital_cost"], d.sizing.loc["N1", "governing_rule"]
+    ('[USD]', 'queue')
+    """
+    keys = list(dict.fromkeys(keys))
+    unknown = [k for k in keys if k not in BUILT_IN]
+    if unknown:
+        raise ValueError(f"not built-in criteria: {unknown}; known: {list(BUILT_IN)}")
+    a = assumptions
+    problems = Problems()
+    plan, readiness_ok = check_inputs(inputs, a, keys, problems)
+    readiness = None
+    if readiness_ok:
+        readiness = policy_readiness(
+            inputs,
+            miles_warn_tolerance=a["miles_warn_tolerance"],
+            miles_error_tolerance=a["miles_error_tolerance"],
+            problems=problems,
+        )
+    problems.raise_if_any()
+
+    stages = {BUILTIN_CRITERIA[k].stage for k in keys}
+    cols: dict[str, np.ndarray] = {}
+    path = pd.DataFrame()
+    if stages & {"energy", "sizing"}:
+        energy = _energy(plan, a)
+        cols.update(energy)
+        if "sizing" in stages:
+            path = _adoption(inputs, plan, a)
+            cols.update(_sizing(plan, a, energy, path))
+    if readiness is not None:
+        cols.update(readiness.columns)
+        plan.warnings.extend(readiness.warnings)
+
+    index = inputs.corridors.index
+    sizing = pd.DataFrame(cols, index=index)
+    values = pd.DataFrame({k: sizing[CRITERION_COLUMN[k]] for k in keys}, index=index)
+    names = [*keys, *sizing.columns, *path.columns]
+    return Derivation(
+        values=values,
+        sizing=sizing,
+        adoption=path.reset_index(drop=True),
+        units={k: COLUMNS[k][0] for k in names},
+        notes={k: COLUMNS[k][1] for k in names},
+        warnings=plan.warnings,
+    )

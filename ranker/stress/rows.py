@@ -1,0 +1,82 @@
+"""Scores of a few corridors of one matrix under many weight vectors.
+
+The tipping-point search (:mod:`ranker.stress.tipping`) needs, at each step,
+the scores of one corridor and of the few partners it may cross, each under
+its own weight vector; scoring every corridor of the matrix for that is
+``n`` times the work. For a method whose score of a corridor depends on the
+weights only through that corridor's own normalised row (the column
+statistics do not depend on the weights), the rows can be scored alone:
+:data:`ROW_SCORERS` maps such a kernel to a function doing exactly that.
+
+* TOPSIS (Hwang & Yoon [1]_): the normalised matrix, the ideal and the
+  anti-ideal depend on the values only, so
+  ``d+_i = sqrt(sum_j w_j^2 (r_ij - r*_j)^2)`` and ``d-_i`` likewise, and
+  ``C_i = d-_i / (d+_i + d-_i)`` (0.5 where both are 0), the formula of
+  :func:`ranker.score.topsis.topsis` row by row.
+
+A kernel without an entry is scored whole and the wanted columns taken
+(:meth:`ranker.stress.batch.Scorer.rows`), so every kernel works.
+
+References
+----------
+.. [1] C.-L. Hwang and K. Yoon, "Multiple Attribute Decision Making: Methods
+   and Applications", Lecture Notes in Economics and Mathematical Systems 186,
+   Springer, 1981, pp. 128-134.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+import numpy as np
+
+from ranker.score.normalize import BENEFIT_SCALED, normalize
+from ranker.score.topsis import topsis
+
+
+class TopsisRows:
+    """TOPSIS scores of chosen rows of one matrix, one weight vector per row of choices.
+
+    Parameters
+    ----------
+    matrix : ndarray, shape (n, k)
+        Decision matrix in the criteria's own units.
+    is_benefit : ndarray of bool, shape (k,)
+        True where more is better.
+    normalization : str
+        As for :func:`ranker.score.topsis.topsis`.
+    """
+
+    def __init__(self, matrix, is_benefit, *, normalization: str = "vector"):
+        is_benefit = np.asarray(is_benefit, dtype=bool)
+        norm = normalize(np.asarray(matrix, dtype=float), is_benefit, normalization)
+        direction = np.ones_like(is_benefit) if normalization in BENEFIT_SCALED else is_benefit
+        hi = norm.max(axis=-2, keepdims=True)
+        lo = norm.min(axis=-2, keepdims=True)
+        self.to_ideal = (norm - np.where(direction, hi, lo)) ** 2  # Step 4 of [1]
+        self.to_anti = (norm - np.where(direction, lo, hi)) ** 2
+
+    def __call__(self, weights: np.ndarray, cols: np.ndarray) -> np.ndarray:
+        """Score corridors ``cols[m]`` under weight row ``weights[m]`` [-].
+
+        Parameters
+        ----------
+        weights : ndarray, shape (m, k)
+            One weight vector per row of ``cols`` [-].
+        cols : ndarray of int, shape (m, p)
+            Corridor indices [-].
+
+        Returns
+        -------
+        ndarray, shape (m, p)
+            Relative closeness, higher is better [-].
+        """
+        w2 = np.asarray(weights, dtype=float) ** 2
+        d_plus = np.sqrt(np.maximum(np.einsum("mpk,mk->mp", self.to_ideal[cols], w2), 0.0))
+        d_minus = np.sqrt(np.maximum(np.einsum("mpk,mk->mp", self.to_anti[cols], w2), 0.0))
+        total = d_plus + d_minus  # Step 5 of [1]
+        return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+
+
+#: Kernel to ``factory(matrix, is_benefit, **options) -> scorer(weights, cols)``.
+ROW_SCORERS: dict[Callable, Callable] = {topsis: TopsisRows}

@@ -1,0 +1,447 @@
+"""Earlier implementation of ``ranker/stress/tipping.py``, kept to prove the current one equal.
+
+Verbatim copy (module docstring dropped, imports made absolute) of the module
+as it was before bracket narrowing scored only the partners that can flip.
+Used only by the equivalence tests.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ranker.score.ranks import TIE_RTOL
+from ranker.stress.batch import Scorer, beat_thresholds, rank_batch
+from ranker.stress.words import ordinal, weight_text
+
+#: Grid points over [0, 1] that bracket crossings for non-linear kernels [-].
+GRID_POINTS = 201
+#: Width of the final bracket around a crossing [-] (weight).
+TOLERANCE = 1e-6
+#: Largest relative deviation from a line for a kernel to count as affine [-].
+LINEAR_RTOL = 1e-9
+#: Corridors per block of the closed-form crossing search [-].
+AFFINE_ROWS = 256
+
+
+def sweep_weights(weights: np.ndarray, criterion: int, t: np.ndarray) -> np.ndarray:
+    """Return weight vectors with criterion ``criterion`` set to ``t`` [-].
+
+    Parameters
+    ----------
+    weights : ndarray, shape (k,)
+        Current weights summing to 1 [-].
+    criterion : int
+        Index of the swept criterion.
+    t : ndarray, shape (m,)
+        Swept weight values in [0, 1] [-].
+
+    Returns
+    -------
+    ndarray, shape (m, k)
+        Rows sum to 1; the others keep their proportions [-].
+    """
+    w = np.asarray(weights, dtype=float)
+    t = np.asarray(t, dtype=float).reshape(-1, 1)
+    rest = np.delete(w, criterion)
+    share = rest / rest.sum() if rest.sum() > 0 else np.full(rest.size, 1.0 / max(1, rest.size))
+    out = np.insert((1.0 - t) * share[None, :], criterion, t[:, 0], axis=1)
+    return out
+
+
+@dataclass
+class Sweep:
+    """Rank intervals of every corridor for one swept criterion.
+
+    Attributes
+    ----------
+    criterion : int
+        Index of the swept criterion.
+    current : float
+        Its current weight [-].
+    ranks : ndarray of int, shape (n,)
+        Ranks at the current weights [-].
+    low, high : ndarray, shape (n,)
+        Interval of the swept weight over which each rank holds [-].
+    low_by, high_by : ndarray of int, shape (n,)
+        Corridor whose crossing ends the interval; -1 where it reaches 0 or 1.
+    low_rank, high_rank : ndarray of int, shape (n,)
+        Rank just beyond each end (the current rank where it reaches 0 or 1).
+    exact : bool
+        True when the crossings are closed-form (affine kernel).
+    """
+
+    criterion: int
+    current: float
+    ranks: np.ndarray
+    low: np.ndarray
+    high: np.ndarray
+    low_by: np.ndarray
+    high_by: np.ndarray
+    low_rank: np.ndarray
+    high_rank: np.ndarray
+    exact: bool
+    notes: list[str] = field(default_factory=list)
+
+
+def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: int) -> Sweep:
+    """Find, for every corridor, the weight interval of criterion ``c`` keeping its rank.
+
+    Parameters
+    ----------
+    scorer : Scorer
+        The method kernel with its directions and options.
+    matrix : ndarray, shape (n, k)
+        Decision matrix in the criteria's own units.
+    weights : ndarray, shape (k,)
+        Current weights summing to 1 [-].
+    c : int
+        Index of the criterion swept.
+
+    Returns
+    -------
+    Sweep
+
+    Examples
+    --------
+    >>> from ranker.score.weighted_sum import weighted_sum
+    >>> m = np.array([[1.0, 0.0], [0.0, 1.0]])
+    >>> sw = sweep_criterion(Scorer(weighted_sum, np.array([True, True])), m,
+    ...                      np.array([0.7, 0.3]), 0)
+    >>> float(sw.low[0]), int(sw.low_by[0])
+    (0.5, 1)
+    """
+    x = np.asarray(matrix, dtype=float)
+    w = np.asarray(weights, dtype=float)
+    t0 = float(w[c])
+    grid = np.unique(np.concatenate([np.linspace(0.0, 1.0, GRID_POINTS), [t0]]))
+    g = scorer.weights(x, sweep_weights(w, c, grid))
+    g0 = int(np.searchsorted(grid, t0))
+    a, b = g[0], g[-1] - g[0]
+    line = a[None, :] + b[None, :] * grid[:, None]
+    scale = max(1.0, float(np.abs(g).max()))
+    ranks = rank_batch(g[g0])
+    if np.abs(g - line).max() <= LINEAR_RTOL * scale:
+        low, high, low_by, high_by = _crossings_affine(a, b, t0)
+        low_rank, high_rank = _ranks_beyond(scorer, x, w, c, ranks, low, high, low_by, high_by)
+        exact = True
+    else:
+        low, high, low_by, high_by, low_rank, high_rank = _crossings_grid(
+            scorer, x, w, c, grid, g, g0
+        )
+        exact = False
+    return Sweep(c, t0, ranks, low, high, low_by, high_by, low_rank, high_rank, exact)
+
+
+def _crossings_affine(a: np.ndarray, b: np.ndarray, t0: float):
+    """Closed-form crossings of the score lines ``a + b t`` nearest to ``t0``.
+
+    Taken :data:`AFFINE_ROWS` corridors at a time against all the others,
+    so no (n x n) array is ever held.
+    """
+    n = a.size
+    low, high = np.empty(n), np.empty(n)
+    low_by, high_by = np.empty(n, dtype=np.int64), np.empty(n, dtype=np.int64)
+    for start in range(0, n, AFFINE_ROWS):
+        rows = np.arange(start, min(n, start + AFFINE_ROWS))
+        da = a[rows, None] - a[None, :]
+        db = b[rows, None] - b[None, :]
+        scale = np.maximum(np.abs(a)[rows, None], np.abs(a)[None, :]) + np.abs(db) + 1e-300
+        moving = np.abs(db) > TIE_RTOL * scale
+        with np.errstate(divide="ignore", invalid="ignore"):
+            cross = np.where(moving, -da / np.where(moving, db, 1.0), np.nan)  # D_ij(t*) = 0
+        cross[np.arange(rows.size), rows] = np.nan
+        inside = (cross >= 0.0) & (cross <= 1.0)
+        above = np.where(inside & (cross >= t0), cross, np.inf)
+        below = np.where(inside & (cross <= t0), cross, -np.inf)
+        hb = np.argmin(above, axis=1)
+        lb = np.argmax(below, axis=1)
+        local = np.arange(rows.size)
+        high[rows], low[rows] = above[local, hb], below[local, lb]
+        high_by[rows], low_by[rows] = hb, lb
+    high_by = np.where(np.isfinite(high), high_by, -1)
+    low_by = np.where(np.isfinite(low), low_by, -1)
+    return (
+        np.where(np.isfinite(low), low, 0.0),
+        np.where(np.isfinite(high), high, 1.0),
+        low_by,
+        high_by,
+    )
+
+
+def _state(g: np.ndarray, i: np.ndarray, code: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Rank and ahead-set fingerprint of corridor ``i[r]`` in score row ``g[r]``."""
+    rows = np.arange(len(i))
+    beaten_by = g > beat_thresholds(g[rows, i])[:, None]
+    rank = 1 + beaten_by.sum(axis=1)
+    fingerprint = np.where(beaten_by, code[None, :], np.uint64(0)).sum(axis=1, dtype=np.uint64)
+    return rank, fingerprint
+
+
+def _crossings_grid(scorer, x, w, c, grid, g, g0):
+    """Bracket each corridor's first change on the grid, then narrow it down."""
+    n = g.shape[1]
+    code = np.random.default_rng(12345).integers(1, 2**63, size=n, dtype=np.uint64)
+    ranks = rank_batch(g)
+    # The corridors that beat one are the first (rank - 1) in descending order.
+    order = np.argsort(-g, axis=1)
+    cums = np.zeros((len(grid), n + 1), dtype=np.uint64)
+    np.cumsum(code[order], axis=1, out=cums[:, 1:])  # wraps modulo 2**64 on purpose
+    prints = np.take_along_axis(cums, ranks - 1, axis=1)
+    changed = (ranks != ranks[g0]) | (prints != prints[g0])
+    ends = {
+        1: (np.ones(n), np.full(n, -1), ranks[g0].copy()),
+        -1: (np.zeros(n), np.full(n, -1), ranks[g0].copy()),
+    }
+    for side, rows in ((1, np.arange(g0 + 1, len(grid))), (-1, np.arange(g0 - 1, -1, -1))):
+        if not rows.size:
+            continue
+        hit = changed[rows]
+        first = rows[np.argmax(hit, axis=0)]
+        who = np.nonzero(hit.any(axis=0))[0]
+        step = max(1, 250_000 // n)
+        for start in range(0, who.size, step):
+            i = who[start : start + step]
+            t, by, after = _narrow(
+                scorer,
+                x,
+                w,
+                c,
+                i,
+                grid[first[i] - side],
+                grid[first[i]],
+                g[first[i] - side],
+                g[first[i]],
+                ranks[g0, i],
+                prints[g0, i],
+                code,
+            )
+            ends[side][0][i], ends[side][1][i], ends[side][2][i] = t, by, after
+    (high, high_by, high_rank), (low, low_by, low_rank) = ends[1], ends[-1]
+    return low, high, low_by, high_by, low_rank, high_rank
+
+
+def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, print0, code):
+    """Narrow [a, b] (state of i unchanged at a, changed at b) to TOLERANCE.
+
+    Each round guesses the first crossing by linear interpolation of every
+    partner's score difference across the bracket (false position), then
+    scores the weights just either side of the guess; after 8 rounds the
+    guess is the midpoint (bisection), so the search always ends.
+
+    Returns
+    -------
+    t : ndarray
+        Weight at which the state changes [-].
+    by : ndarray of int
+        Partner whose crossing changes it (-1 if none could be named).
+    after : ndarray of int
+        Rank of i just past ``t`` [-].
+    """
+    m = len(i)
+    rows = np.arange(m)
+    a, b = a.astype(float).copy(), b.astype(float).copy()
+    ga, gb = ga.copy(), gb.copy()
+    half = TOLERANCE / 2
+    t = np.full(m, np.nan)
+    by = np.full(m, -1)
+    after = np.zeros(m, dtype=np.int64)
+    todo = rows.copy()
+    for it in range(80):
+        narrow = np.abs(b[todo] - a[todo]) <= 2 * half
+        done = todo[narrow]
+        t[done] = (a[done] + b[done]) / 2
+        by[done] = _first_flip(ga[done], gb[done], i[done])[1]
+        after[done] = _state(gb[done], i[done], code)[0]
+        todo = todo[~narrow]
+        if not todo.size:
+            break
+        frac, _ = _first_flip(ga[todo], gb[todo], i[todo])
+        frac = np.where(np.isfinite(frac) & (it < 8), frac, 0.5)
+        lo = np.minimum(a[todo], b[todo]) + half
+        hi = np.maximum(a[todo], b[todo]) - half
+        guess = np.clip(a[todo] + frac * (b[todo] - a[todo]), lo, hi)
+        toward = np.sign(b[todo] - a[todo])
+        near, far = guess - toward * half, guess + toward * half
+        g_near = scorer.weights(x, sweep_weights(w, c, near))
+        g_far = scorer.weights(x, sweep_weights(w, c, far))
+        r1, p1 = _state(g_near, i[todo], code)
+        r2, p2 = _state(g_far, i[todo], code)
+        moved_near = (r1 != rank0[todo]) | (p1 != print0[todo])
+        moved_far = (r2 != rank0[todo]) | (p2 != print0[todo])
+        hit = ~moved_near & moved_far
+        before = moved_near
+        past = ~moved_near & ~moved_far
+        k = todo[before]
+        b[k], gb[k] = near[before], g_near[before]
+        k = todo[past]
+        a[k], ga[k] = far[past], g_far[past]
+        k = todo[hit]
+        t[k] = guess[hit]
+        by[k] = _first_flip(g_near[hit], g_far[hit], i[k])[1]
+        after[k] = r2[hit]
+        todo = todo[~hit]
+        if not todo.size:
+            break
+    left = np.isnan(t)
+    t[left] = (a[left] + b[left]) / 2
+    after[left] = _state(gb[left], i[left], code)[0]
+    return t, by, after
+
+
+def _first_flip(ga: np.ndarray, gb: np.ndarray, i: np.ndarray):
+    """Earliest partner whose order with i flips between rows ga and gb.
+
+    Returns the interpolated fraction of the way from a to b (clipped to
+    [0, 1]; 1 where nothing flips) and the partner (-1 if none).
+    """
+    rows = np.arange(len(i))
+    ai, bi = ga[rows, i][:, None], gb[rows, i][:, None]
+    # The sign of the tie rule (i beats j, or j beats i) differs between a and b.
+    flips = (ai > beat_thresholds(ga)) != (bi > beat_thresholds(gb))
+    flips |= (ga > beat_thresholds(ai)) != (gb > beat_thresholds(bi))
+    flips[rows, i] = False
+    r, j = np.nonzero(flips)
+    da = ai[r, 0] - ga[r, j]
+    db = bi[r, 0] - gb[r, j]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        cut = da / (da - db)
+    frac = np.ones(flips.shape)  # a partner that does not flip counts as the far end
+    frac[r, j] = np.where(np.isnan(cut), 0.5, np.clip(cut, 0.0, 1.0))
+    j = np.argmin(frac, axis=1)
+    best = frac[rows, j]
+    return best, np.where(np.isfinite(best), j, -1)
+
+
+def _ranks_beyond(scorer, x, w, c, ranks, low, high, low_by, high_by):
+    """Rank of each corridor just past each end of its interval."""
+    n = ranks.size
+    step = 2 * TOLERANCE
+    t = np.concatenate([np.clip(high + step, 0.0, 1.0), np.clip(low - step, 0.0, 1.0)])
+    r = rank_batch(scorer.weights(x, sweep_weights(w, c, t)))
+    rows = np.arange(n)
+    high_rank = np.where(high_by >= 0, r[rows, rows], ranks)
+    low_rank = np.where(low_by >= 0, r[n + rows, rows], ranks)
+    return low_rank, high_rank
+
+
+INTERVAL_COLUMNS = [
+    "criterion",
+    "corridor_id",
+    "rank",
+    "current_weight",
+    "weight_low",
+    "weight_high",
+    "changed_by_below",
+    "changed_by_above",
+    "rank_below",
+    "rank_above",
+    "exact",
+    "sentence",
+]
+
+
+def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer) -> tuple:
+    """Turn sweeps into tipping-point records and the rank-interval table.
+
+    Returns
+    -------
+    records : list of dict
+        JSON-ready tipping points: ``criterion``, ``current_weight``, ``kind``
+        (``top`` for a change of first place, ``rank`` otherwise),
+        ``corridor_id``, ``other_id``, ``weight_at``, ``direction`` (``above``
+        or ``below``), ``rank_before``, ``rank_after`` (of ``corridor_id``),
+        ``sentence``. A crossing that ends the intervals of both corridors
+        is listed once.
+    intervals : list of list
+        Rows for :data:`INTERVAL_COLUMNS`.
+    """
+    records, rows = [], []
+    for sw in sweeps:
+        key = keys[sw.criterion]
+        label = namer.criterion(key)
+        now = weight_text(sw.current)
+        seen: dict[tuple, list[float]] = {}
+        events = []
+        # First places first (their crossings are "top"), then from the bottom
+        # up, so a crossing is told by the corridor that moves up.
+        order = np.argsort(sw.ranks, kind="stable")
+        order = np.concatenate([order[sw.ranks[order] == 1], order[sw.ranks[order] > 1][::-1]])
+        for i in order:
+            r = int(sw.ranks[i])
+            for direction, t, by, after in (
+                ("above", sw.high[i], sw.high_by[i], sw.high_rank[i]),
+                ("below", sw.low[i], sw.low_by[i], sw.low_rank[i]),
+            ):
+                if by < 0:
+                    continue
+                pair = (direction, min(i, by), max(i, by))
+                if any(abs(t - u) <= 2 * TOLERANCE for u in seen.get(pair, [])):
+                    continue
+                seen.setdefault(pair, []).append(float(t))
+                moves = "rises above" if direction == "above" else "falls below"
+                at = weight_text(float(t), sw.current)
+                who, other = namer.corridor(ids[i], start=True), namer.corridor(ids[by])
+                if r == 1:
+                    kind = "top"
+                    sentence = (
+                        f"{namer.corridor(ids[by], start=True)} overtakes "
+                        f"{namer.corridor(ids[i])} for first place if the weight on "
+                        f"{label} {moves} {at}; it is {now} now."
+                    )
+                else:
+                    kind = "rank"
+                    verb = (
+                        f"moves up from {ordinal(r)} to {ordinal(after)}, past {other},"
+                        if after < r
+                        else f"drops from {ordinal(r)} to {ordinal(after)}, behind {other},"
+                    )
+                    sentence = (
+                        f"{who} {verb} if the weight on {label} {moves} {at}; it is {now} now."
+                    )
+                events.append(
+                    {
+                        "criterion": key,
+                        "current_weight": float(sw.current),
+                        "kind": kind,
+                        "corridor_id": ids[i],
+                        "other_id": ids[by],
+                        "weight_at": float(t),
+                        "direction": direction,
+                        "rank_before": r,
+                        "rank_after": int(after),
+                        "exact": bool(sw.exact),
+                        "sentence": sentence,
+                    }
+                )
+        events.sort(key=lambda e: (e["kind"] != "top", abs(e["weight_at"] - sw.current)))
+        records.extend(events)
+        for i in range(len(ids)):
+            r, lo, hi = int(sw.ranks[i]), float(sw.low[i]), float(sw.high[i])
+            who = namer.corridor(ids[i], start=True)
+            if lo <= 0.0 and hi >= 1.0:
+                sentence = f"{who} stays {ordinal(r)} whatever the weight on {label} (0 to 1)."
+            else:
+                sentence = (
+                    f"{who} stays {ordinal(r)} while the weight on {label} is between "
+                    f"{weight_text(lo, sw.current)} and {weight_text(hi, sw.current)}; "
+                    f"it is {now} now."
+                )
+            rows.append(
+                [
+                    key,
+                    ids[i],
+                    r,
+                    float(sw.current),
+                    lo,
+                    hi,
+                    ids[sw.low_by[i]] if sw.low_by[i] >= 0 else None,
+                    ids[sw.high_by[i]] if sw.high_by[i] >= 0 else None,
+                    int(sw.low_rank[i]),
+                    int(sw.high_rank[i]),
+                    bool(sw.exact),
+                    sentence,
+                ]
+            )
+    return records, rows
