@@ -10,13 +10,12 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-import tempfile
-import time
 import traceback
 from pathlib import Path
 
 from . import __version__
 from .errors import InputError
+from .progress import Progress
 
 EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
 
@@ -92,28 +91,6 @@ def parse_overrides(pairs: list[str]) -> dict[str, float]:
     return parse_shares(pairs)
 
 
-class Progress:
-    """A plain progress bar on standard error."""
-
-    def __init__(self, enabled: bool):
-        self.enabled = enabled and sys.stderr.isatty()
-        self.last = 0.0
-
-    def __call__(self, done: int, total: int) -> None:
-        if not self.enabled or total <= 0:
-            return
-        now = time.monotonic()
-        if done < total and now - self.last < 0.1:
-            return
-        self.last = now
-        width = 30
-        filled = int(width * done / total)
-        sys.stderr.write(f"\rrobustness [{'#' * filled}{'.' * (width - filled)}] {done}/{total}")
-        if done >= total:
-            sys.stderr.write("\n")
-        sys.stderr.flush()
-
-
 def cmd_template(args) -> int:
     from .files import make_out_dir, os_error, shown
     from .workbook.template import write_template
@@ -150,16 +127,21 @@ def run_once(args, overrides: dict[str, float]):
 
     samples = DEFAULT_SAMPLES if args.samples is None else args.samples
     seed = DEFAULT_SEED if args.seed is None else args.seed
-    progress = Progress(not (args.quiet or args.json) and samples >= 2000)
-    result = rank_workbook(
-        args.input,
-        weights=args.weights,
-        weight_overrides=overrides,
-        samples=samples,
-        seed=seed,
-        progress=progress,
-    )
-    write_outputs(result, args.out)
+    progress = Progress(not (args.quiet or args.json), samples=samples)
+    try:
+        progress.stage("reading the workbook")
+        result = rank_workbook(
+            args.input,
+            weights=args.weights,
+            weight_overrides=overrides,
+            samples=samples,
+            seed=seed,
+            progress=progress,
+        )
+        progress.stage("writing the results workbook and the justification sheet")
+        write_outputs(result, args.out)
+    finally:
+        progress.close()
     return result
 
 
@@ -207,6 +189,8 @@ def print_ranking(result, stream=None) -> None:
         print(f"warning: {w}", file=sys.stderr)
     print(f"Results workbook: {result.outputs['workbook']}", file=stream)
     print(f"Justification sheet: {result.outputs['html']}", file=stream)
+    if "geojson" in result.outputs:
+        print(f"Corridors for GIS (GeoJSON): {result.outputs['geojson']}", file=stream)
 
 
 def cmd_run(args) -> int:
@@ -291,12 +275,35 @@ def _quiet_pipe() -> None:
 
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; return the exit code."""
+    import warnings
+
+    with warnings.catch_warnings():
+        if argv is None:  # the real command line: a library's warning as one plain line
+            warnings.showwarning = _plain_warning
+        try:
+            return _main(argv)
+        finally:
+            if argv is None:  # a late Ctrl-C ends the process without a traceback
+                import signal
+
+                signal.signal(signal.SIGINT, signal.SIG_DFL)
+
+
+def _plain_warning(message, category, filename, lineno, file=None, line=None) -> None:
+    """Print a library's warning without its source path and line."""
+    _err(f"warning: {category.__name__}: {message}")
+
+
+def _main(argv: list[str] | None) -> int:
+    from .crash import Terminated, stop_on_sigterm, write_error_log
+
     _safe_streams()
     args = _parser().parse_args(argv)
     try:
-        code = COMMANDS[args.command](args)
-        sys.stdout.flush()
-        return code
+        with stop_on_sigterm():  # a kill unwinds like Ctrl-C: no temporary file is left
+            code = COMMANDS[args.command](args)
+            sys.stdout.flush()
+            return code
     except BrokenPipeError:
         # The reader went away (``| head``): the outputs are written; nothing to report.
         _quiet_pipe()
@@ -308,13 +315,12 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         _err("Stopped.")
         return 130
+    except Terminated:
+        _err("Stopped (terminated).")
+        return 143
     except Exception as exc:  # the one place every other failure is caught
-        log = Path(tempfile.gettempdir()) / f"ranker-error-{int(time.time())}.log"
-        try:
-            log.write_text(traceback.format_exc(), encoding="utf-8")
-            where = f"full log in {log}"
-        except OSError:
-            where = "no log could be written"
+        log = write_error_log(traceback.format_exc())
+        where = f"full log in {log}" if log is not None else "no log could be written"
         _err(f"ranker: internal error: {type(exc).__name__}: {exc} ({where})")
         return EXIT_INTERNAL
 

@@ -16,6 +16,7 @@ import pandas as pd
 
 from .assumptions import resolve
 from .errors import InputError, Problem, Problems
+from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
 
@@ -48,7 +49,8 @@ def rank_workbook(
     seed : int
         Seed of the random stream.
     progress : callable, optional
-        Called as ``progress(done, total)`` during the Monte Carlo.
+        Called as ``progress(done, total)`` during the Monte Carlo; where it
+        has a ``stage(name)`` method, that is called as each stage begins.
 
     Returns
     -------
@@ -96,6 +98,7 @@ def rank_inputs(
             f"give at most {MAX_SAMPLES:,} samples",
         )
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
+    stage(progress, "deriving the criteria")
     p = prepare(inputs)
     assumptions, matrix, kept = p.assumptions, p.matrix, p.kept
     warnings = list(p.warnings)
@@ -107,6 +110,7 @@ def rank_inputs(
 
         warnings.extend(small_share_warnings(overrides))
 
+    stage(progress, "scoring")
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
     warnings.extend(scores.warnings)
 
@@ -117,6 +121,7 @@ def rank_inputs(
             "robustness analysis skipped."
         )
     elif len(kept) >= 2:
+        stage(progress, "robustness: samples, rank-reversal checks, tipping points")
         robustness = _stress(
             matrix.loc[kept],
             included,
@@ -135,19 +140,26 @@ def rank_inputs(
 
     futures = None
     if inputs.scenarios is not None and len(inputs.scenarios):
+        stage(progress, "futures of the Scenarios sheet")
         futures = _futures(inputs, used, scores)
         warnings.extend(futures.get("warnings", []))
 
     plan = None
     if inputs.budget is not None and len(inputs.budget):
+        stage(progress, "build plan under the budget")
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
+
+    from .geo.network import corridor_network, network_warnings
+
+    warnings.extend(network_warnings(corridor_network(inputs), inputs))
 
     return Result(
         inputs=inputs,
         assumptions=assumptions,
         weight_set=chosen.name,
-        weights=used,
+        weights=effective_weights(included, scores),
+        chosen_weights=used,
         overrides=overrides,
         weight_sets=p.weight_sets,
         criteria=included,
@@ -328,6 +340,16 @@ def apply_overrides(
     return apply_shares(chosen.weights, overrides, keys), dict(overrides)
 
 
+def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]:
+    """Return the weights used in scoring for every included criterion [-].
+
+    A criterion left out of scoring (the same value for every corridor) has
+    weight 0 and the rest keep the shares :func:`ranker.score.score_matrix`
+    rescaled them to, so these weights reproduce every score.
+    """
+    return {c.key: float(scores.weights.get(c.key, 0.0)) for c in included}
+
+
 def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, seed, progress):
     from .score import METHODS
     from .stress import stress_test
@@ -367,10 +389,16 @@ def _futures(inputs: Inputs, used, scores):
         scenarios.setdefault(str(row["scenario"]), {})[str(row["key"])] = row["value"]
 
     def rerank(overrides: dict) -> pd.Series:
-        assumptions = resolve(inputs.assumptions, overrides)
-        matrix, _, _ = build_matrix(inputs, assumptions)
-        kept, _ = screen(matrix, inputs.included, inputs)
-        return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
+        try:
+            assumptions = resolve(inputs.assumptions, overrides)
+            matrix, _, _ = build_matrix(inputs, assumptions)
+            kept, _ = screen(matrix, inputs.included, inputs)
+            return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
+        except InputError as exc:  # name the Scenarios cells, not the Assumptions sheet
+            from .workbook.scenario_cells import in_scenario
+
+            name = next((n for n, o in scenarios.items() if o == overrides), "")
+            raise in_scenario(inputs, name, overrides, exc) from None
 
     return futures(
         scenarios, rerank, scores.rank, names=inputs.corridors["name"].astype(str).to_dict()

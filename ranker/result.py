@@ -15,6 +15,11 @@ from . import __version__
 if TYPE_CHECKING:  # annotations only
     import pandas as pd
 
+    from .derive.run import Derivation
+    from .plan.phasing import Plan
+    from .score.scoring import Scores
+    from .score.weights import ResolvedWeights
+    from .stress import Robustness
     from .workbook.tables import CriterionSpec, Inputs
 
 #: Seed used when none is given, so two runs of one input give identical outputs.
@@ -36,10 +41,16 @@ class Result:
     weight_set : str
         Name of the weight set used.
     weights : dict of str to float
-        Weights used, normalised to sum 1, after ``--weight`` overrides [-].
+        Weights used in scoring, one per included criterion, summing to 1:
+        after ``--weight`` overrides, with a criterion left out of scoring
+        (the same value for every corridor) at 0 and the others rescaled [-].
+        Every score is reproduced from these and the matrix.
+    chosen_weights : dict of str to float
+        The chosen set after overrides, normalised to sum 1, before any
+        criterion was left out [-].
     overrides : dict of str to float
         ``--weight KEY=VALUE`` overrides as given (points before renormalising).
-    weight_sets : list
+    weight_sets : list of ResolvedWeights
         Every weight set (:class:`ranker.score.weights.ResolvedWeights`).
     criteria : list of CriterionSpec
         The included criteria, in sheet order.
@@ -78,26 +89,41 @@ class Result:
     weight_set: str
     weights: dict[str, float]
     overrides: dict[str, float]
-    weight_sets: list
+    weight_sets: list[ResolvedWeights]
     criteria: list[CriterionSpec]
     matrix: pd.DataFrame
     provenance: dict[str, str]
-    derivation: object | None
+    derivation: Derivation | None
     excluded: list[dict]
-    scores: object
-    robustness: object | None
+    scores: Scores
+    robustness: Robustness | None
     futures: dict | None
-    plan: object | None
+    plan: Plan | None
     warnings: list[str]
     samples: int
     seed: int
     started: str
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
+    chosen_weights: dict[str, float] = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
     change_record: dict = field(
         default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}
     )
+
+    def weight_notes(self) -> dict[str, str]:
+        """Criterion to why its weight used differs from the chosen one ("" where not)."""
+        dropped = set(getattr(self.scores, "dropped", []) or [])
+        out = {}
+        for key, used in self.weights.items():
+            chosen = self.chosen_weights.get(key, used)
+            if key in dropped:
+                out[key] = "left out: the same value for every corridor"
+            elif abs(chosen - used) > 1e-12:
+                out[key] = "rescaled after a criterion was left out"
+            else:
+                out[key] = ""
+        return out
 
     @property
     def primary_method(self) -> str:
@@ -134,6 +160,13 @@ class Result:
             column = np.concatenate([[1], 1 + np.cumsum(ranks[1:] > ranks[:-1])])[: len(ranks)]
         table.insert(2, "tier", column.astype(int))
         return table
+
+    @cached_property
+    def network(self):
+        """Positions of the corridors (:class:`ranker.geo.Network`), or None without any."""
+        from .geo import corridor_network
+
+        return corridor_network(self.inputs)
 
     def to_json(self) -> dict:
         """Return the JSON summary of the contract (plus added fields)."""

@@ -9,6 +9,7 @@ import jinja2
 
 from ..files import HTML_MARKER
 from . import charts, narrative
+from .map import map_context
 from .sheets import criterion_unit
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION
@@ -35,7 +36,6 @@ def _environment() -> jinja2.Environment:
 def _cards(result, shown) -> list[dict]:
     d = result.derivation
     rob = result.robustness
-    tips = rob.tipping_points if rob is not None else []
     cards = []
     for cid, row in result.ranking.loc[shown].iterrows():
         strong, weak = narrative.strongest_weakest(result, cid)
@@ -55,15 +55,13 @@ def _cards(result, shown) -> list[dict]:
                     facts.append(
                         (label, narrative.fmt(s[key]) if key != "governing_rule" else s[key])
                     )
-        mine = [t for t in tips if cid in (t.get("corridor_id"), t.get("other_id"))]
-        # the nearest tipping points first: those are where the argument is
-        mine.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
-        changes = [t["sentence"] for t in mine[:4]]
+        changes = narrative.card_tips(result, cid)
         cards.append(
             {
                 "id": cid,
                 "name": row["name"],
                 "rank": int(row["rank"]),
+                "tier": int(row["tier"]),
                 "score": float(row[f"score_{result.primary_method}"]),
                 "first": float(rob.first_rank.get(cid, 0.0)) if has_samples(rob) else None,
                 "strong": strong,
@@ -124,7 +122,6 @@ def build_html(result) -> str:
     primary = result.primary_method
     others = [m for m in methods if m != primary]
     first = rob.first_rank if has_samples(rob) else None
-    close = _close_calls(result)
     rows = []
     for cid, r in full.iterrows():
         rows.append(
@@ -137,17 +134,12 @@ def build_html(result) -> str:
                 "scores": [float(r[f"score_{m}"]) for m in methods],
                 "ranks": [int(r[f"rank_{m}"]) for m in methods],
                 "first": float(first.get(cid, 0.0)) if first is not None else None,
-                "close": close.get(cid, ""),
+                "tier": int(r["tier"]),
             }
         )
-    tied = sum(1 for v in close.values() if v)
-    close_note = (
-        '"Close call" marks a corridor whose score gap to the next one is smaller than what '
-        "the stated weight and data uncertainty can move (see the robustness sheet); treat such "
-        "neighbours as equal."
-        if tied
-        else "No neighbouring pair is practically tied."
-    )
+    # The map has its own appendix section: on the demo's brief (page one) it does not fit.
+    map_section = map_context(result)
+    brief_map = ""
     context = {
         "marker": HTML_MARKER,
         "r": result,
@@ -156,8 +148,12 @@ def build_html(result) -> str:
         "primary": primary,
         "others": others,
         "labels": narrative.method_labels(methods),
-        "close_note": close_note,
         "recommendation": narrative.recommendation(result),
+        "brief": _brief(result),
+        # Slot for a map on the brief (SVG text, drawn where it fits); "" = none.
+        "brief_map": brief_map,
+        "changed": [a for a in assumptions if a["set_by"] == "changed"],
+        "defaults": [a for a in assumptions if a["set_by"] != "changed"],
         "agreement": narrative.agreement_sentence(result),
         "reversal": narrative.reversal_sentences(result),
         "figures": figures,
@@ -166,6 +162,7 @@ def build_html(result) -> str:
         "stakeholders": rob.stakeholders if rob is not None else None,
         "futures": result.futures,
         "plan": _plan_context(result),
+        "map": map_section,
         "criteria": [
             {
                 "key": c.key,
@@ -174,6 +171,7 @@ def build_html(result) -> str:
                 "unit": criterion_unit(c.key),
                 "source": result.provenance.get(c.key, "given"),
                 "weight": result.weights.get(c.key, 0.0),
+                "weight_note": result.weight_notes().get(c.key, ""),
             }
             for c in result.criteria
         ],
@@ -194,6 +192,37 @@ def build_html(result) -> str:
     return _environment().get_template("sheet.html.j2").render(**context)
 
 
+#: Tiers listed on the brief; later ones are counted, and listed in the appendix.
+BRIEF_TIERS = 4
+#: Corridors named per tier on the brief.
+BRIEF_NAMES = 8
+
+
+def _brief(result) -> dict:
+    """Numbers and lines of the one-page board brief."""
+    groups = narrative.tier_groups(result)
+    shown = []
+    for g in groups[:BRIEF_TIERS]:
+        names = g["names"][:BRIEF_NAMES]
+        if len(g["names"]) > BRIEF_NAMES:
+            names = [*names, f"and {len(g['names']) - BRIEF_NAMES} more"]
+        shown.append({"tier": g["tier"], "names": names})
+    rest = groups[BRIEF_TIERS:]
+    more = (
+        f"{sum(len(g['ids']) for g in rest)} more corridors in {len(rest)} further tiers "
+        "(appendix A)."
+        if rest
+        else ""
+    )
+    return {
+        "tiers": shown,
+        "more": more,
+        "rule": narrative.tier_rule(result),
+        "funded": narrative.funded_by_year(result),
+        "provenance": narrative.provenance_line(result),
+    }
+
+
 #: Lines of each part of "what changed" on the justification sheet; the workbook has all.
 CHANGE_LINES = 40
 
@@ -212,21 +241,6 @@ def _since_last_run(result) -> dict | None:
         lines = describe(only, limit=CHANGE_LINES) if only[part] else []
         parts[part] = [x for x in lines if not x.startswith(("No corridor", "Nothing changed"))]
     return {"previous": record["previous"], **parts}
-
-
-def _close_calls(result) -> dict:
-    """Corridor id to "practically tied with <next>" for adjacent close pairs."""
-    rob = result.robustness
-    if rob is None or not len(rob.closeness):
-        return {}
-    names = result.inputs.corridors["name"].astype(str)
-    out: dict = {}
-    for rec in rob.closeness.to_dict(orient="records"):
-        if rec.get("practically_tied"):
-            out[rec["corridor_id"]] = (
-                f"tied with next ({names.get(rec['next_id'], rec['next_id'])})"
-            )
-    return out
 
 
 def _plan_context(result) -> dict | None:

@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from .summary import has_samples
+from ..stress.words import listing, share_text
 
 
 def certainty_word(share: float) -> str:
@@ -24,35 +24,112 @@ def certainty_word(share: float) -> str:
 
 
 def recommendation(result) -> list[str]:
-    """Return the two-sentence recommendation for the decision summary."""
-    ranking = result.ranking
-    names = ranking["name"].astype(str).tolist()
-    top = names[0]
-    first = ranking.index[0]
-    s1 = f"Fund {top} first"
-    if len(names) > 1:
-        s1 += f", then {names[1]}" + (f" and {names[2]}" if len(names) > 2 else "")
-    label = method_labels([result.primary_method])[result.primary_method]
-    s1 += f" ({label}, weight set '{result.weight_set}')."
+    """Return the decision summary: the order by tiers, how sure, the nearest change.
+
+    Every statement quotes the share of samples behind it (see
+    :mod:`ranker.stress.tiers`); without samples it says the order was not
+    tested against uncertainty.
+    """
+    groups = tier_groups(result)
     rob = result.robustness
-    if has_samples(rob):
-        share = float(rob.first_rank.get(first, 0.0))
-        s2 = (
-            f"{top} ranks first in {share:.0%} of {rob.samples:,} weight samples around these "
-            f"weights, so it is {certainty_word(share)} the best choice"
-        )
-        others = rob.first_rank.drop(first, errors="ignore")
-        if len(others) and others.max() > 0.05:
-            rival = others.idxmax()
-            s2 += (
-                f"; {result.inputs.corridors.at[rival, 'name']} is its nearest rival "
-                f"({others.max():.0%})."
-            )
-        else:
-            s2 += "."
+    t = getattr(rob, "tiers", None)
+    sampled = t is not None and t.samples > 0
+    label = method_labels([result.primary_method])[result.primary_method]
+    out = []
+    first = groups[0]
+    if len(first["names"]) == 1:
+        out.append(f"Fund first: {first['names'][0]}.")
     else:
-        s2 = "No Monte Carlo analysis was run, so how sure the order is was not measured."
-    return [s1, s2]
+        unsettled = "the evidence does not settle" if sampled else "equal scores leave open"
+        out.append(f"Fund first, in an order {unsettled}: {listing(first['names'])}.")
+    if len(groups) > 1:
+        nxt = groups[1]
+        if len(nxt["names"]) == 1:
+            out.append(f"Next: {nxt['names'][0]}.")
+        else:
+            out.append(
+                f"Next, in an order the evidence does not settle: {listing(nxt['names'])}."
+                if sampled
+                else f"Next, with equal scores: {listing(nxt['names'])}."
+            )
+    out[0] = out[0][:-1] + f" ({label}, weight set '{result.weight_set}')."
+    if sampled:
+        out.append(how_sure(result, groups))
+    else:
+        out.append(
+            "The order was not tested against uncertainty (no Monte Carlo samples), so how "
+            "sure it is was not measured."
+        )
+    change = nearest_change(result)
+    if change:
+        out.append(change)
+    return out
+
+
+def how_sure(result, groups=None) -> str:
+    """Quote the shares behind the first tier and, inside the next, the closest pair."""
+    groups = groups or tier_groups(result)
+    rob = result.robustness
+    t = rob.tiers
+    size = len(groups[0]["ids"])
+    text = ""
+    if len(groups) > 1:
+        share = float(t.cut_share[size - 1])
+        who = groups[0]["names"][0] if size == 1 else f"Each of these {size}"
+        text = (
+            f"{who} ranks above every corridor outside the first tier in at least "
+            f"{share_text(share)} of {t.samples:,} samples"
+        )
+    else:
+        text = f"No corridor is set apart from the rest in {t.samples:,} samples"
+    inside = _closest_inside(result, groups[1] if len(groups) > 1 else groups[0])
+    if inside:
+        text += f"; {inside}"
+    return text + "."
+
+
+def _closest_inside(result, group) -> str:
+    """The closest neighbouring pair inside a tier, with its share ("" when none)."""
+    if len(group["ids"]) < 2:
+        return ""
+    t = result.robustness.tiers
+    position = {cid: p for p, cid in enumerate(result.ranking.index)}
+    pairs = [(position[a], a, b) for a, b in zip(group["ids"], group["ids"][1:], strict=False)]
+    p, a, b = min(pairs, key=lambda q: t.neighbour_wins[q[0]])
+    names = result.ranking["name"].astype(str)
+    return (
+        f"inside tier {group['tier']}, {names[a]} ranks above {names[b]} in only "
+        f"{share_text(float(t.neighbour_wins[p]))} of samples"
+    )
+
+
+def nearest_change(result) -> str:
+    """Name the smallest one-weight change that alters the first tier ("" when none)."""
+    rob = result.robustness
+    change = getattr(rob, "first_tier_change", None)
+    if not change:
+        if rob is not None and len(tier_groups(result)) > 1:
+            return "No single weight change from 0 to 1 alters the first tier."
+        return ""
+    labels = {c.key: c.label for c in result.criteria}
+    names = result.ranking["name"].astype(str)
+    moved = "rose" if change["direction"] == "above" else "fell"
+    points = 100 * change["distance"]
+    entering = listing([names.get(c, c) for c in change["entering"]])
+    leaving = listing([names.get(c, c) for c in change["leaving"]])
+    return (
+        f"The nearest change that would alter the first tier: if the weight on "
+        f"{labels.get(change['criterion'], change['criterion'])} {moved} from "
+        f"{100 * change['current']:.1f}% to {100 * change['weight_at']:.1f}% of the total "
+        f"({points:.1f} points), " + _swap_words(entering, leaving, len(change["leaving"]), result)
+    )
+
+
+def _swap_words(entering: str, leaving: str, count: int, result) -> str:
+    size = len(tier_groups(result)[0]["ids"])
+    if size == 1:
+        return f"{entering} would take first place from {leaving}."
+    return f"{entering} would rank among the first {size} in place of {leaving}."
 
 
 def agreement_sentence(result) -> str:
@@ -136,7 +213,11 @@ def consistency_text(c: dict | None) -> str:
 
     def num(key):
         v = c.get(key)
-        return "n/a" if v is None else f"{v:.4f}"
+        if v is None:
+            return "n/a"
+        # CI and CR are never below 0 (lambda_max >= n, Saaty 1980); a tiny
+        # negative is rounding in the eigenvalue, printed as 0.
+        return f"{0.0 if abs(v) < 5e-5 else v:.4f}"
 
     text = f"lambda_max {num('lambda_max')}, CI {num('ci')}, CR {num('cr')}"
     cr = c.get("cr")
@@ -243,3 +324,105 @@ def pairwise_note(result) -> str:
     if t is not None and shown < len(result.ranking):
         text += f" First {shown} corridors of the order; tiers cover every corridor."
     return text
+
+
+def _namer(result):
+    from ..stress.words import Namer
+
+    return Namer(
+        result.inputs.corridors["name"].astype(str).to_dict(),
+        {c.key: c.label for c in result.criteria},
+    )
+
+
+def tipping_sentence(record: dict, namer) -> str:
+    """Say one tipping point: the corridor actually passed at that weight and the ranks there.
+
+    Parameters
+    ----------
+    record : dict
+        A record of :func:`ranker.stress.tipping.tipping_records`.
+    namer : Namer
+        Corridor names and criterion labels.
+    """
+    from ..stress.words import ordinal, weight_text
+
+    label = namer.criterion(record["criterion"])
+    now = weight_text(record["current_weight"])
+    at = weight_text(record["weight_at"], record["current_weight"])
+    moves = "rises above" if record["direction"] == "above" else "falls below"
+    when = f"If the weight on {label} {moves} {at} (it is {now} now), "
+    who = namer.corridor(record["corridor_id"])
+    other = namer.corridor(record["other_id"])
+    if record["kind"] == "top":
+        return when + f"{other} takes first place from {who}."
+    r, after = int(record["rank_before"]), int(record["rank_after"])
+    o_now = int(record.get("other_rank_before", 0))
+    o_after = int(record.get("other_rank_after", 0))
+    verb = "moves up" if after < r else "drops"
+    link = "passing" if after < r else "behind"
+    text = when + f"{who} {verb} from {ordinal(r)} to {ordinal(after)}, {link} {other}"
+    if o_now and o_after and o_now != (r - 1 if after < r else r + 1):
+        # Someone else crossed first: say where the passed corridor stands.
+        text += f" ({ordinal(o_now)} now, {ordinal(o_after)} at that weight)"
+    return text + "."
+
+
+#: Most tipping sentences on one corridor's card.
+CARD_TIPS = 3
+
+
+def card_tips(result, cid) -> list[str]:
+    """At most :data:`CARD_TIPS` tipping sentences for a corridor, nearest first, none alike.
+
+    Nearest by the weight change needed; one per criterion and direction
+    (a second crossing further along the same sweep says nothing new).
+    """
+    rob = result.robustness
+    if rob is None:
+        return []
+    mine = [t for t in rob.tipping_points if cid in (t.get("corridor_id"), t.get("other_id"))]
+    mine.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
+    namer = _namer(result)
+    out, seen = [], set()
+    for t in mine:
+        key = (t["criterion"], t["direction"])
+        if key in seen:
+            continue
+        seen.add(key)
+        out.append(tipping_sentence(t, namer))
+        if len(out) == CARD_TIPS:
+            break
+    return out
+
+
+def tipping_sentences(result) -> list[str]:
+    """Every tipping point of the run in words, in the order of the records."""
+    rob = result.robustness
+    if rob is None:
+        return []
+    namer = _namer(result)
+    return [tipping_sentence(t, namer) for t in rob.tipping_points]
+
+
+def funded_by_year(result) -> list[str]:
+    """One line per budget year of the optimised plan: ``2027: A, B`` ([] without a plan)."""
+    plan = result.plan
+    if plan is None:
+        return []
+    names = result.inputs.corridors["name"].astype(str)
+    funded = plan.optimised.dropna(subset=["year_funded"])
+    out = []
+    for year, rows in funded.groupby("year_funded", sort=True):
+        who = [names.get(c, c) for c in rows["corridor_id"]]
+        out.append(f"{int(year)}: {', '.join(who)}")
+    return out
+
+
+def provenance_line(result) -> str:
+    """One line: tool, input file and its hash, run time, samples and seed."""
+    return (
+        f"ranker {result.tool_version}; input {result.inputs.path.name} (SHA-256 "
+        f"{result.inputs.sha256[:12]}...); run {result.started}; {result.samples:,} samples, "
+        f"seed {result.seed}; full detail in the appendices and the results workbook."
+    )

@@ -50,8 +50,14 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
+        from .narrative import tipping_sentences
+
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
+        for record, sentence in zip(
+            robustness["tipping_points"], tipping_sentences(result), strict=True
+        ):
+            record["sentence"] = sentence
     else:
         robustness.update({"rank_reversal": [], "tipping_points": []})
     out = {
@@ -60,6 +66,8 @@ def summary_json(result) -> dict:
         "input_file": shown(result.inputs.path.name),
         "weight_set": result.weight_set,
         "weights": {k: float(v) for k, v in result.weights.items()},
+        "weights_chosen": {k: float(v) for k, v in result.chosen_weights.items()},
+        "weight_notes": {k: v for k, v in result.weight_notes().items() if v},
         "weight_overrides": dict(result.overrides),
         "primary_method": result.primary_method,
         "methods": {

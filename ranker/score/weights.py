@@ -15,10 +15,13 @@ on, column A holds criterion keys from row 2 down, and the cell in the row
 of criterion i and the column of criterion j says how much more important i
 is than j (Saaty's 1-9 scale; 1/3 for "j is moderately more important").
 Only one of each pair need be typed; the other is filled with its
-reciprocal. The judgment at position (i, j) of ``Inputs.pairwise`` is cell
-``Pairwise!{column letter of j + 2}{i + 2}``, unless the reader recorded the
-sheet's own coordinates (``Inputs.rows["Pairwise"]`` and
-``Inputs.columns["Pairwise"]``, keyed by criterion), which then name the cell.
+reciprocal. Cells are named from the coordinates the reader records
+(``Inputs.rows["Pairwise"]`` and ``Inputs.columns["Pairwise"]``, keyed by
+criterion).
+
+Every cell is validated once, by the reader (:mod:`ranker.workbook.criteria`):
+this module receives typed, checked weight sets and judgments, and keeps only
+``ValueError`` guards for library callers who build ``Inputs`` themselves.
 """
 
 from __future__ import annotations
@@ -27,18 +30,11 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
-from openpyxl.utils import get_column_letter
 
-from ..errors import Problems
-from ..workbook.tables import CRITERIA, PAIRWISE, Inputs, WeightSet
+from ..workbook.tables import PAIRWISE, Inputs, WeightSet
 from .ahp import CR_LIMIT, DEFAULT_RI_TABLE, ahp_weights, revise_triple, triple_inconsistency
 from .objective_weights import critic_weights, entropy_weights
 from .rank_weights import RANK_WEIGHTS, weights_from_ranks
-
-#: Relative gap allowed between a judgment and the reciprocal of its mirror
-#: (typing 0.33 for 1/3 is fine; 0.25 against 3 is a contradiction); the
-#: reader allows the same.
-RECIPROCAL_RTOL = 0.05
 
 
 @dataclass
@@ -80,100 +76,19 @@ class ResolvedWeights:
     warnings: list[str] = field(default_factory=list)
 
 
-def _field_key(ws: WeightSet, inputs: Inputs) -> str:
-    """Header key of a weight set's column, as typed lower case."""
-    name = ws.name.lower()
-    if ws.kind == "rank":
-        candidates = [f"weight:{name}:rank"]
-    elif name == "default":
-        candidates = ["weight", "weight:default"]
-    else:
-        candidates = [f"weight:{name}", f"weight:{name}:points"]
-    known = inputs.columns.get(CRITERIA, {})
-    return next((c for c in candidates if c in known), candidates[0])
-
-
-def _cell(inputs: Inputs, ws: WeightSet, key: str) -> str:
-    """``Criteria!<col><row>`` of one criterion's entry in a weight set."""
-    field_key = _field_key(ws, inputs)
-    col = ws.column or inputs.columns.get(CRITERIA, {}).get(field_key)
-    row = inputs.rows.get(CRITERIA, {}).get(key)
-    if row is None:
-        row = next((c.row for c in inputs.criteria if c.key == key and c.row), None)
-    if col and row:
-        return f"{CRITERIA}!{col}{row}"
-    return inputs.where(CRITERIA, field_key, key)
-
-
-def _column_range(inputs: Inputs, ws: WeightSet, keys: list[str]) -> str:
-    cells = [_cell(inputs, ws, k) for k in keys]
-    if len(cells) > 1 and all("!" in c and ":" not in c for c in cells):
-        return f"{cells[0]}:{cells[-1].split('!')[1]}"
-    return cells[0] if cells else CRITERIA
-
-
-def _missing(v: object) -> bool:
-    return v is None or (isinstance(v, float) and np.isnan(v))
-
-
-def _points_set(ws: WeightSet, keys: list[str], inputs: Inputs, problems: Problems):
-    given: dict[str, float] = {}
-    warns: list[str] = []
-    ok = True
-    for key in keys:
-        v = ws.values.get(key)
-        cell = _cell(inputs, ws, key)
-        if _missing(v):
-            warns.append(f"{cell}: no weight for '{key}' in set '{ws.name}'; counted as 0.")
-            v = 0.0
-        v = float(v)
-        if not np.isfinite(v) or v < 0:
-            problems.add(
-                cell,
-                f"weight of '{key}' in set '{ws.name}' is {v:g}",
-                "type a weight of 0 or more (points; the set is rescaled to sum to 1)",
-            )
-            ok = False
-            continue
-        given[key] = v
-    if not ok:
-        return None
+def _points_set(ws: WeightSet, keys: list[str]) -> ResolvedWeights:
+    given = {k: float(ws.values.get(k, np.nan)) for k in keys}
     total = sum(given.values())
-    if total <= 0:
-        problems.add(
-            _column_range(inputs, ws, keys),
-            f"every weight of set '{ws.name}' is 0",
-            "give at least one included criterion a weight above 0",
-        )
-        return None
+    if not all(np.isfinite(v) and v >= 0 for v in given.values()) or not total > 0:
+        raise ValueError(f"weight set {ws.name!r} needs a weight >= 0 per criterion, not all 0")
     weights = {k: v / total for k, v in given.items()}  # points rescaled to sum 1
-    return ResolvedWeights(ws.name, weights, given, "points", warnings=warns)
+    return ResolvedWeights(ws.name, weights, given, "points")
 
 
-def _rank_set(ws: WeightSet, keys: list[str], inputs: Inputs, method: str, problems: Problems):
-    given: dict[str, float] = {}
-    n = len(keys)
-    for key in keys:
-        v = ws.values.get(key)
-        cell = _cell(inputs, ws, key)
-        if _missing(v):
-            problems.add(
-                cell,
-                f"no rank for '{key}' in rank set '{ws.name}'",
-                f"type a whole number from 1 (most important) to {n}",
-            )
-            continue
-        v = float(v)
-        if not np.isfinite(v) or v < 1 or abs(v - round(v)) > 1e-9:
-            problems.add(
-                cell,
-                f"rank of '{key}' in set '{ws.name}' is {v:g}",
-                f"type a whole number from 1 (most important) to {n}; equal ranks share",
-            )
-            continue
-        given[key] = float(round(v))
-    if len(given) < n:
-        return None
+def _rank_set(ws: WeightSet, keys: list[str], method: str) -> ResolvedWeights:
+    given = {k: float(ws.values.get(k, np.nan)) for k in keys}
+    if not all(np.isfinite(v) and v >= 1 and v == round(v) for v in given.values()):
+        raise ValueError(f"rank set {ws.name!r} needs a whole rank >= 1 per criterion")
     fn_label = RANK_WEIGHTS[method][1]
     w = weights_from_ranks(np.array([given[k] for k in keys]), method)
     return ResolvedWeights(ws.name, dict(zip(keys, w.tolist(), strict=True)), given, fn_label)
@@ -186,42 +101,22 @@ def _fmt_judgment(x: float) -> str:
     return f"1/{round(inv):d}" if abs(inv - round(inv)) < 1e-6 else f"{x:.3g}"
 
 
-def _pairwise_ref(inputs: Inputs, row_key: str | None, col_key: str | None, i: int, j: int) -> str:
-    """``Pairwise!<col><row>``: the reader's coordinates where known, else the layout's."""
-    col = "A" if col_key is None else inputs.columns.get(PAIRWISE, {}).get(col_key)
-    row = 1 if row_key is None else inputs.rows.get(PAIRWISE, {}).get(row_key)
-    return f"{PAIRWISE}!{col or get_column_letter(j + 2)}{row or i + 2}"
+def _pairwise_ref(inputs: Inputs, row_key: str, col_key: str) -> str:
+    """``Pairwise!<col><row>`` from the reader's coordinates; the keys where none were kept."""
+    col = inputs.columns.get(PAIRWISE, {}).get(col_key)
+    row = inputs.rows.get(PAIRWISE, {}).get(row_key)
+    return f"{PAIRWISE}!{col}{row}" if col and row else f"{PAIRWISE} ({row_key} / {col_key})"
 
 
-def _pairwise_set(inputs: Inputs, keys: list[str], problems: Problems):
+def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
+    """AHP weights from the reader's validated judgments (a reciprocal missing is filled)."""
     pw = inputs.pairwise
     rows = [str(x).strip().lower() for x in pw.index]
     cols = [str(x).strip().lower() for x in pw.columns]
+    absent = [k for k in keys if k not in rows or k not in cols]
+    if absent:
+        raise ValueError(f"the pairwise matrix has no row or column for {absent}")
     known = {c.key for c in inputs.criteria}
-    before = len(problems.items)
-    for i, key in enumerate(rows):
-        if key not in known:
-            problems.add(
-                _pairwise_ref(inputs, key, None, i, -1),
-                f"'{key}' is not a criterion of the Criteria sheet",
-                "spell it as in the criterion column of Criteria, or delete the row",
-            )
-    for j, key in enumerate(cols):
-        if key not in known:
-            problems.add(
-                _pairwise_ref(inputs, None, key, -1, j),
-                f"'{key}' is not a criterion of the Criteria sheet",
-                "spell it as in the criterion column of Criteria, or delete the column",
-            )
-    for key in keys:
-        if key not in rows or key not in cols:
-            problems.add(
-                PAIRWISE,
-                f"included criterion '{key}' has no row or no column",
-                "add its key in column A and in row 1 and fill its judgments, or set its include to no",
-            )
-    if len(problems.items) > before:
-        return None
     warns = [
         f"{PAIRWISE}: '{k}' is not scored in this run; its judgments are left out."
         for k in rows
@@ -231,9 +126,6 @@ def _pairwise_set(inputs: Inputs, keys: list[str], problems: Problems):
     ci = {k: cols.index(k) for k in keys}
     raw = pw.to_numpy(dtype=float, na_value=np.nan)
 
-    def cell(p: str, q: str) -> str:
-        return _pairwise_ref(inputs, p, q, ri[p], ci[q])
-
     def typed(p: str, q: str) -> float:
         return float(raw[ri[p], ci[q]])
 
@@ -242,55 +134,23 @@ def _pairwise_set(inputs: Inputs, keys: list[str], problems: Problems):
     typed_at: dict[tuple[int, int], tuple[str, bool]] = {}
     given: dict[str, float] = {}
     for p in range(n):
-        d = typed(keys[p], keys[p])
-        if not np.isnan(d) and abs(d - 1) > 1e-9:
-            problems.add(
-                cell(keys[p], keys[p]),
-                f"'{keys[p]}' compared with itself is {d:g}",
-                "type 1 or leave the cell blank",
-            )
-    for p in range(n):
         for q in range(p + 1, n):
             kp, kq = keys[p], keys[q]
             x, y = typed(kp, kq), typed(kq, kp)
-            for v, c in ((x, cell(kp, kq)), (y, cell(kq, kp))):
-                if not np.isnan(v) and (not np.isfinite(v) or v <= 0):
-                    problems.add(
-                        c,
-                        f"judgment {v:g} is not a positive number",
-                        "type a value from 1/9 to 9 (1 = equally important)",
-                    )
-                    x = y = np.inf
-                elif not np.isnan(v) and not (1 / 9 - 1e-3 <= v <= 9 + 1e-9):
-                    warns.append(f"{c}: judgment {v:g} lies outside Saaty's 1/9..9 scale.")
-            if np.isinf(x) or np.isinf(y):
-                continue
             if np.isnan(x) and np.isnan(y):
-                problems.add(
-                    cell(kp, kq),
-                    f"no judgment of '{kp}' against '{kq}'",
-                    f"type how much more important '{kp}' is than '{kq}' (1-9, or 1/3 etc. if less) "
-                    f"here or in {cell(kq, kp)}",
-                )
-                continue
+                raise ValueError(f"no pairwise judgment of {kp!r} against {kq!r}")
             if np.isnan(y):
-                value, typed_at[(p, q)] = x, (cell(kp, kq), True)
+                value, typed_at[(p, q)] = x, (_pairwise_ref(inputs, kp, kq), True)
             elif np.isnan(x):
-                value, typed_at[(p, q)] = 1 / y, (cell(kq, kp), False)
+                value, typed_at[(p, q)] = 1 / y, (_pairwise_ref(inputs, kq, kp), False)
             else:
-                if abs(x * y - 1) > RECIPROCAL_RTOL:
-                    problems.add(
-                        cell(kq, kp),
-                        f"holds {_fmt_judgment(y)} but {cell(kp, kq)} holds {_fmt_judgment(x)}; "
-                        "a judgment and its mirror must be reciprocals",
-                        f"type {_fmt_judgment(1 / x)} here, or clear one of the two cells",
-                    )
-                    continue
-                value, typed_at[(p, q)] = float(np.sqrt(x / y)), (cell(kp, kq), True)
+                # Both typed and reciprocal within the reader's tolerance: their geometric mean.
+                value = float(np.sqrt(x / y))
+                typed_at[(p, q)] = (_pairwise_ref(inputs, kp, kq), True)
+            if not (np.isfinite(value) and value > 0):
+                raise ValueError(f"pairwise judgment of {kp!r} against {kq!r} is {value}")
             a[p, q], a[q, p] = value, 1 / value
             given[f"{kp} / {kq}"] = value
-    if len(problems.items) > before:
-        return None
     res = ahp_weights(a)
     consistency = {
         "lambda_max": res["lambda_max"],
@@ -310,9 +170,11 @@ def _pairwise_set(inputs: Inputs, keys: list[str], problems: Problems):
             f"{PAIRWISE}: the {DEFAULT_RI_TABLE} random-index table stops at 10 criteria; "
             f"no consistency ratio for {n}."
         )
-    if n >= 3:
-        index, i, j, k = triple_inconsistency(a)[0]
-        fix = revise_triple(a, (i, j, k))
+    index, i, j, k = triple_inconsistency(a)[0] if n >= 3 else (0.0, 0, 0, 0)
+    fix = revise_triple(a, (i, j, k)) if index > 1e-9 else None
+    now = res["cr"] if res["cr"] is not None else res["ci"]
+    # Suggest a revision only where it lowers the ratio: never for a consistent matrix.
+    if fix is not None and fix["cr_after"] < now - 1e-9:
         where, upper = typed_at[(min(fix["row"], fix["col"]), max(fix["row"], fix["col"]))]
         forward = fix["row"] < fix["col"]
         current, suggested = fix["current"], fix["suggested"]
@@ -341,12 +203,13 @@ def _pairwise_set(inputs: Inputs, keys: list[str], problems: Problems):
                 f"(the consistency ratio would then be {fix['cr_after']:.3f})"
             ),
         )
-        if res["cr"] is not None and res["cr"] > CR_LIMIT:
-            warns.append(
-                f"{PAIRWISE}: consistency ratio {res['cr']:.3f} is above {CR_LIMIT:.2f} "
-                f"({DEFAULT_RI_TABLE}); the most inconsistent triple is {keys[i]}, {keys[j]}, "
-                f"{keys[k]}; {consistency['suggestion']}."
-            )
+    if res["cr"] is not None and res["cr"] > CR_LIMIT:
+        warns.append(
+            f"{PAIRWISE}: consistency ratio {res['cr']:.3f} is above {CR_LIMIT:.2f} "
+            f"({DEFAULT_RI_TABLE}); the most inconsistent triple is {keys[i]}, {keys[j]}, "
+            f"{keys[k]}"
+            + (f"; {consistency['suggestion']}." if consistency["suggestion"] else ".")
+        )
     return ResolvedWeights(
         "pairwise",
         dict(zip(keys, res["weights"].tolist(), strict=True)),
@@ -420,10 +283,11 @@ def resolve_weight_sets(
 
     Raises
     ------
-    InputError
-        Every problem found, each naming its cell: a negative weight, a set
-        of zeros, a missing or fractional rank, an unknown, missing,
-        contradicting or non-positive pairwise judgment.
+    ValueError
+        Input the workbook reader would have refused (a negative weight, a set
+        of zeros, a missing or fractional rank, a missing pairwise judgment):
+        the reader (:mod:`ranker.workbook`) checks every cell and names it;
+        this guard is for library callers who build ``Inputs`` themselves.
 
     Examples
     --------
@@ -441,36 +305,15 @@ def resolve_weight_sets(
     ['default', 'entropy', 'critic']
     """
     keys = [str(k) for k in matrix.columns]
-    problems = Problems()
-    out: list[ResolvedWeights] = []
     method = str(assumptions.get("rank_weights", "roc"))
-    names = {ws.name for ws in inputs.weight_sets}
-    if inputs.pairwise is not None and "pairwise" in names:
-        ws = next(w for w in inputs.weight_sets if w.name == "pairwise")
-        col = inputs.columns.get(CRITERIA, {}).get(_field_key(ws, inputs)) or ws.column
-        problems.add(
-            f"{CRITERIA}!{col}1" if col else CRITERIA,
-            "the weight set name 'pairwise' is taken by the Pairwise sheet",
-            "rename the column, for example weight:board",
-        )
-    for ws in inputs.weight_sets:
-        if ws.kind == "rank":
-            rs = _rank_set(ws, keys, inputs, method, problems)
-        else:
-            rs = _points_set(ws, keys, inputs, problems)
-        if rs is not None:
-            out.append(rs)
+    out = [
+        _rank_set(ws, keys, method) if ws.kind == "rank" else _points_set(ws, keys)
+        for ws in inputs.weight_sets
+    ]
     if inputs.pairwise is not None:
-        rs = _pairwise_set(inputs, keys, problems)
-        if rs is not None:
-            out.append(rs)
-    if not inputs.weight_sets and inputs.pairwise is None:
-        problems.add(
-            CRITERIA,
-            "there is no weight column",
-            "add a column headed weight (points per criterion), or a Pairwise sheet",
-        )
-    problems.raise_if_any()
+        out.append(_pairwise_set(inputs, keys))
+    if not out:
+        raise ValueError("no weight set: give a weight column or a pairwise matrix")
     if len(matrix) >= 2 and keys:
         out.extend(_objective_sets(matrix, keys, inputs, {r.name for r in out}))
     elif out:

@@ -39,7 +39,14 @@ from .closeness import adjacent_pairs, closeness_table, same_tier_flags
 from .consensus import compare_weight_sets, consensus_json
 from .reversal import all_checks
 from .scenarios import futures
-from .tiers import TIER_CONFIDENCE, RankStore, Tiers, tiers_from_ranks, tiers_without_samples
+from .tiers import (
+    TIER_CONFIDENCE,
+    RankStore,
+    Tiers,
+    nearest_first_tier_change,
+    tiers_from_ranks,
+    tiers_without_samples,
+)
 from .tipping import INTERVAL_COLUMNS, sweep_criterion, tipping_records
 from .words import Namer, listing
 
@@ -114,6 +121,10 @@ class Robustness:
     pairwise_ids: list[str] = field(default_factory=list)
     #: The tiers with the shares behind them (neighbour and cut shares).
     tiers: Tiers | None = None
+    #: The smallest one-weight change that alters the first tier's corridors:
+    #: ``criterion`` (key), ``current``, ``weight_at``, ``distance`` [-],
+    #: ``direction``, ``entering``, ``leaving`` (corridor ids); None if none in [0, 1].
+    first_tier_change: dict | None = None
 
     def to_json(self) -> dict:
         """Return a JSON-ready summary (plain types; NaN as null)."""
@@ -147,6 +158,7 @@ class Robustness:
                 ),
                 "pairwise_ids": list(self.pairwise_ids),
                 "tier_confidence": None if self.tiers is None else self.tiers.confidence,
+                "first_tier_change": self.first_tier_change,
             }
         )
 
@@ -510,6 +522,14 @@ def stress_test(
         tiers = tiers_without_samples(r0[order])
     tier = pd.Series(0, index=index, name="tier", dtype=int)
     tier.iloc[order] = tiers.tier
+    change = nearest_first_tier_change(scorer, x, w, order[tiers.tier == 1])
+    if change is not None:
+        change = {
+            **change,
+            "criterion": keys[change["criterion"]],
+            "entering": [ids[i] for i in change["entering"]],
+            "leaving": [ids[i] for i in change["leaving"]],
+        }
     checks = all_checks(scorer, x, w, ids, names, labels)
     tick()
     sweeps = [sweep_criterion(scorer, x, w, c) for c in range(k)] if k > 1 else []
@@ -546,4 +566,5 @@ def stress_test(
         pairwise_wins=tiers.pairwise_wins,
         pairwise_ids=[ids[i] for i in order[: tiers.pairwise_wins.shape[0]]],
         tiers=tiers,
+        first_tier_change=change,
     )

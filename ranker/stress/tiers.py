@@ -239,3 +239,88 @@ def tiers_without_samples(ranks: np.ndarray) -> Tiers:
     top = (r[:m, None] < r[None, :m]).astype(float)
     neighbour = (r[:-1] < r[1:]).astype(float)
     return Tiers(tier, top, neighbour, np.full(max(n - 1, 0), np.nan), 1.0, 0)
+
+
+#: Grid points over [0, 1] that bracket a change of the first tier [-].
+CHANGE_GRID = 201
+#: Width of the final bracket around the weight that changes the first tier [-].
+CHANGE_TOLERANCE = 1e-6
+
+
+def nearest_first_tier_change(scorer, matrix: np.ndarray, weights: np.ndarray, members):
+    """Find the smallest one-weight change that alters the set of first-tier corridors.
+
+    Each criterion's weight is swept over [0, 1] with the others keeping
+    their proportions (:func:`ranker.stress.tipping.sweep_weights`); the
+    first tier's corridors are "the first m" at the chosen weights (m = its
+    size). The nearest weight, above and below the current one, at which the
+    set of corridors ranked m-th or better changes is bracketed on a grid of
+    :data:`CHANGE_GRID` points and narrowed by bisection to
+    :data:`CHANGE_TOLERANCE`; two changes inside one grid cell are not seen.
+
+    Parameters
+    ----------
+    scorer : Scorer
+        The method kernel with its directions and options.
+    matrix : ndarray, shape (n, k)
+        Decision matrix in the criteria's own units.
+    weights : ndarray, shape (k,)
+        Weights used, summing to 1 [-].
+    members : ndarray of int
+        Indices of the first tier's corridors.
+
+    Returns
+    -------
+    dict or None
+        ``criterion`` (index), ``current``, ``weight_at`` [-], ``direction``
+        (``above`` or ``below``), ``entering`` and ``leaving`` (corridor
+        indices just past ``weight_at``); None when no change in [0, 1]
+        alters the set, or the tier holds every corridor.
+    """
+    from .batch import rank_batch
+    from .tipping import sweep_weights
+
+    x = np.asarray(matrix, dtype=float)
+    w = np.asarray(weights, dtype=float)
+    n, k = x.shape
+    size = len(members)
+    if size >= n or k < 2:
+        return None
+    base = np.zeros(n, dtype=bool)
+    base[np.asarray(members, dtype=int)] = True
+
+    def member(t):
+        ranks = rank_batch(scorer.weights(x, sweep_weights(w, c, np.atleast_1d(t))))
+        return ranks <= size
+
+    best = None
+    for c in range(k):
+        grid = np.linspace(0.0, 1.0, CHANGE_GRID)
+        inside = member(grid)
+        differs = np.any(inside != base, axis=1)
+        for direction, cells in (
+            ("above", np.nonzero((grid > w[c]) & differs)[0][:1]),
+            ("below", np.nonzero((grid < w[c]) & differs)[0][-1:]),
+        ):
+            if not cells.size:
+                continue
+            same, other = float(w[c]), float(grid[cells[0]])
+            while abs(other - same) > CHANGE_TOLERANCE:
+                mid = 0.5 * (same + other)
+                if np.any(member(mid)[0] != base):
+                    other = mid
+                else:
+                    same = mid
+            distance = abs(other - w[c])
+            if best is None or distance < best["distance"]:
+                after = member(other)[0]
+                best = {
+                    "criterion": c,
+                    "current": float(w[c]),
+                    "weight_at": other,
+                    "direction": direction,
+                    "distance": float(distance),
+                    "entering": np.nonzero(after & ~base)[0].tolist(),
+                    "leaving": np.nonzero(base & ~after)[0].tolist(),
+                }
+    return best

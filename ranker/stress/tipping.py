@@ -458,12 +458,14 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
     Returns
     -------
     records : list of dict
-        JSON-ready tipping points: ``criterion``, ``current_weight``, ``kind``
-        (``top`` for a change of first place, ``rank`` otherwise),
-        ``corridor_id``, ``other_id``, ``weight_at``, ``direction`` (``above``
-        or ``below``), ``rank_before``, ``rank_after`` (of ``corridor_id``),
-        ``sentence``. A crossing that ends the intervals of both corridors
-        is listed once.
+        JSON-ready tipping points (numbers only; the words are
+        :func:`ranker.report.narrative.tipping_sentence`): ``criterion``,
+        ``current_weight``, ``kind`` (``top`` for a change of first place,
+        ``rank`` otherwise), ``corridor_id``, ``other_id``, ``weight_at``,
+        ``direction`` (``above`` or ``below``), ``rank_before``,
+        ``rank_after`` (of ``corridor_id``), ``other_rank_before``,
+        ``other_rank_after`` (of ``other_id``, just past ``weight_at``). A
+        crossing that ends the intervals of both corridors is listed once.
     intervals : list of list
         Rows for :data:`INTERVAL_COLUMNS`.
     """
@@ -490,26 +492,7 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
                 if any(abs(t - u) <= 2 * TOLERANCE for u in seen.get(pair, [])):
                     continue
                 seen.setdefault(pair, []).append(float(t))
-                moves = "rises above" if direction == "above" else "falls below"
-                at = weight_text(float(t), sw.current)
-                who, other = namer.corridor(ids[i], start=True), namer.corridor(ids[by])
-                if r == 1:
-                    kind = "top"
-                    sentence = (
-                        f"{namer.corridor(ids[by], start=True)} overtakes "
-                        f"{namer.corridor(ids[i])} for first place if the weight on "
-                        f"{label} {moves} {at}; it is {now} now."
-                    )
-                else:
-                    kind = "rank"
-                    verb = (
-                        f"moves up from {ordinal(r)} to {ordinal(after)}, past {other},"
-                        if after < r
-                        else f"drops from {ordinal(r)} to {ordinal(after)}, behind {other},"
-                    )
-                    sentence = (
-                        f"{who} {verb} if the weight on {label} {moves} {at}; it is {now} now."
-                    )
+                kind = "top" if r == 1 else "rank"
                 events.append(
                     {
                         "criterion": key,
@@ -521,8 +504,11 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
                         "direction": direction,
                         "rank_before": r,
                         "rank_after": int(after),
+                        # The passed corridor sits next to it just past the crossing
+                        # (no other crossing at the same weight).
+                        "other_rank_before": int(sw.ranks[by]),
+                        "other_rank_after": int(after) + (1 if after < r else -1),
                         "exact": bool(sw.exact),
-                        "sentence": sentence,
                     }
                 )
         events.sort(key=lambda e: (e["kind"] != "top", abs(e["weight_at"] - sw.current)))

@@ -180,3 +180,32 @@ def test_stress_test_without_samples_has_tiers_but_no_json_shares():
     )
     assert sorted(r.tier.tolist()) == [1, 2, 3]
     assert r.to_json()["pairwise_wins"] is None
+
+
+@settings(max_examples=20, deadline=None, derandomize=True)
+@given(st.integers(3, 8), st.integers(2, 4), st.integers(0, 10_000))
+def test_nearest_first_tier_change_is_the_nearest_top_tipping_point(n, k, seed):
+    """With one corridor in the first tier, the nearest change is the nearest change of first place.
+
+    The tipping points are the independent check (closed-form crossings of the
+    weighted sum's lines, Triantaphyllou & Sanchez 1997, Decision Sciences 28(1)).
+    """
+    rng = np.random.default_rng(seed)
+    m = frame(rng.random((n, k)) * 10.0)
+    r = stress_test(
+        m,
+        dict(zip(m.columns, rng.dirichlet(np.ones(k)), strict=True)),
+        dict.fromkeys(m.columns, True),
+        kernel=weighted_sum,
+        samples=0,
+    )
+    tops = [t for t in r.tipping_points if t["kind"] == "top"]
+    change = r.first_tier_change
+    if not tops:
+        assert change is None
+        return
+    nearest = min(abs(t["weight_at"] - t["current_weight"]) for t in tops)
+    assert change is not None
+    assert change["distance"] == pytest.approx(nearest, abs=1e-5)
+    top = r.pairwise_ids[0]
+    assert change["leaving"] == [top] and len(change["entering"]) == 1
