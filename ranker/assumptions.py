@@ -580,6 +580,15 @@ _TABLE = [
         choices=("topsis", "weighted_sum", "weighted_product", "vikor"),
     ),
     _a(
+        "grid_headroom_full_credit_at",
+        2.0,
+        "[-]",
+        "float",
+        "Headroom ratio at which grid_headroom stops earning credit when its Criteria full_credit_at is blank: headroom beyond twice the new peak load counts as twice (common practice: the load fits with margin); 0 = no level.",
+        "scoring",
+        low=0.0,
+    ),
+    _a(
         "topsis_normalization",
         "vector",
         "[-]",

@@ -146,6 +146,7 @@ def build_html(result) -> str:
         "labels": narrative.method_labels(methods),
         "recommendation": narrative.recommendation(result),
         "brief": _brief(result),
+        "spread": narrative.spread_sentence(result),
         # Slot for a map on the brief (SVG text, drawn where it fits); "" = none.
         "brief_map": "",
         "changed": [a for a in assumptions if a["set_by"] == "changed"],
@@ -167,6 +168,7 @@ def build_html(result) -> str:
                 "source": result.provenance.get(c.key, "given"),
                 "weight": result.weights.get(c.key, 0.0),
                 "weight_note": result.weight_notes().get(c.key, ""),
+                "full_credit": result.full_credit.get(c.key),
             }
             for c in result.criteria
         ],

@@ -136,6 +136,9 @@ def weights_sheet(writer, result) -> None:
     frame = pd.DataFrame(index=pd.Index(keys, name="criterion"))
     frame["label"] = [c.label for c in result.criteria]
     frame["used [-]"] = [result.weights.get(k, 0.0) for k in keys]
+    frame["full credit at"] = [result.full_credit.get(k) for k in keys]
+    spread = result.diagnostics.get("spread_share", {})
+    frame["share of the score spread [-]"] = [spread.get(k, 0.0) for k in keys]
     notes = result.weight_notes()
     if any(notes.values()):
         frame["chosen [-]"] = [result.chosen_weights.get(k, 0.0) for k in keys]
