@@ -196,7 +196,7 @@ def prepare(inputs: Inputs) -> Prepared:
 
     Shared by ``ranker check`` (which stops here) and ``ranker run``.
     """
-    from .report.narrative import saturation_warnings
+    from .report.narrative import energy_cap_warnings, saturation_warnings
     from .score.saturation import full_credit_levels, saturate, saturated_counts
     from .score.screen import screen
     from .score.weights import resolve_weight_sets
@@ -225,6 +225,8 @@ def prepare(inputs: Inputs) -> Prepared:
         warnings.extend(derivation.warnings)
     for s in sets:
         warnings.extend(s.warnings)
+    if derivation is not None:
+        warnings.extend(energy_cap_warnings(derivation.sizing, inputs.corridors["name"]))
     warnings.extend(
         saturation_warnings(
             saturated_counts(matrix.loc[kept], inputs.included, levels),

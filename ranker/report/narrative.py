@@ -482,3 +482,31 @@ def spread_sentence(result) -> str:
         "Share of the spread of the weighted scores (how much each criterion separates the "
         "corridors): " + "; ".join(parts) + "."
     )
+
+
+#: Corridors named in the energy-cap warning; the rest are counted.
+CAP_NAMED = 8
+
+
+def energy_cap_warnings(sizing, names) -> list[str]:
+    """Name the corridors and years where the ports cap the energy sold (revenue NPV)."""
+    if "energy_capped_from_year" not in sizing:
+        return []
+    capped = sizing["energy_capped_from_year"].dropna().sort_values(kind="stable")
+    if not len(capped):
+        return []
+    last = (
+        int(sizing["energy_capped_last_year"].max())
+        if "energy_capped_last_year" in sizing
+        else None
+    )
+    parts = [f"{names.get(c, c)} ({c}) from {int(y)}" for c, y in capped.iloc[:CAP_NAMED].items()]
+    more = len(capped) - CAP_NAMED
+    text = (
+        "Revenue counts only the energy the sized ports can deliver (ports x power x open hours "
+        "x utilization_ceiling); the trucks would buy more in later years for "
+        + listing(parts + ([f"{more} more corridors"] if more > 0 else []))
+        + (f", through {last}" if last else "")
+        + ". Selling it would need ports the capital cost does not include."
+    )
+    return [text]
