@@ -42,7 +42,8 @@ def input_values(result) -> dict[str, object]:
     ``w:SET:CRITERION`` (a weight as typed), ``c:CRITERION:FIELD`` (a
     ``Criteria`` setting), ``r:CORRIDOR:FIELD`` (a ``Corridors`` number),
     ``b:YEAR`` (a ``Budget`` line), ``j:CODE`` (a jurisdiction's readiness),
-    ``o:--weight:CRITERION`` and ``o:--weights`` (command-line choices).
+    ``o:--weight:CRITERION``, ``o:--weights``, ``o:--samples`` and
+    ``o:--seed`` (command-line choices).
     """
     inputs = result.inputs
     out: dict[str, object] = {}
@@ -70,6 +71,8 @@ def input_values(result) -> dict[str, object]:
         for code, value in inputs.jurisdictions["readiness"].items():
             out[f"j:{code}"] = _plain(value)
     out["o:--weights"] = result.weight_set
+    out["o:--samples"] = int(result.samples)
+    out["o:--seed"] = int(result.seed)
     for key, share in result.overrides.items():
         out[f"o:--weight:{key}"] = float(share)
     return out
@@ -150,6 +153,12 @@ def format_pair(old, new, unit: str = "") -> str:
     if "USD" in u and max(abs(old), abs(new)) >= 1e6:
         scale, suffix = 1e6, "million " + u
     a, b = old / scale, new / scale
+    if scale > 1:  # millions: the same decimals on both sides, as few as tell them apart
+        for decimals in range(1, 10):
+            sa, sb = f"{a:,.{decimals}f}", f"{b:,.{decimals}f}"
+            if sa != sb:
+                break
+        return f"{sa} -> {sb} {suffix}"
     for digits in range(3, 13):
         sa, sb = _number(a, digits), _number(b, digits)
         if sa != sb:
@@ -206,6 +215,10 @@ def _where_and_label(key: str, result) -> tuple[str, str, str]:
         return inputs.where(T.JURISDICTIONS, "readiness", rest), f"readiness of {rest}", ""
     if rest == "--weights":
         return "--weights", "weight set used", ""
+    if rest == "--samples":
+        return "--samples", "Monte Carlo samples", "samples"
+    if rest == "--seed":
+        return "--seed", "random seed", ""
     return "--weight", f"share of {labels.get(rest.partition(':')[2], rest)}", "%"
 
 

@@ -17,6 +17,7 @@ from pathlib import Path
 
 from . import __version__
 from .errors import InputError
+from .progress import Progress
 
 EXIT_OK, EXIT_INTERNAL, EXIT_INPUT = 0, 1, 2
 
@@ -92,28 +93,6 @@ def parse_overrides(pairs: list[str]) -> dict[str, float]:
     return parse_shares(pairs)
 
 
-class Progress:
-    """A plain progress bar on standard error."""
-
-    def __init__(self, enabled: bool):
-        self.enabled = enabled and sys.stderr.isatty()
-        self.last = 0.0
-
-    def __call__(self, done: int, total: int) -> None:
-        if not self.enabled or total <= 0:
-            return
-        now = time.monotonic()
-        if done < total and now - self.last < 0.1:
-            return
-        self.last = now
-        width = 30
-        filled = int(width * done / total)
-        sys.stderr.write(f"\rrobustness [{'#' * filled}{'.' * (width - filled)}] {done}/{total}")
-        if done >= total:
-            sys.stderr.write("\n")
-        sys.stderr.flush()
-
-
 def cmd_template(args) -> int:
     from .files import make_out_dir, os_error, shown
     from .workbook.template import write_template
@@ -150,16 +129,21 @@ def run_once(args, overrides: dict[str, float]):
 
     samples = DEFAULT_SAMPLES if args.samples is None else args.samples
     seed = DEFAULT_SEED if args.seed is None else args.seed
-    progress = Progress(not (args.quiet or args.json) and samples >= 2000)
-    result = rank_workbook(
-        args.input,
-        weights=args.weights,
-        weight_overrides=overrides,
-        samples=samples,
-        seed=seed,
-        progress=progress,
-    )
-    write_outputs(result, args.out)
+    progress = Progress(not (args.quiet or args.json), samples=samples)
+    try:
+        progress.stage("reading the workbook")
+        result = rank_workbook(
+            args.input,
+            weights=args.weights,
+            weight_overrides=overrides,
+            samples=samples,
+            seed=seed,
+            progress=progress,
+        )
+        progress.stage("writing the results workbook and the justification sheet")
+        write_outputs(result, args.out)
+    finally:
+        progress.close()
     return result
 
 

@@ -16,6 +16,7 @@ import pandas as pd
 
 from .assumptions import resolve
 from .errors import InputError, Problem, Problems
+from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
 
@@ -48,7 +49,8 @@ def rank_workbook(
     seed : int
         Seed of the random stream.
     progress : callable, optional
-        Called as ``progress(done, total)`` during the Monte Carlo.
+        Called as ``progress(done, total)`` during the Monte Carlo; where it
+        has a ``stage(name)`` method, that is called as each stage begins.
 
     Returns
     -------
@@ -96,6 +98,7 @@ def rank_inputs(
             f"give at most {MAX_SAMPLES:,} samples",
         )
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
+    stage(progress, "deriving the criteria")
     p = prepare(inputs)
     # Every stage scores the saturated matrix; the outputs show the values as derived.
     assumptions, matrix, kept = p.assumptions, p.scored, p.kept
@@ -108,6 +111,7 @@ def rank_inputs(
 
         warnings.extend(small_share_warnings(overrides))
 
+    stage(progress, "scoring")
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
     warnings.extend(scores.warnings)
     diagnostics = _diagnostics(matrix.loc[kept], scores)
@@ -120,6 +124,7 @@ def rank_inputs(
             "robustness analysis skipped."
         )
     elif len(kept) >= 2:
+        stage(progress, "robustness: samples, rank-reversal checks, tipping points")
         robustness = _stress(
             matrix.loc[kept],
             included,
@@ -138,11 +143,13 @@ def rank_inputs(
 
     futures = None
     if inputs.scenarios is not None and len(inputs.scenarios):
+        stage(progress, "futures of the Scenarios sheet")
         futures = _futures(inputs, used, scores)
         warnings.extend(futures.get("warnings", []))
 
     plan = None
     if inputs.budget is not None and len(inputs.budget):
+        stage(progress, "build plan under the budget")
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
 

@@ -85,6 +85,7 @@ def test_values_read_in_their_units():
     assert format_pair(288_000.0, 400_000.0, "[USD]") == "288,000 -> 400,000 USD"
     assert format_pair(12.28e6, 15.3e6, "[USD]") == "12.3 -> 15.3 million USD"
     assert format_pair(12.31e6, 12.34e6, "[USD]") == "12.31 -> 12.34 million USD"
+    assert format_pair(7.608e6, 9.4e6, "[USD]") == "7.6 -> 9.4 million USD"
     assert format_pair(20, 40, "points") == "20 -> 40 points"
     assert format_pair(0.25, 0.3, "[-]") == "0.25 -> 0.3"
     assert format_pair(None, 60.0, "%") == "blank -> 60 %"

@@ -11,6 +11,7 @@ from openpyxl.utils import get_column_letter
 
 from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
+from .live_sheet import live_sheet
 from .narrative import assumptions_used, consistency_text, tipping_sentences
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
@@ -165,7 +166,10 @@ def weights_sheet(writer, result) -> None:
             put(ws, row + i, 1 + j, v)
     if result.overrides:
         row += len(result.weight_sets) + 2
-        put(ws, row, 1, "Overrides on the command line (--weight)").font = HEADER_FONT
+        put(
+            ws, row, 1, "Final shares set on the command line (--weight KEY=SHARE) [%]"
+        ).font = HEADER_FONT
+        put(ws, row, 2, "the other criteria kept their proportions; see used [-] above")
         for i, (k, v) in enumerate(result.overrides.items(), start=1):
             put(ws, row + i, 1, k)
             put(ws, row + i, 2, v)
@@ -331,6 +335,29 @@ def more_robustness_sheet(writer, result) -> None:
         writer.table(ws2, table, top=4, index_label="corridor_id", name="futures")
 
 
+def budget_sentence(plan) -> str:
+    """Say how far the first year's money goes and how many years the plan spans."""
+    greedy = plan.greedy
+    first = float(plan.budget["capital_usd"].iloc[0])
+    costs = greedy["capital_usd"].astype(float).cumsum()
+    fits = int((costs <= first + 1e-6).sum())
+    funded = greedy["year_funded"].dropna()
+    years = sorted({int(y) for y in funded})
+    span = f"{years[0]} to {years[-1]}" if years else "no year"
+    left = int(greedy["year_funded"].isna().sum())
+    return (
+        f"The first year's {first / 1e6:,.1f} million USD pays for the first {fits} of "
+        f"{len(greedy)} corridors by rank (together "
+        f"{float(greedy['capital_usd'].sum()) / 1e6:,.1f} million USD); the greedy plan funds "
+        f"corridors from {span}"
+        + (
+            f", and {left} {'stays' if left == 1 else 'stay'} unfunded within the budget."
+            if left
+            else "."
+        )
+    )
+
+
 def plan_sheet(writer, result) -> None:
     """Phased build plan: year by corridor, spend, remaining budget."""
     plan = result.plan
@@ -344,7 +371,8 @@ def plan_sheet(writer, result) -> None:
     )
     put(ws, bottom + 2, 1, "Spend by year and corridor").font = HEADER_FONT
     _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
-    lines = [f"Optimality gap of the optimised plan: {plan.gap:.2%}."] + list(plan.differences)
+    lines = [budget_sentence(plan), f"Optimality gap of the optimised plan: {plan.gap:.2%}."]
+    lines += list(plan.differences)
     if plan.coverage and plan.coverage.get("sentence"):
         lines.append(plan.coverage["sentence"])
     lines += [f"warning: {w}" for w in plan.warnings]
@@ -373,7 +401,7 @@ def run_info_sheet(writer, result) -> None:
         ("weight set", result.weight_set),
         (
             "weight overrides",
-            ", ".join(f"{k}={v:g}" for k, v in result.overrides.items()) or "none",
+            ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items()) or "none",
         ),
         ("primary method", result.primary_method),
         ("methods", ", ".join(result.scores.scores.columns)),
@@ -446,6 +474,7 @@ WRITERS = [
     criteria_sheet,
     normalised_sheet,
     weights_sheet,
+    live_sheet,
     methods_sheet,
     sizing_sheet,
     robustness_sheet,

@@ -85,8 +85,17 @@ def _table_headers(ws) -> set[str]:
     return out
 
 
+#: The one kind of formula ranker writes itself (the Live weights sheet): arithmetic on
+#: cell references and numbers with a few functions, never any text.
+OWN_FORMULA = re.compile(
+    r"=(?:SUMPRODUCT|SUMSQ|SQRT|RANK|SUM|MIN|MAX|IF|\$?[A-Z]{1,3}\$?\d+|\d+(?:\.\d+)?|[-+*/^=(),:])+"
+)
+
+
 def _formula_like(wb, *, skip_table_headers: bool):
-    """Yield (sheet, cell) for each cell that a spreadsheet would run."""
+    """Yield (sheet, cell) for each cell that a spreadsheet would run, but ranker's own."""
+    from ranker.report.live_sheet import SHEET as LIVE
+
     for ws in wb.worksheets:
         skip = _table_headers(ws) if skip_table_headers else set()
         for row in ws.iter_rows():
@@ -94,6 +103,13 @@ def _formula_like(wb, *, skip_table_headers: bool):
                 if cell.coordinate in skip:
                     continue
                 looks = isinstance(cell.value, str) and cell.value.startswith(FORMULA_START)
+                ours = (
+                    ws.title == LIVE
+                    and cell.data_type == "f"
+                    and OWN_FORMULA.fullmatch(str(cell.value))
+                )
+                if ours:
+                    continue
                 if cell.data_type == "f" or (looks and cell.data_type != "s"):
                     yield ws.title, cell.coordinate, cell.value
 

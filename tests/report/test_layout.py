@@ -77,3 +77,22 @@ def test_weight_set_names_keep_their_case(tmp_path, capsys):
     assert "Board_W2" in [w["name"] for w in summary["weights_sets"]]
     wb = load_workbook(summary["outputs"]["workbook"])
     assert "Board_W2" in str(wb["Weights used"]["A1"].value)
+
+
+def test_the_demo_budget_binds_and_the_sheet_explains_the_plans(demo_results):
+    """Each year's money is below what the first two corridors cost; the plans differ."""
+    result, wb = demo_results
+    plan = result.plan
+    greedy = plan.greedy.set_index("corridor_id")
+    optimised = plan.optimised.set_index("corridor_id")
+    first_two = float(greedy["capital_usd"].iloc[:2].sum())
+    assert (plan.budget["capital_usd"] < first_two).all()
+    assert float(plan.budget["capital_usd"].sum()) < float(greedy["capital_usd"].sum())
+    years = greedy["year_funded"].dropna().astype(int)
+    assert years.nunique() >= 4  # the plan spreads over several years
+    moved = (greedy["year_funded"].fillna(0) != optimised["year_funded"].fillna(0)).sum()
+    assert moved >= 3
+    assert plan.objective_value["optimised"] > plan.objective_value["greedy"] * 1.005
+    text = [str(c.value) for row in wb["Phasing"].iter_rows() for c in row if c.value]
+    assert any(t.startswith("The first year's 14.0 million USD pays for") for t in text)
+    assert all(d in text for d in plan.differences)
