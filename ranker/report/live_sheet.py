@@ -181,7 +181,9 @@ def live_sheet(writer, result) -> None:
         put(ws, ROW_HEAD, j, h).font = HEADER_FONT
     col_ws = FIRST_COL + k
     letters = [get_column_letter(col_ws + i) for i in range(len(extra) + len(tool))]
-    matrix = result.matrix.loc[ids, keys].to_numpy(dtype=float)
+    # The values as scored: past a full-credit level, at the level.
+    source = result.scored_matrix if result.scored_matrix is not None else result.matrix
+    matrix = source.loc[ids, keys].to_numpy(dtype=float)
     names = result.inputs.corridors.loc[ids, "name"]
     scores = s.scores
     used = f"${c0}${ROW_USED}:${c1}${ROW_USED}"
