@@ -303,8 +303,8 @@ def build_template() -> Workbook:
     return wb
 
 
-def write_template(path: Path) -> None:
-    """Write the blank input workbook.
+def write_template(path: Path, *, network=None) -> None:
+    """Write the blank input workbook, or one pre-filled from a GIS file.
 
     The file is written to a temporary name in the same folder and moved
     into place, so a failed write leaves no half-written file.
@@ -313,6 +313,10 @@ def write_template(path: Path) -> None:
     ----------
     path : Path
         Where to write the ``.xlsx`` file; its folder must exist.
+    network : ranker.geo.importer.Network, optional
+        Corridors, places and lines read from a GIS file
+        (:func:`ranker.geo.importer.read_network`); they fill the Corridors,
+        Places and (hidden) Geometry sheets.
 
     Examples
     --------
@@ -320,6 +324,10 @@ def write_template(path: Path) -> None:
     """
     path = Path(path)
     wb = build_template()
+    if network is not None:
+        from ranker.geo.importer import fill_workbook
+
+        fill_workbook(wb, network)
     fd, tmp = tempfile.mkstemp(prefix=".~" + path.stem, suffix=".xlsx", dir=path.parent)
     os.close(fd)
     try:
