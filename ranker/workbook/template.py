@@ -137,7 +137,8 @@ def _instructions(wb: Workbook) -> None:
             "3.",
             "Optional sheets: Jurisdictions and Corridor miles (for policy_readiness), "
             "Assumptions (change a value, or leave it blank for the default), Adoption, Pairwise, "
-            "Budget and Scenarios.",
+            "Budget and Scenarios; Places (latitude and longitude of the places named in "
+            "connects) for the map and the GeoJSON file of the results.",
             False,
         ),
         (
