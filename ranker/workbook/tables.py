@@ -137,6 +137,10 @@ class Inputs:
         Every sheet of the workbook in order, ours and the planner's.
     warnings : list of str
         Doubtful but legal input; these reach the outputs.
+    snapshot : bytes
+        The file's bytes as read once (``sha256`` is their digest); the
+        results workbook copies the input sheets from these, never from the
+        file again.
     """
 
     path: Path
@@ -157,6 +161,7 @@ class Inputs:
     rows: dict[str, dict[object, int]] = field(default_factory=dict)
     sheet_names: list[str] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
+    snapshot: bytes = field(default=b"", repr=False)
 
     @property
     def included(self) -> list[CriterionSpec]:
