@@ -10,8 +10,6 @@ from __future__ import annotations
 import argparse
 import json
 import sys
-import tempfile
-import time
 import traceback
 from pathlib import Path
 
@@ -197,6 +195,8 @@ def print_ranking(result, stream=None) -> None:
         print(f"warning: {w}", file=sys.stderr)
     print(f"Results workbook: {result.outputs['workbook']}", file=stream)
     print(f"Justification sheet: {result.outputs['html']}", file=stream)
+    if "geojson" in result.outputs:
+        print(f"Corridors for GIS (GeoJSON): {result.outputs['geojson']}", file=stream)
 
 
 def cmd_run(args) -> int:
@@ -281,12 +281,35 @@ def _quiet_pipe() -> None:
 
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; return the exit code."""
+    import warnings
+
+    with warnings.catch_warnings():
+        if argv is None:  # the real command line: a library's warning as one plain line
+            warnings.showwarning = _plain_warning
+        try:
+            return _main(argv)
+        finally:
+            if argv is None:  # a late Ctrl-C ends the process without a traceback
+                import signal
+
+                signal.signal(signal.SIGINT, signal.SIG_DFL)
+
+
+def _plain_warning(message, category, filename, lineno, file=None, line=None) -> None:
+    """Print a library's warning without its source path and line."""
+    _err(f"warning: {category.__name__}: {message}")
+
+
+def _main(argv: list[str] | None) -> int:
+    from .crash import Terminated, stop_on_sigterm, write_error_log
+
     _safe_streams()
     args = _parser().parse_args(argv)
     try:
-        code = COMMANDS[args.command](args)
-        sys.stdout.flush()
-        return code
+        with stop_on_sigterm():  # a kill unwinds like Ctrl-C: no temporary file is left
+            code = COMMANDS[args.command](args)
+            sys.stdout.flush()
+            return code
     except BrokenPipeError:
         # The reader went away (``| head``): the outputs are written; nothing to report.
         _quiet_pipe()
@@ -298,13 +321,12 @@ def main(argv: list[str] | None = None) -> int:
     except KeyboardInterrupt:
         _err("Stopped.")
         return 130
+    except Terminated:
+        _err("Stopped (terminated).")
+        return 143
     except Exception as exc:  # the one place every other failure is caught
-        log = Path(tempfile.gettempdir()) / f"ranker-error-{int(time.time())}.log"
-        try:
-            log.write_text(traceback.format_exc(), encoding="utf-8")
-            where = f"full log in {log}"
-        except OSError:
-            where = "no log could be written"
+        log = write_error_log(traceback.format_exc())
+        where = f"full log in {log}" if log is not None else "no log could be written"
         _err(f"ranker: internal error: {type(exc).__name__}: {exc} ({where})")
         return EXIT_INTERNAL
 

@@ -1,7 +1,8 @@
 """The demo scenario: an invented freight region, built on the blank template.
 
 Everything here is made up: the Tessaly Basin region, its six
-jurisdictions, its fourteen corridors and every number. It exists to show
+jurisdictions, its fourteen corridors, the positions of its nine places
+(set in open ocean) and every number. It exists to show
 the tool working end to end; it is never used as a check value.
 """
 
@@ -24,6 +25,7 @@ from .workbook.tables import (
     CRITERIA,
     JURISDICTIONS,
     PAIRWISE,
+    PLACES,
     SCENARIOS,
 )
 
@@ -36,6 +38,22 @@ JURISDICTION_ROWS = [
     ("VRH", "Varnholt Territory", 38),
     ("ELK", "Elskirk Shire", 71),
     ("DRM", "Drummaven Reach", 29),
+]
+
+# The invented places, placed in open ocean (no real town lies under them):
+# place, latitude [deg], longitude [deg]. Laid out so that each corridor's
+# road length is 1.08 to 1.53 times the straight-line (geodesic) distance
+# between its ends, more on the mountain corridors.
+PLACE_ROWS = [
+    ("Port Quarrow", -38.3188, -127.3302),
+    ("Zelmont Junction", -36.8428, -127.4740),
+    ("Tibben Cross", -37.1104, -128.8884),
+    ("Hallow Ridge", -37.4461, -129.8494),
+    ("Varnholt Yards", -38.6003, -130.1679),
+    ("Lake Oster", -37.5580, -127.5143),
+    ("Elskirk Gap", -38.9655, -128.4905),
+    ("Marrowby", -37.9892, -129.2371),
+    ("Cinder Flats", -37.0810, -131.3470),
 ]
 
 # id, name, connects, length_mi, trucks_per_day, climb_ft, descent_ft, headroom_mw,
@@ -382,6 +400,7 @@ def fill_demo(wb) -> None:
     for i, k in enumerate(keys):
         for other, v in PAIRWISE_ROWS.get(k, {}).items():
             pw.cell(row=i + 2, column=keys.index(other) + 2, value=v)
+    fill_sheet(wb[PLACES], [{"place": p, "lat": lat, "lon": lon} for p, lat, lon in PLACE_ROWS])
     fill_sheet(wb[BUDGET], [{"year": y, "capital_usd": c} for y, c in BUDGET_ROWS])
     fill_sheet(wb[SCENARIOS], [{"scenario": s, "key": k, "value": v} for s, k, v in SCENARIO_ROWS])
 

@@ -16,23 +16,52 @@ from .errors import InputError
 #: HTML) so that a later run knows it may replace the file.
 MARKER = "ranker-output"
 HTML_MARKER = f'<meta name="generator" content="{MARKER}">'
+#: The GeoJSON output's marker: the first member of its collection's properties.
+GEOJSON_MARKER = f'"generator": "{MARKER}"'
 
 
 def written_by_ranker(path: Path) -> bool:
-    """Return True where ``path`` carries the ranker marker."""
+    """Return True where ``path`` carries the ranker marker.
+
+    For a workbook the marker is a custom document property *named*
+    ``ranker-output`` (parsed, not searched for as text, so a property that
+    merely mentions the marker does not count) whose value is a version
+    number or ``demo input``. For HTML it is the generator meta tag in the
+    first 4 KiB.
+    """
     try:
         if path.suffix.lower() == ".html":
             with open(path, "rb") as f:
                 return HTML_MARKER.encode() in f.read(4096)
+        if path.suffix.lower() == ".geojson":
+            with open(path, "rb") as f:
+                return GEOJSON_MARKER.encode() in f.read(4096)
         with zipfile.ZipFile(path) as z:
             if "docProps/custom.xml" not in z.namelist():
                 return False
             info = z.getinfo("docProps/custom.xml")
             if info.file_size > 1_000_000:
                 return False
-            return MARKER.encode() in z.read("docProps/custom.xml")
-    except (OSError, zipfile.BadZipFile, KeyError):
+            return _marker_property(z.read("docProps/custom.xml"))
+    except (OSError, zipfile.BadZipFile, KeyError, ValueError, RuntimeError, EOFError):
         return False
+
+
+def _marker_property(xml: bytes) -> bool:
+    """True when the custom properties hold a ``ranker-output`` property of ours."""
+    import re
+
+    from defusedxml import ElementTree as SafeET
+
+    try:
+        root = SafeET.fromstring(xml)
+    except Exception:  # noqa: BLE001 - damaged or unsafe XML carries no marker
+        return False
+    values = ["".join(prop.itertext()).strip() for prop in root if prop.get("name") == MARKER]
+    return len(values) == 1 and (
+        values[0] == "demo input"
+        or re.fullmatch(r"\d+(\.\d+)*([.+-]?[\w.+-]*)?", values[0]) is not None
+    )
 
 
 def check_replaceable(path: Path) -> None:
@@ -173,13 +202,18 @@ def write_all_atomic(files: dict[Path, bytes]) -> None:
             current = path
             if path.exists():
                 backups[path] = _keep_aside(path)
-            os.replace(tmp, path)
+            # Counted as moved first: a signal landing just after the move must still undo it.
             moved.append(path)
+            os.replace(tmp, path)
     except BaseException as exc:  # undo on any failure, then report it
         for path in moved:
             if path in backups:
+                bak = backups.pop(path)
                 try:
-                    os.replace(backups.pop(path), path)
+                    if os.path.samefile(bak, path):  # never moved: the old file is in place
+                        _remove(bak)
+                    else:
+                        os.replace(bak, path)
                 except OSError:  # keep the hidden copy rather than lose the old output
                     pass
             else:

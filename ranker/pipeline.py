@@ -150,6 +150,10 @@ def rank_inputs(
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
 
+    from .geo.network import corridor_network, network_warnings
+
+    warnings.extend(network_warnings(corridor_network(inputs), inputs))
+
     return Result(
         inputs=inputs,
         assumptions=assumptions,
@@ -385,10 +389,16 @@ def _futures(inputs: Inputs, used, scores):
         scenarios.setdefault(str(row["scenario"]), {})[str(row["key"])] = row["value"]
 
     def rerank(overrides: dict) -> pd.Series:
-        assumptions = resolve(inputs.assumptions, overrides)
-        matrix, _, _ = build_matrix(inputs, assumptions)
-        kept, _ = screen(matrix, inputs.included, inputs)
-        return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
+        try:
+            assumptions = resolve(inputs.assumptions, overrides)
+            matrix, _, _ = build_matrix(inputs, assumptions)
+            kept, _ = screen(matrix, inputs.included, inputs)
+            return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
+        except InputError as exc:  # name the Scenarios cells, not the Assumptions sheet
+            from .workbook.scenario_cells import in_scenario
+
+            name = next((n for n, o in scenarios.items() if o == overrides), "")
+            raise in_scenario(inputs, name, overrides, exc) from None
 
     return futures(
         scenarios, rerank, scores.rank, names=inputs.corridors["name"].astype(str).to_dict()

@@ -15,6 +15,11 @@ from . import __version__
 if TYPE_CHECKING:  # annotations only
     import pandas as pd
 
+    from .derive.run import Derivation
+    from .plan.phasing import Plan
+    from .score.scoring import Scores
+    from .score.weights import ResolvedWeights
+    from .stress import Robustness
     from .workbook.tables import CriterionSpec, Inputs
 
 #: Seed used when none is given, so two runs of one input give identical outputs.
@@ -45,7 +50,7 @@ class Result:
         criterion was left out [-].
     overrides : dict of str to float
         ``--weight KEY=VALUE`` overrides as given (points before renormalising).
-    weight_sets : list
+    weight_sets : list of ResolvedWeights
         Every weight set (:class:`ranker.score.weights.ResolvedWeights`).
     criteria : list of CriterionSpec
         The included criteria, in sheet order.
@@ -84,16 +89,16 @@ class Result:
     weight_set: str
     weights: dict[str, float]
     overrides: dict[str, float]
-    weight_sets: list
+    weight_sets: list[ResolvedWeights]
     criteria: list[CriterionSpec]
     matrix: pd.DataFrame
     provenance: dict[str, str]
-    derivation: object | None
+    derivation: Derivation | None
     excluded: list[dict]
-    scores: object
-    robustness: object | None
+    scores: Scores
+    robustness: Robustness | None
     futures: dict | None
-    plan: object | None
+    plan: Plan | None
     warnings: list[str]
     samples: int
     seed: int
@@ -155,6 +160,13 @@ class Result:
             column = np.concatenate([[1], 1 + np.cumsum(ranks[1:] > ranks[:-1])])[: len(ranks)]
         table.insert(2, "tier", column.astype(int))
         return table
+
+    @cached_property
+    def network(self):
+        """Positions of the corridors (:class:`ranker.geo.Network`), or None without any."""
+        from .geo import corridor_network
+
+        return corridor_network(self.inputs)
 
     def to_json(self) -> dict:
         """Return the JSON summary of the contract (plus added fields)."""

@@ -62,6 +62,7 @@ def test_walk_through_step_by_step(tmp_path, monkeypatch, capsys):
     assert code == 0, err
     assert "Ranking by topsis" in out and "weights: " in out
     assert sorted(p.name for p in tmp_path.iterdir()) == [
+        "corridors-ranked.geojson",  # the demo gives positions (Places)
         "corridors-ranked.html",
         "corridors-ranked.xlsx",
         "corridors.xlsx",
@@ -88,6 +89,7 @@ def test_walk_through_step_by_step(tmp_path, monkeypatch, capsys):
     assert code == 0, err
     summary = json.loads(out)
     assert sorted(p.name for p in tmp_path.iterdir()) == [
+        "corridors-ranked.geojson",  # the demo gives positions (Places)
         "corridors-ranked.html",
         "corridors-ranked.xlsx",
         "corridors.xlsx",

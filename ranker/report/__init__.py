@@ -76,7 +76,11 @@ def changes_since(previous_xlsx: Path, result) -> list[str]:
 
 
 def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None = None) -> dict:
-    """Write ``<stem>-ranked.xlsx`` and ``<stem>-ranked.html`` atomically.
+    """Write ``<stem>-ranked.xlsx``, ``<stem>-ranked.html`` and, with positions, ``.geojson``.
+
+    The three files are written atomically together; without positions
+    (no ``Places`` or ``Geometry``) no GeoJSON file is written, and one an
+    earlier run wrote is removed.
 
     Parameters
     ----------
@@ -90,7 +94,8 @@ def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None
     Returns
     -------
     dict
-        ``{"workbook": path, "html": path}`` as strings; also stored in
+        ``{"workbook": path, "html": path}`` (plus ``"geojson"`` when
+        written) as strings; also stored in
         ``result.outputs``.
 
     Raises
@@ -110,9 +115,18 @@ def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None
         )
     check_replaceable(xlsx)
     check_replaceable(html)
+    geojson = geojson_path(xlsx)
+    if result.network is not None:
+        check_replaceable(geojson)
     result.outputs = {"workbook": shown(xlsx), "html": shown(html)}
+    if result.network is not None:
+        result.outputs["geojson"] = shown(geojson)
     result.changes = changes_since(xlsx, result)
     files = {xlsx: build_workbook(result), html: build_html(result).encode("utf-8", "replace")}
+    if result.network is not None:
+        from ..geo.export import ranked_geojson
+
+        files[geojson] = ranked_geojson(result)
     created = make_out_dir(xlsx.parent)
     try:
         write_all_atomic(files)
@@ -123,4 +137,22 @@ def write_outputs(result, out_dir: str | Path | None = None, *, stem: str | None
             except OSError:
                 pass
         raise
+    if result.network is None:
+        drop_stale(geojson)
     return dict(result.outputs)
+
+
+def geojson_path(xlsx: Path) -> Path:
+    """Return the GeoJSON path beside the results workbook ``<stem>-ranked.xlsx``."""
+    return xlsx.with_suffix(".geojson")
+
+
+def drop_stale(path: Path) -> None:
+    """Remove a GeoJSON file an earlier run wrote, now that the workbook gives no positions."""
+    from ..files import written_by_ranker
+
+    if path.exists() and written_by_ranker(path):
+        try:
+            path.unlink()
+        except OSError:
+            pass

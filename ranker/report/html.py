@@ -9,6 +9,7 @@ import jinja2
 
 from ..files import HTML_MARKER
 from . import charts, narrative
+from .map import map_context
 from .sheets import criterion_unit
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION
@@ -136,6 +137,9 @@ def build_html(result) -> str:
                 "tier": int(r["tier"]),
             }
         )
+    # The map has its own appendix section: on the demo's brief (page one) it does not fit.
+    map_section = map_context(result)
+    brief_map = ""
     context = {
         "marker": HTML_MARKER,
         "r": result,
@@ -147,7 +151,7 @@ def build_html(result) -> str:
         "recommendation": narrative.recommendation(result),
         "brief": _brief(result),
         # Slot for a map on the brief (SVG text, drawn where it fits); "" = none.
-        "brief_map": "",
+        "brief_map": brief_map,
         "changed": [a for a in assumptions if a["set_by"] == "changed"],
         "defaults": [a for a in assumptions if a["set_by"] != "changed"],
         "agreement": narrative.agreement_sentence(result),
@@ -158,6 +162,7 @@ def build_html(result) -> str:
         "stakeholders": rob.stakeholders if rob is not None else None,
         "futures": result.futures,
         "plan": _plan_context(result),
+        "map": map_section,
         "criteria": [
             {
                 "key": c.key,

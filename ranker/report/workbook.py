@@ -13,7 +13,6 @@ from collections.abc import Sequence
 
 import numpy as np
 import pandas as pd
-from openpyxl import load_workbook
 from openpyxl.chart import BarChart, Reference
 from openpyxl.comments import Comment
 from openpyxl.formatting.rule import ColorScaleRule
@@ -23,6 +22,7 @@ from openpyxl.utils import get_column_letter
 from openpyxl.worksheet.table import Table, TableStyleInfo
 
 from ..files import MARKER
+from .carry import CELL_CHARS, fit_cell
 
 SHEETS_PROPERTY = "ranker-sheets"
 #: Most rows and columns a result sheet freezes (title rows and the first header).
@@ -65,6 +65,8 @@ def put(ws, row: int, col: int, value, number_format: str | None = None):
     """Write one cell; text that looks like a formula stays text."""
     cell = ws.cell(row=row, column=col)
     value = safe_value(value)
+    if type(value) is str and len(value) > CELL_CHARS:  # a spreadsheet cell's limit
+        value = fit_cell(value)[0]
     cell.value = value
     if isinstance(value, str) and value.startswith(_FORMULA_START):
         cell.data_type = "s"
@@ -300,12 +302,13 @@ def _write_state(wb, state: dict) -> None:
 def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     """Return the bytes of the results workbook for ``result``."""
     from . import sheets
+    from .carry import carry_input_sheets, earlier_result_sheets
 
-    wb = load_workbook(result.inputs.path, data_only=False, keep_vba=False, keep_links=False)
+    # The input's sheets as values, from the bytes the reader read (never the file again).
+    snapshot = result.inputs.snapshot
+    wb, notes = carry_input_sheets(result.inputs, earlier_result_sheets(snapshot))
+    result.warnings.extend(n for n in notes if n not in result.warnings)
     wb.template = False  # an .xltx input still gives an ordinary workbook
-    for name in previous_result_sheets(wb) + [STATE_SHEET]:
-        if name in wb.sheetnames:
-            del wb[name]
     writer = SheetWriter(wb, result.tool_version, result.started)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)

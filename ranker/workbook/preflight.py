@@ -21,6 +21,7 @@ and whether any formula is present.
 
 from __future__ import annotations
 
+import io
 import re
 import zipfile
 import zlib
@@ -29,9 +30,14 @@ from pathlib import Path
 
 import openpyxl
 from defusedxml import ElementTree as SafeET
+from openpyxl.utils import get_column_letter, range_boundaries
 
-from ranker.errors import InputError
+from ranker.errors import InputError, Problems
 from ranker.workbook.schema import SHEETS, normalize_sheet_name
+
+#: The hidden sheet where a results workbook keeps its run's state
+#: (``ranker.report.workbook.STATE_SHEET``); a planner's sheet may not take the name.
+STATE_SHEET = "ranker_state"
 
 #: True when openpyxl parses with defusedxml (it does whenever defusedxml is
 #: installed); the entity pre-scan of :func:`check_file` guards either way.
@@ -110,12 +116,20 @@ class _Part:
     merges: list[str] = field(default_factory=list)
     hidden_rows: set[int] = field(default_factory=set)
     hidden_cols: set[int] = field(default_factory=set)
+    #: The last row holding a stored value (None: rows without numbers, so unknown).
+    last_value_row: int | None = 0
+    #: Formula cells saved without a value: {(row, column): formula text}.
+    unsaved: dict[tuple[int, int], str] = field(default_factory=dict)
+    #: Totals rows of spreadsheet tables on the sheet: {row: range of the row}.
+    totals_rows: dict[int, str] = field(default_factory=dict)
 
 
 @dataclass
 class _Preflight:
     warnings: list[str]
     parts: dict[str, _Part]
+    #: The input's bytes, read once: every later stage works from this snapshot.
+    data: bytes = b""
 
 
 def check_file(path: Path, *, limits: Limits = LIMITS) -> list[str]:
@@ -173,26 +187,42 @@ def preflight(path: Path, limits: Limits) -> _Preflight:
         raise fail(path, "file is empty (0 bytes)", "save the workbook again from Excel")
     try:
         with path.open("rb") as fh:
-            head = fh.read(8)
+            data = fh.read(limits.file_bytes + 1)  # the one read of the input's bytes
     except OSError as exc:
         raise fail(
             path,
             f"cannot be opened ({exc.strerror})",
             "close it in other programs and check you may read it",
         ) from None
+    if len(data) > limits.file_bytes:  # it grew while being read
+        raise fail(
+            path,
+            f"file is over the {limits.file_bytes / 1024**2:,.0f} MB limit",
+            "remove unused sheets, pictures and formatting, or split the corridors into two runs",
+        )
+    if not data:
+        raise fail(path, "file is empty (0 bytes)", "save the workbook again from Excel")
+    return preflight_bytes(path, data, limits)
+
+
+def preflight_bytes(path: Path, data: bytes, limits: Limits) -> _Preflight:
+    """Check a snapshot of the input's bytes; ``path`` only names it in messages."""
+    head = data[:8]
     if head == _OLE:
         raise fail(
             path,
             "is password-protected or in the old Excel 97-2003 (.xls) format",
             "remove the password (File > Info > Protect Workbook) and save as Excel Workbook (.xlsx)",
         )
-    if not zipfile.is_zipfile(path):
+    if not zipfile.is_zipfile(io.BytesIO(data)):
         raise fail(path, _not_zip_what(path, head), RESAVE)
     try:
-        with zipfile.ZipFile(path) as zf:
-            return _check_zip(path, zf, limits)
-    except (zipfile.BadZipFile, zlib.error, EOFError):
+        with zipfile.ZipFile(io.BytesIO(data)) as zf:
+            pre = _check_zip(path, zf, limits)
+    except (zipfile.BadZipFile, zlib.error, EOFError, ValueError):
         raise fail(path, "is damaged (the zip container cannot be read)", RESAVE) from None
+    pre.data = data
+    return pre
 
 
 def _not_zip_what(path: Path, head: bytes) -> str:
@@ -254,8 +284,8 @@ def _check_zip(path: Path, zf: zipfile.ZipFile, limits: Limits) -> _Preflight:
             f"{path.name}: the workbook is macro-enabled; its macros were neither run nor kept "
             "(the outputs hold values only)"
         )
-    parts, dupes = _sheet_parts(path, zf, names)
-    return _Preflight(out + dupes, parts)
+    parts = _sheet_parts(path, zf, names)
+    return _Preflight(out, parts)
 
 
 #: Compression methods spreadsheet programs write (zipfile also reads bzip2 and lzma).
@@ -423,36 +453,175 @@ def _xml(path: Path, zf: zipfile.ZipFile, member: str):
 def _sheet_parts(path: Path, zf: zipfile.ZipFile, names: set[str]):
     """Map each contract sheet to its XML part and scan that part cheaply."""
     book = _xml(path, zf, "xl/workbook.xml")
-    targets: dict[str, str] = {}
+    rels: dict[str, tuple[str, str]] = {}
     rels_name = "xl/_rels/workbook.xml.rels"
     if rels_name in names:
         for rel in _xml(path, zf, rels_name).iter(f"{_NS_PKG}Relationship"):
             target = rel.get("Target", "")
             target = target.lstrip("/") if target.startswith("/") else "xl/" + target
-            targets[rel.get("Id", "")] = target
+            rels[rel.get("Id", "")] = (target, rel.get("Type", ""))
     wanted = {normalize_sheet_name(n): n for n in SHEETS}
     parts: dict[str, _Part] = {}
-    dupes: list[str] = []
+    titles: dict[str, list[str]] = {}
+    problems = Problems()
     for sheet in book.iter(f"{_NS_MAIN}sheet"):
         title = sheet.get("name", "")
+        state = sheet.get("state", "visible")
+        if title.strip().lower() == STATE_SHEET and (
+            state != "veryHidden" or title != STATE_SHEET
+        ):
+            problems.add(
+                title,
+                f"a sheet of the workbook is named {title!r}, the name ranker keeps for its own "
+                "hidden record of the last run",
+                "rename that sheet (for example to 'my state')",
+            )
         canon = wanted.get(normalize_sheet_name(title))
-        member = targets.get(sheet.get(f"{_NS_REL}id", ""), "")
-        if canon is None or member not in names:
+        if canon is None:
             continue
-        if canon in parts:
-            dupes.append(
-                f"{title}: the sheet's name also matches {canon}; only the sheet "
-                f"{parts[canon].title!r} was read"
+        titles.setdefault(canon, []).append(title)
+        rel = rels.get(sheet.get(f"{_NS_REL}id", ""), ("", ""))
+        member, kind = rel
+        if kind.endswith("/chartsheet") or "chartsheets/" in member:
+            problems.add(
+                title,
+                "is a chart sheet, not a sheet of cells",
+                f"put the table on an ordinary worksheet named {canon} and give the chart "
+                "sheet another name",
             )
             continue
-        part = _Part(title, member, hidden=sheet.get("state", "visible") != "visible")
+        if member not in names or canon in parts:
+            continue
+        part = _Part(title, member, hidden=state != "visible")
         _scan_sheet(zf.read(member), part)
+        part.totals_rows = _totals_rows(path, zf, names, member)
         parts[canon] = part
-    return parts, dupes
+    for canon, found in titles.items():
+        if len(found) > 1:
+            shown = " and ".join(repr(t) for t in found)
+            problems.add(
+                found[1],
+                f"the sheets {shown} both match the name {canon}, so which one is read would "
+                "depend on the order of the tabs",
+                "delete one of them, or rename it so that it no longer reads as " + canon,
+            )
+    problems.raise_if_any()
+    return parts
+
+
+def _totals_rows(path: Path, zf: zipfile.ZipFile, names: set[str], member: str) -> dict:
+    """Return {row: range} of the totals rows of the spreadsheet tables on one sheet."""
+    folder, _, file = member.rpartition("/")
+    rels_name = f"{folder}/_rels/{file}.rels"
+    if rels_name not in names:
+        return {}
+    out: dict[int, str] = {}
+    for rel in _xml(path, zf, rels_name).iter(f"{_NS_PKG}Relationship"):
+        if not rel.get("Type", "").endswith("/table"):
+            continue
+        target = rel.get("Target", "")
+        target = target.lstrip("/") if target.startswith("/") else _join(folder, target)
+        if target not in names:
+            continue
+        table = _xml(path, zf, target)
+        try:
+            count = int(table.get("totalsRowCount", "0") or 0)
+            c1, r1, c2, r2 = range_boundaries(table.get("ref", ""))
+        except (ValueError, TypeError):
+            continue
+        for row in range(max(r2 - count + 1, r1 + 1), r2 + 1):
+            out[row] = f"{get_column_letter(c1)}{row}:{get_column_letter(c2)}{row}"
+    return out
+
+
+def _join(folder: str, target: str) -> str:
+    """Resolve a relationship target relative to the folder of its source part."""
+    parts = folder.split("/") if folder else []
+    for piece in target.split("/"):
+        if piece == "..":
+            if parts:
+                parts.pop()
+        elif piece and piece != ".":
+            parts.append(piece)
+    return "/".join(parts)
+
+
+_CELL_XML = re.compile(rb"<(?:\w+:)?c\b([^>]*?)(?:/>|>(.*?)</(?:\w+:)?c>)", re.S)
+_CELL_REF = re.compile(rb'\sr="([A-Za-z]{1,3})(\d+)"')
+_F_TEXT = re.compile(rb"<(?:\w+:)?f\b[^>]*?(?:/>|>(.*?)</(?:\w+:)?f>)", re.S)
+_V_TEXT = re.compile(rb"<(?:\w+:)?v\b[^>]*?(?:/>|>(.*?)</(?:\w+:)?v>)", re.S)
+_STR_TYPE = re.compile(rb'\st="str"')
+
+
+def _unsaved_formulas(xml: bytes) -> dict[tuple[int, int], str]:
+    """Find the formula cells stored without a value (``<f>`` and no or an empty ``<v>``).
+
+    An empty ``<v>`` of a text cell (``t="str"``) is a saved empty result.
+
+    One regular-expression pass over the sheet's XML, instead of a second
+    parse of every row.
+    """
+    from html import unescape
+
+    from openpyxl.utils import column_index_from_string
+
+    out: dict[tuple[int, int], str] = {}
+    for m in _CELL_XML.finditer(xml):
+        body = m.group(2)
+        if not body or b"<" not in body:
+            continue
+        f = _F_TEXT.search(body)
+        if f is None:
+            continue
+        v = _V_TEXT.search(body)
+        if v is not None and (v.group(1) or _STR_TYPE.search(m.group(1))):
+            continue  # a saved value, or a saved empty text result
+        ref = _CELL_REF.search(m.group(1))
+        if ref is None:
+            continue
+        text = unescape((f.group(1) or b"").decode("utf-8", "replace")).strip()
+        pos = (int(ref.group(2)), column_index_from_string(ref.group(1).decode().upper()))
+        out[pos] = f"={text}" if text else "(a shared formula)"
+    return out
+
+
+#: A row's number, or a stored value (a ``<v>`` with content, or an inline string).
+ROW_OR_VALUE = re.compile(rb"<(?:\w+:)?row\b([^>]*)>|<(?:\w+:)?v(?:\s[^>]*)?>[^<]|<(?:\w+:)?is>")
+_ROW_NUMBER = re.compile(rb'\sr="(\d+)"')
+
+
+def last_value_row(chunks) -> int | None:
+    """Return the last row of a sheet's XML that holds a stored value (0 for none).
+
+    ``chunks`` is an iterable of byte strings read in order (a whole part may
+    be one chunk). None when a row before a value carries no number, so the
+    answer cannot be told without parsing. Empty cells (formatted only) and
+    formulas whose saved result is empty text hold no value.
+    """
+    row: int | None = 0
+    last: int | None = 0
+    block = b""
+    for chunk in [*chunks, b""]:
+        block += chunk
+        # Near the end of a chunk a tag may be cut; it is matched with the next one.
+        stop = len(block) if not chunk else max(0, len(block) - 256)
+        end = 0
+        for m in ROW_OR_VALUE.finditer(block, 0, stop):
+            end = m.end()
+            if m.group(1) is not None:
+                n = _ROW_NUMBER.search(m.group(1))
+                row = int(n.group(1)) if n else None
+            else:
+                last = row
+        block = block[max(end, stop - 256, 0) :]
+    return last
 
 
 def _scan_sheet(xml: bytes, part: _Part) -> None:
     part.has_formulas = _FORMULA.search(xml) is not None
+    part.last_value_row = last_value_row([xml])
+    if part.has_formulas:
+        part.unsaved = _unsaved_formulas(xml)
     part.merges = [m.group(1).decode().upper() for m in _MERGE.finditer(xml)]
     for m in _ROW_TAG.finditer(xml):
         attrs = dict(_ATTR.findall(m.group(0)))
@@ -461,5 +630,8 @@ def _scan_sheet(xml: bytes, part: _Part) -> None:
     for m in _COL_TAG.finditer(xml):
         attrs = dict(_ATTR.findall(m.group(0)))
         if attrs.get(b"hidden") in (b"1", b"true"):
-            lo, hi = int(attrs.get(b"min", b"0") or 0), int(attrs.get(b"max", b"0") or 0)
-            part.hidden_cols.update(range(lo, min(hi, 16384) + 1))
+            try:
+                lo, hi = int(attrs.get(b"min", b"0") or 0), int(attrs.get(b"max", b"0") or 0)
+            except ValueError:  # a malformed column attribute hides nothing we can name
+                continue
+            part.hidden_cols.update(range(max(lo, 1), min(hi, 16384) + 1))

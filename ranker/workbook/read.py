@@ -14,13 +14,17 @@ Two public entry points:
   Every problem found is collected, sorted by sheet, row and column, and
   raised together as one :class:`~ranker.errors.InputError`.
 
-The file is only ever opened for reading. Macros in ``.xlsm`` files are
+The file is opened once, for reading: its bytes are read into memory
+(:attr:`Inputs.snapshot`), hashed, and every later step (the sheets, the
+results workbook's copy of them) works from that snapshot, so a file replaced
+during a run cannot mix two versions. Macros in ``.xlsm`` files are
 neither run nor kept (``keep_vba=False``).
 """
 
 from __future__ import annotations
 
 import hashlib
+import io
 import re
 import warnings
 from pathlib import Path
@@ -30,6 +34,7 @@ import pandas as pd
 from openpyxl.utils import column_index_from_string, get_column_letter, range_boundaries
 
 from ranker.errors import InputError, Problems
+from ranker.workbook import places as _places
 from ranker.workbook import sheets as _sheets
 from ranker.workbook import tables as T
 from ranker.workbook.criteria import read_criteria, read_pairwise
@@ -45,6 +50,10 @@ from ranker.workbook.preflight import (
 from ranker.workbook.schema import SHEETS
 from ranker.workbook.tables import Inputs
 from ranker.workbook.units import nearest
+
+#: The longest text a spreadsheet cell holds [characters] (Microsoft, "Excel
+#: specifications and limits": 32,767 characters per cell).
+CELL_CHARS = 32_767
 
 
 def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
@@ -76,9 +85,8 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     112.5
     """
     path = Path(path)
-    pre = preflight(path, limits)
-    data = path.read_bytes()
-    sha = hashlib.sha256(data).hexdigest()
+    pre = preflight(path, limits)  # reads the file's bytes once; all else uses pre.data
+    sha = hashlib.sha256(pre.data).hexdigest()
     problems = Problems()
     grids, sheet_names = _load_grids(path, pre, limits, problems)
     for name, schema in SHEETS.items():
@@ -95,6 +103,7 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     problems.raise_if_any()
     inputs.path = path
     inputs.sha256 = sha
+    inputs.snapshot = pre.data
     inputs.sheet_names = sheet_names
     inputs.warnings = warn
     return inputs
@@ -122,7 +131,11 @@ def _load_grids(path, pre, limits, problems):
         warnings.simplefilter("ignore")
         try:
             wb = openpyxl.load_workbook(
-                path, read_only=True, data_only=True, keep_vba=False, keep_links=False
+                io.BytesIO(pre.data),
+                read_only=True,
+                data_only=True,
+                keep_vba=False,
+                keep_links=False,
             )
         except Exception as exc:  # noqa: BLE001 - any fault while parsing is the file's fault
             raise _unreadable(path, exc) from None
@@ -138,12 +151,19 @@ def _load_grids(path, pre, limits, problems):
             raise _unreadable(path, exc) from None
         finally:
             wb.close()
-        if any(p.has_formulas for c, p in pre.parts.items() if c in grids):
-            _formula_pass(path, pre, grids, limits)
+        for canon, grid in grids.items():  # formulas stored without a value (preflight)
+            for (r, col), text in sorted(pre.parts[canon].unsaved.items()):
+                if r <= limits.rows and grid.get(r, col) is None:
+                    if (r, col) not in grid.empty_results:
+                        grid.mark_unsaved(r, col, text)
     for canon, grid in grids.items():
         part = pre.parts[canon]
         _merge_problems(grid, part, problems)
-        if part.hidden:
+        for _row, span in sorted(part.totals_rows.items()):
+            pre.warnings.append(
+                f"{canon}!{span}: the totals row of a spreadsheet table; it was not read as data"
+            )
+        if part.hidden and canon != T.GEOMETRY:  # template --from hides the point list
             pre.warnings.append(f"{canon}: the sheet is hidden; it was read all the same")
         rows = sorted(r for r in part.hidden_rows if r in grid.data_rows)
         if rows:
@@ -171,8 +191,18 @@ def _unreadable(path: Path, exc: Exception) -> InputError:
 def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
     ws.reset_dimensions()  # a stale <dimension> must not hide rows
     grid = _sheets.Grid(canon)
+    last = part.last_value_row  # from one search of the XML: rows past it hold no value
+    if last is not None and last > limits.rows:
+        raise InputError.one(
+            canon,
+            f"has data beyond row {limits.rows:,}, over the limit of {limits.rows:,} rows",
+            "split the data into two workbooks or remove unused rows",
+        )
+    # Only rows up to the last value are parsed: a formula filled down to row 1,048,576
+    # with empty results, or formatting far below the table, costs no time here.
+    stop = limits.rows + 1 if last is None else max(last, 1)
     try:
-        for r, row in enumerate(ws.iter_rows(), start=1):
+        for r, row in enumerate(ws.iter_rows(max_row=stop), start=1):
             if r > limits.rows:
                 if any(getattr(c, "value", None) is not None for c in row):
                     raise InputError.one(
@@ -181,6 +211,8 @@ def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
                         f"{limits.rows:,} rows",
                         "split the data into two workbooks or remove unused rows",
                     )
+                continue
+            if r in part.totals_rows:  # a spreadsheet table's totals row is no data
                 continue
             cells = {}
             for c in row:
@@ -196,6 +228,13 @@ def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
                         f"{limits.columns} columns",
                         "remove the columns past the limit",
                     )
+                if isinstance(value, str) and len(value) > CELL_CHARS:
+                    problems.add(
+                        f"{canon}!{get_column_letter(c.column)}{r}",
+                        f"holds {len(value):,} characters, more than the {CELL_CHARS:,} a "
+                        "spreadsheet cell can hold",
+                        "shorten the text (keep long notes on a sheet of your own)",
+                    )
                 pct = c.data_type == "n" and "%" in (c.number_format or "")
                 cells[c.column] = _sheets.Cell(value, c.data_type, pct)
             grid.add(r, cells)
@@ -209,35 +248,6 @@ def _read_grid(path, ws, canon, part, limits, problems) -> _sheets.Grid | None:
         )
         return None
     return grid
-
-
-def _formula_pass(path, pre, grids, limits) -> None:
-    """Name every formula cell whose value was never saved."""
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        wb = openpyxl.load_workbook(
-            path, read_only=True, data_only=False, keep_vba=False, keep_links=False
-        )
-        try:
-            for canon, grid in grids.items():
-                part = pre.parts[canon]
-                if not part.has_formulas:
-                    continue
-                ws = wb[part.title]
-                ws.reset_dimensions()
-                for r, row in enumerate(ws.iter_rows(), start=1):
-                    if r > limits.rows:
-                        break
-                    for c in row:
-                        v = getattr(c, "value", None)
-                        text = getattr(v, "text", v)
-                        if not (isinstance(text, str) and text.startswith("=")):
-                            continue
-                        pos = (r, c.column)
-                        if grid.get(*pos) is None and pos not in grid.empty_results:
-                            grid.mark_unsaved(r, c.column, text)
-        finally:
-            wb.close()
 
 
 def _merge_problems(grid, part, problems) -> None:
@@ -261,7 +271,10 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
     tables: dict[str, _sheets.Table] = {}
     for name, grid in grids.items():
         if SHEETS[name].layout == "table":
-            tables[name] = _sheets.read_header(grid, problems)
+            table = _sheets.read_header(grid, problems)
+            if table.misplaced:  # one problem says where the headers are; read no further
+                continue
+            tables[name] = table
             inputs.columns[name] = dict(tables[name].letters)
     # Where Corridors cannot be read, criteria keys and corridor ids are not cross-checked
     # (numeric is None), so one missing sheet or header does not echo through the others.
@@ -297,6 +310,8 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
         )
     if T.BUDGET in tables:
         inputs.budget = _sheets.read_by_year(tables[T.BUDGET], problems, inputs, "capital_usd")
+    if inputs.budget is not None and T.BUDGET in tables:
+        _budget_before_start(inputs, tables[T.BUDGET], warnings)
     if T.SCENARIOS in tables:
         inputs.scenarios = _sheets.read_scenarios(tables[T.SCENARIOS], problems, inputs)
     if T.CRITERIA in tables:
@@ -311,9 +326,36 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
         )
     if T.PAIRWISE in grids and T.CRITERIA in tables:
         inputs.pairwise = read_pairwise(grids[T.PAIRWISE], problems, inputs)
+    if T.PLACES in tables:
+        inputs.places = _places.read_places(tables[T.PLACES], problems, inputs)
+        if inputs.places is not None and T.CORRIDORS in tables:
+            _places.check_connects_places(tables[T.CORRIDORS], inputs.places, problems)
+    if T.GEOMETRY in tables:
+        inputs.geometry = _places.read_geometry(tables[T.GEOMETRY], problems, inputs, corridors)
     for grid in grids.values():
         _sheets.formula_outside(grid, problems)
     return inputs
+
+
+def _budget_before_start(inputs: Inputs, table, warnings: list[str]) -> None:
+    """Warn about budget years before the analysis year (money the plan cannot spend then)."""
+    from ranker.assumptions import ASSUMPTIONS
+
+    start = inputs.assumptions.get("analysis_year", ASSUMPTIONS["analysis_year"].default)
+    rows = inputs.rows.get(T.BUDGET, {})
+    early = [
+        (int(y), rows.get(i))
+        for i, y in enumerate(inputs.budget["year"])
+        if y == y and y is not None and int(y) < int(start)
+    ]
+    if early and "year" in table.cols:
+        places = ", ".join(table.where("year", r) for _, r in early[:5] if r is not None)
+        years = ", ".join(str(y) for y, _ in early[:5])
+        warnings.append(
+            f"{places}: budget year(s) {years} come before analysis_year {int(start)}; the "
+            "build plan still spends that money, in those years; check the years, or set "
+            "analysis_year on the Assumptions sheet"
+        )
 
 
 __all__ = ["DEFUSED", "LIMITS", "Limits", "check_file", "read_workbook"]

@@ -441,6 +441,85 @@ SCENARIO_FIELDS = (
     _f("note", "", "text", False, "Optional remark.", width=40),
 )
 
+PLACE_FIELDS = (
+    _f(
+        "place",
+        "",
+        "text",
+        True,
+        "Short unique name of the place, as the connects column of Corridors writes it "
+        "(for example Northport).",
+        width=22,
+    ),
+    _f("name", "", "text", False, "Optional. Name shown on the map; blank: the place.", width=28),
+    _f(
+        "lat",
+        "[deg]",
+        "number",
+        True,
+        "Latitude, WGS 84, in decimal degrees north (south is negative) [deg].",
+        number_format="0.00000",
+        width=12,
+        low=-90.0,
+        high=90.0,
+    ),
+    _f(
+        "lon",
+        "[deg]",
+        "number",
+        True,
+        "Longitude, WGS 84, in decimal degrees east (west is negative) [deg].",
+        number_format="0.00000",
+        width=12,
+        low=-180.0,
+        high=180.0,
+    ),
+)
+
+GEOMETRY_FIELDS = (
+    _f(
+        "corridor_id",
+        "",
+        "text",
+        True,
+        "The corridor this point of its line belongs to (a corridor_id of Corridors).",
+        width=12,
+    ),
+    _f(
+        "part",
+        "",
+        "int",
+        True,
+        "Part of the corridor's line, 1 for a single line; a line in several pieces counts "
+        "them 1, 2, ...",
+        number_format="0",
+        width=8,
+        low=1,
+    ),
+    _f(
+        "lon",
+        "[deg]",
+        "number",
+        True,
+        "Longitude of the point, WGS 84 [deg]. Points of a part follow in the order of the rows.",
+        number_format="0.000000",
+        width=13,
+        low=-180.0,
+        high=180.0,
+    ),
+    _f(
+        "lat",
+        "[deg]",
+        "number",
+        True,
+        "Latitude of the point, WGS 84 [deg].",
+        number_format="0.000000",
+        width=13,
+        low=-90.0,
+        high=90.0,
+    ),
+)
+
 #: Every contract sheet, in contract order.
 SHEETS: dict[str, SheetSchema] = {
     s.name: s
@@ -505,6 +584,20 @@ SHEETS: dict[str, SheetSchema] = {
             "Alternative assumption values; the order is re-derived and "
             "re-ranked under each scenario.",
             SCENARIO_FIELDS,
+        ),
+        SheetSchema(
+            _t.PLACES,
+            False,
+            "Where the places named in connects lie (latitude and longitude, WGS 84); "
+            "yields the network map and a GeoJSON file of the results.",
+            PLACE_FIELDS,
+        ),
+        SheetSchema(
+            _t.GEOMETRY,
+            False,
+            "The corridors' lines as drawn in a GIS, one row per point (filled by "
+            "ranker template --from, and hidden there); blank: straight lines between places.",
+            GEOMETRY_FIELDS,
         ),
     )
 }

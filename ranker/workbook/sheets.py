@@ -10,6 +10,7 @@ The Criteria sheet and the Pairwise matrix are in :mod:`ranker.workbook.criteria
 
 from __future__ import annotations
 
+import datetime as _dt
 from dataclasses import dataclass, field
 
 import pandas as pd
@@ -97,6 +98,13 @@ def parse_cell(f: S.Field, cell: Cell, *, percent: str | None = None) -> object:
     """Parse a cell for field ``f`` (kinds text/number/int/choice/bool)."""
     value = raw(cell)
     if f.kind == "text":
+        if isinstance(value, (_dt.datetime, _dt.date, _dt.time, _dt.timedelta)):
+            # "3-12" or "1/2" typed into a General cell becomes a date; the text is lost.
+            raise CellValueError(
+                f"holds {U.show(value)}: the spreadsheet turned what was typed into a date or "
+                "time",
+                "format the column as Text (Home > Number > Text) and type the value again",
+            )
         return U.parse_text(value)
     if f.kind == "bool":
         return U.parse_bool(value)
@@ -146,6 +154,8 @@ class Table:
     letters: dict[str, str] = field(default_factory=dict)
     factor: dict[str, float] = field(default_factory=dict)
     extra: dict[str, int] = field(default_factory=dict)
+    #: True when the headers stand in a later row than row 1 (a title above them).
+    misplaced: bool = False
 
     @property
     def rows(self) -> list[int]:
@@ -168,6 +178,16 @@ def read_header(grid: Grid, problems: Problems) -> Table:
     known = {f.key: f for f in sch.fields}
     twins = {f.twin: f for f in sch.fields if f.twin}
     t = Table(grid.sheet, grid)
+    lower = _headers_below(grid, sch)
+    if lower is not None:
+        t.misplaced = True
+        problems.add(
+            f"{grid.sheet}!{lower}:{lower}",
+            f"the headers stand in row {lower}, not in row 1",
+            "delete the row(s) above them (a title or a blank row) so the headers are in "
+            "row 1, or move the title to a sheet of its own",
+        )
+        return t
     seen: dict[str, int] = {}
     for col, cell in sorted(grid.header.items()):
         try:
@@ -203,6 +223,15 @@ def read_header(grid: Grid, problems: Problems) -> Table:
             t.letters[canon] = letter
         else:
             t.extra[key] = col
+    for r, row in sorted(grid.rows.items()):
+        for col in sorted(set(row) - set(grid.header)):
+            cell = row[col]
+            shown = U.show(cell.value) if cell.kind not in "fe" else "a formula"
+            problems.add(
+                ref(grid.sheet, col, r),
+                f"holds {shown} in a column with no header in row 1",
+                "clear the cell, or head its column with a field name in row 1",
+            )
     if grid.rows or sch.required:
         for f in sch.fields:
             if f.required and f.key not in t.cols:
@@ -213,6 +242,26 @@ def read_header(grid: Grid, problems: Problems) -> Table:
                     fix = f"rename the header {hint} to {f.key}, or {fix}"
                 problems.add(f"{grid.sheet}!1:1", f"no column headed {f.key}", fix)
     return t
+
+
+def _headers_below(grid: Grid, sch) -> int | None:
+    """Return the row holding the sheet's required headers when it is not row 1."""
+    required = {f.key for f in sch.fields if f.required}
+
+    def keys(cells) -> set[str]:
+        out = set()
+        for cell in cells.values():
+            if isinstance(cell.value, str):
+                out.add(S.normalize_key(cell.value))
+        return out
+
+    if not required or required <= keys(grid.header):
+        return None
+    for r in sorted(grid.rows)[:5]:
+        found = keys(grid.rows[r])
+        if required <= found or len(required & found) >= 2:
+            return r
+    return None
 
 
 def read_records(t: Table, problems: Problems, *, skip: tuple[str, ...] = ()) -> list[dict]:
@@ -313,6 +362,9 @@ def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
                 continue
             try:
                 vals.append(U.parse_number(raw(cell), percent="share", pct_format=cell.pct))
+            except U.TooLarge as exc:  # a number all the same: name its cell, not the column
+                problems.add(ref(t.sheet, col, rec["_row"]), f"{key} {exc.what}", exc.fix)
+                vals.append(float("nan"))
             except CellValueError as exc:
                 bad = bad or (ref(t.sheet, col, rec["_row"]), exc)
                 vals.append(None)

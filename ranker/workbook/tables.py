@@ -22,6 +22,8 @@ ADOPTION = "Adoption"
 PAIRWISE = "Pairwise"
 BUDGET = "Budget"
 SCENARIOS = "Scenarios"
+PLACES = "Places"
+GEOMETRY = "Geometry"
 
 
 @dataclass(frozen=True)
@@ -120,6 +122,12 @@ class Inputs:
         Columns ``year`` (int), ``capital_usd`` [USD].
     scenarios : DataFrame or None
         Columns ``scenario``, ``key``, ``value`` (typed like the assumption).
+    places : DataFrame or None
+        Index ``place`` (as typed); columns ``name``, ``lat`` and ``lon``
+        [degrees, WGS 84].
+    geometry : dict or None
+        Corridor id to its line: a list of parts, each a list of
+        ``(lon, lat)`` points [degrees, WGS 84], from the ``Geometry`` sheet.
     columns : dict
         Sheet name to {field key: column letter}, for messages.
     rows : dict
@@ -129,6 +137,10 @@ class Inputs:
         Every sheet of the workbook in order, ours and the planner's.
     warnings : list of str
         Doubtful but legal input; these reach the outputs.
+    snapshot : bytes
+        The file's bytes as read once (``sha256`` is their digest); the
+        results workbook copies the input sheets from these, never from the
+        file again.
     """
 
     path: Path
@@ -143,10 +155,13 @@ class Inputs:
     pairwise: pd.DataFrame | None = None
     budget: pd.DataFrame | None = None
     scenarios: pd.DataFrame | None = None
+    places: pd.DataFrame | None = None
+    geometry: dict[str, list[list[tuple[float, float]]]] | None = None
     columns: dict[str, dict[str, str]] = field(default_factory=dict)
     rows: dict[str, dict[object, int]] = field(default_factory=dict)
     sheet_names: list[str] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
+    snapshot: bytes = field(default=b"", repr=False)
 
     @property
     def included(self) -> list[CriterionSpec]:

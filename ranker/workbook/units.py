@@ -48,6 +48,8 @@ _FALSE = frozenset({"no", "n", "false", "0"})
 
 # 1,234,567.89 -- commas only as thousands separators
 _GROUPED = re.compile(r"^\d{1,3}(,\d{3})+(\.\d*)?$")
+# 5.200 or 1.200.000 -- points as thousands separators (typed or pasted as text)
+_DOT_GROUPED = re.compile(r"^[1-9]\d{0,2}(\.\d{3})+$")
 _PLAIN = re.compile(r"^(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$")
 _UNIT_AFTER = re.compile(r"^[\d.,]+\s*[A-Za-z/%°]+[A-Za-z/]*$")
 
@@ -67,6 +69,10 @@ class CellValueError(ValueError):
         super().__init__(f"{what}; {fix}")
         self.what = what
         self.fix = fix
+
+
+class TooLarge(CellValueError):
+    """A number beyond :data:`LARGEST` in size: wrong whatever the field."""
 
 
 def is_blank(value: object) -> bool:
@@ -92,11 +98,24 @@ def _date_error(value: object) -> CellValueError:
     )
 
 
+#: The largest magnitude any input number may have [-]. Far above any quantity a
+#: corridor plan uses (1e15 USD is ten times the world's yearly output), and far
+#: enough below the float limit (about 1.8e308) that sums, squares and
+#: normalisations of a few thousand such numbers stay finite and exact enough.
+LARGEST = 1e15
+
+
 def _finite(x: float, value: object) -> float:
     if not math.isfinite(x):
         raise CellValueError(
             f"holds {show(value)}, which is not a finite number",
             "type an ordinary number",
+        )
+    if abs(x) > LARGEST:
+        raise TooLarge(
+            f"holds {show(value)}, larger than any quantity a corridor plan uses (the limit "
+            f"is {LARGEST:.0e} in size), so the arithmetic could overflow",
+            "check the value and its unit, and type it in the unit the header names",
         )
     return float(x)
 
@@ -154,6 +173,13 @@ def parse_number(
         x = _finite(float(value), value)
         if pct_format and percent == "points":
             return x * 100.0
+        if pct_format and percent == "reject":
+            # The planner sees 50 % where 0.5 is stored; neither reading is safe.
+            raise CellValueError(
+                f"is formatted as a percentage, so it shows {x * 100:g}% while the value "
+                f"stored is {x:g}, but this field is in {unit or 'its own unit'}",
+                f"format the cell as Number and type the value in {unit or 'the unit the header names'}",
+            )
         return x
     if not isinstance(value, str):
         raise CellValueError(f"holds {show(value)} where a number belongs", "type a number")
@@ -209,6 +235,18 @@ def _parse_text_number(value: str, *, percent: str, fraction: bool, unit: str) -
 def _parse_decimal(text: str, value: str, unit: str) -> float:
     if _GROUPED.match(text):
         return float(text.replace(",", ""))
+    if _DOT_GROUPED.match(text):  # 5.200: 5.2 here, 5,200 where a point groups thousands
+        whole = text.replace(".", "")
+        if text.count(".") > 1:
+            raise CellValueError(
+                f"holds the text {show(value)}, with points as thousands separators",
+                f"type the number without separators, such as {whole}",
+            )
+        raise CellValueError(
+            f"holds the text {show(value)}, which reads as {float(text):g} with a decimal "
+            f"point but as {whole} where a point separates thousands",
+            f"type the number without separators, such as {whole} or {float(text):g}",
+        )
     if _PLAIN.match(text):
         return float(text)
     if re.match(r"^\d+,\d{1,2}$", text) or re.match(r"^\d{1,3}(\.\d{3})+,\d+$", text):
@@ -258,7 +296,16 @@ def parse_int(value: object, *, unit: str = "") -> int:
     --------
     >>> parse_int("2,030")
     2030
+    >>> parse_int("2,030", unit="[year]")
+    Traceback (most recent call last):
+    ...
+    ranker.workbook.units.CellValueError: holds the text '2,030' ...
     """
+    if unit == "[year]" and isinstance(value, str) and re.search(r"\d[,.\s]\d", value.strip()):
+        raise CellValueError(
+            f"holds the text {show(value)}; a year is written without separators",
+            "type the year as a plain number, such as 2030",
+        )
     x = parse_number(value, unit=unit)
     if x != math.floor(x):
         raise CellValueError(

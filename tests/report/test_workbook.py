@@ -24,12 +24,35 @@ def _planner_workbook(workbooks, tmp_path):
     wb["Corridors"]["B2"].comment = Comment("checked with the district office", "planner")
     wb["Corridors"]["B2"].font = Font(italic=True)
     wb.save(path)
+    # B2 a formula never calculated; C2 one saved as a spreadsheet program saves it.
+    _set_cell_xml(
+        path, "Board notes", "B2", '<c r="B2"><f>1+2</f></c><c r="C2"><f>2*2</f><v>4</v></c>'
+    )
     return path
+
+
+def _set_cell_xml(path, title, coord, xml):
+    """Replace one cell's XML in the sheet ``title`` (openpyxl numbers sheet parts in order)."""
+    import io
+    import re
+    import zipfile
+
+    member = f"xl/worksheets/sheet{load_workbook(path).sheetnames.index(title) + 1}.xml"
+    cell = re.compile(rb'<c r="' + coord.encode() + rb'"[^>]*?(?:/>|>.*?</c>)', re.S)
+    out = io.BytesIO()
+    with zipfile.ZipFile(path) as zin, zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename == member:
+                data, n = cell.subn(xml.encode(), data, count=1)
+                assert n == 1
+            zout.writestr(info, data)
+    path.write_bytes(out.getvalue())
 
 
 def test_input_sheets_kept_exactly(workbooks, tmp_path):
     path = _planner_workbook(workbooks, tmp_path)
-    before = load_workbook(path)
+    before = load_workbook(path, data_only=True)  # formulas as the values saved with them
     result = ranker.rank_workbook(path, samples=0)
     out = load_workbook(ranker.write_outputs(result, tmp_path)["workbook"])
     for name in before.sheetnames:
@@ -37,7 +60,13 @@ def test_input_sheets_kept_exactly(workbooks, tmp_path):
         assert [[c.value for c in row] for row in a.iter_rows()] == [
             [c.value for c in row] for row in b.iter_rows()
         ], name
-    assert out["Board notes"]["B2"].value == "=1+2"
+    # Values, never formulas: the saved value where there is one, empty where none was saved.
+    assert out["Board notes"]["C2"].value == 4 and out["Board notes"]["C2"].data_type == "n"
+    assert out["Board notes"]["B2"].value is None
+    assert not any(
+        c.data_type == "f" for name in before.sheetnames for c in out[name]._cells.values()
+    )
+    assert any("formula cell(s)" in w for w in result.warnings)
     assert (
         out["Board notes"]["A1"].font.bold
         and out["Board notes"]["A1"].font.color.rgb == "00FF0000"

@@ -65,18 +65,20 @@ def _hardening():
         package = importlib.util.module_from_spec(spec)
         sys.modules[name] = package
         spec.loader.exec_module(package)
-    return tuple(importlib.import_module(f"{name}.{m}") for m in ("cases", "hostile", "_cli"))
+    return tuple(
+        importlib.import_module(f"{name}.{m}") for m in ("cases", "hostile", "_cli", "odd")
+    )
 
 
 def end_to_end() -> tuple[list, list]:
     """The end-to-end cases and hostile files whose behaviour is settled (no known bug)."""
-    cases, hostile, _ = _hardening()
+    cases, hostile, _, _ = _hardening()
     return [s for s in cases.STAGES if not s.bug], [s for s in hostile.HOSTILE if not s.bug]
 
 
 def _run_messages(entries) -> list[tuple[str, str, int, list[str], bool]]:
     """Run each entry through ``ranker run``; keep what the planner reads on the terminal."""
-    _, _, cli = _hardening()
+    cli = _hardening()[2]
     out = []
     with tempfile.TemporaryDirectory() as tmp:
         for entry in entries:
@@ -94,8 +96,44 @@ def _run_messages(entries) -> list[tuple[str, str, int, list[str], bool]]:
             else:
                 lines = [f"warning: {w}" for w in outcome.warnings if entry.says in w]
             lines = [line.replace(str(folder), "<folder>") for line in lines]
-            out.append((entry.name, entry.about, outcome.code, lines, bool(entry.check_bug)))
+            run_only = bool(getattr(entry, "check_bug", ""))
+            out.append((entry.name, entry.about, outcome.code, lines, run_only))
     return out
+
+
+def _valid_input(folder: Path):
+    from .wbfill import valid_sheets, write_book
+
+    return write_book(folder / "input.xlsx", valid_sheets()), []
+
+
+def _odd_lines() -> list[str]:
+    """The policy of each class of odd workbook, then its cases and what each gets."""
+    odd = _hardening()[3]
+    entries = {e[0]: e for e in _run_messages(odd.ODD)}
+    # What the valid input itself says (samples off, an extrapolated adoption path) is left
+    # out, so each entry shows what its own oddity makes the tool say.
+    base = _run_messages([odd.Odd("valid", 0, "", _valid_input, 0, "", "", 0)])[0][3]
+    lines = [
+        "## Odd and hostile workbooks, by class",
+        "",
+        "Each class has one policy; the cases under it (built in `tests/hardening/odd.py` "
+        "and run end to end by `tests/hardening/test_odd.py`) show what the planner sees. "
+        "A run that succeeds writes a results workbook with no formula or defined name "
+        "from the input, and that workbook runs again.",
+        "",
+    ]
+    for klass, (title, policy) in odd.CLASSES.items():
+        cases = [c for c in odd.ODD if c.klass == klass]
+        lines += [f"### {klass}. {title} ({len(cases)} cases)", "", policy, ""]
+        for c in cases:
+            name, about, code, msgs, _ = entries[c.name]
+            if code == 0:
+                msgs = [m for m in msgs if m not in base] or ["(it runs as the valid input does)"]
+            lines += _entry_lines(name, about, code, msgs, False)
+            if c.check != c.code:
+                lines[-5] += " `ranker check` passes it: only the run meets it."
+    return lines
 
 
 def _entry_lines(name: str, about: str, code: int, msgs: list[str], run_only: bool) -> list[str]:
@@ -162,8 +200,12 @@ def render() -> str:
         "`_` and a trailing `[unit]` is ignored (`Length_mi [mi]` is `length_mi`).",
         "- Rows that are entirely blank are skipped. Text is stripped of surrounding spaces.",
         "- Numbers may carry thousands commas (`1,200`), a dollar sign (`$52,000`, `USD 52,000`), "
-        "a minus sign or accounting brackets (`(1,200)`). A comma as decimal mark, a unit typed "
-        "after the number, another currency, `NaN`, `inf`, TRUE/FALSE and dates are errors.",
+        "a minus sign or accounting brackets (`(1,200)`). A comma as decimal mark, points "
+        "between thousands (`5.200`), a unit typed after the number, another currency, `NaN`, "
+        "`inf`, TRUE/FALSE, dates and durations are errors, and so is any number larger than "
+        "1e15 in size. A cell formatted as a percentage is an error in a field with a unit of "
+        "its own. A year is a plain number (`2,030` is an error). A date in a text field "
+        "(an id the spreadsheet turned into a date) is an error.",
         "- yes/no fields take yes, no, y, n, true, false, 1 and 0 in any case.",
         "- A formula is read through the value the spreadsheet program saved with it; a formula "
         "that was never calculated (written by another program) is an error, as is a saved "
@@ -248,6 +290,7 @@ def render() -> str:
     ]
     for entry in _run_messages(hostile):
         lines += _entry_lines(*entry)
+    lines += _odd_lines()
     lines += [
         "## Output files",
         "",
@@ -259,6 +302,14 @@ def render() -> str:
         "- An existing file named like an output is replaced only when ranker wrote it (it "
         "carries ranker's marker); otherwise the run stops with exit code 2 and leaves it "
         "as it is, and the other output as well.",
+        "- The input's bytes are read once; the results workbook's copy of the input sheets, "
+        "the ranking, the justification sheet and the SHA-256 they show all come from those "
+        "bytes. The copy carries values only: no formula, defined name, macro or external "
+        "link of the input, with a warning saying what was converted or left out.",
+        "- An internal error (exit code 1) writes its log to a new file, readable by the user "
+        "only, in `$XDG_STATE_HOME/ranker` (default `~/.local/state/ranker`, a folder only "
+        "the user can write) and names it. SIGTERM stops a run as Ctrl-C does (exit code "
+        "143), leaving no temporary file or backup beside the outputs.",
         "- The input workbook is only read; macros are never copied into the outputs, and text "
         "that a spreadsheet would take for a formula (starting with `=`, `+`, `-`, `@`, a tab "
         "or a carriage return) is written as text.",

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from .corpus import CASES
-from .make_error_doc import DOC, end_to_end, render
+from .make_error_doc import DOC, _hardening, end_to_end, render
 
 
 def test_error_doc_matches_corpus():
@@ -17,3 +17,8 @@ def test_error_doc_matches_corpus():
     assert len(stages) >= 20 and len(hostile) >= 15
     for entry in [*stages, *hostile]:
         assert f"(`{entry.name}`)" in text
+    odd = _hardening()[3]
+    for case in odd.ODD:
+        assert f"(`{case.name}`)" in text
+    for title, _ in odd.CLASSES.values():
+        assert title in text

@@ -36,12 +36,16 @@ CONTRACT = {
     "Pairwise": [],
     "Budget": ["year", "capital_usd"],
     "Scenarios": ["scenario", "key", "value"],
+    "Places": ["place", "name", "lat", "lon"],
 }
+# Sheets the contract does not pin, documented in docs/guide.md: the corridors' lines as a
+# GIS drew them (written, hidden, by ``ranker template --from``).
+DOCUMENTED = {"Geometry": ["corridor_id", "part", "lon", "lat"]}
 
 
 def test_sheets_follow_the_contract():
-    assert list(S.SHEETS) == list(CONTRACT)
-    for name, keys in CONTRACT.items():
+    assert list(S.SHEETS) == list(CONTRACT) + list(DOCUMENTED)
+    for name, keys in {**CONTRACT, **DOCUMENTED}.items():
         assert set(keys) <= set(S.SHEETS[name].keys), name
     assert [n for n, s in S.SHEETS.items() if s.required] == ["Corridors", "Criteria"]
 

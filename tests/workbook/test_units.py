@@ -78,9 +78,23 @@ def test_thousands_and_dollars_round_trip(x):
 
 
 @settings(max_examples=200, deadline=None)
-@given(st.floats(allow_nan=False, allow_infinity=False))
+@given(st.floats(min_value=-U.LARGEST, max_value=U.LARGEST, allow_nan=False))
 def test_repr_round_trips_exactly(x):
+    if U._DOT_GROUPED.match(repr(abs(x))):  # 1.375 is also how 1375 is written elsewhere
+        with pytest.raises(U.CellValueError, match="separates thousands"):
+            U.parse_number(repr(x))
+        return
     assert U.parse_number(repr(x)) == x
+
+
+@settings(max_examples=100, deadline=None)
+@given(st.floats(allow_nan=False, allow_infinity=False).filter(lambda x: abs(x) > U.LARGEST))
+def test_numbers_beyond_the_largest_are_refused(x):
+    """1e200 in a criterion or 1e308 as a weight would overflow the arithmetic (squares,
+    sums of thousands of values), so no field takes a number larger than LARGEST."""
+    for value in (x, repr(x)):
+        with pytest.raises(U.CellValueError, match="larger than any quantity"):
+            U.parse_number(value)
 
 
 @settings(max_examples=200, deadline=None)

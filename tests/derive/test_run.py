@@ -1,4 +1,4 @@
-"""The assembled derivation: what it returns, and properties across corridors."""
+"""The derivation run (ranker.derive.run): stages in order, every number kept, by hand."""
 
 from __future__ import annotations
 

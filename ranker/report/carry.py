@@ -1,0 +1,361 @@
+"""Carry the input's sheets into the results workbook: values, never formulas or names.
+
+The results workbook starts as a copy of the input's sheets, built from the
+snapshot of the input's bytes that the reader took (``Inputs.snapshot``), so
+the sheets, the ranking and the SHA-256 all come from one version of the
+file. What is carried:
+
+- every cell's value; a formula cell becomes the value the spreadsheet
+  program saved with it (empty where it was never calculated), so the copy
+  runs nothing and running the results workbook again reads what the first
+  run read;
+- the planner's formatting, comments, column widths and sheet order, when the
+  workbook is small enough to load whole (:data:`FULL_COPY_CELLS`) and every
+  part of it loads; otherwise values and number formats only, streamed a row
+  at a time, with a warning saying so;
+- nothing that could run or point elsewhere: defined names, data-validation
+  lists that refer to cells or names, conditional formats driven by a
+  formula, macros and external links are left out (with a warning naming
+  what was left out).
+
+A sheet with more than :data:`SHEET_CELLS` stored cells is not carried (with
+a warning), which bounds time and memory; chart sheets are kept only on the
+full copy.
+"""
+
+from __future__ import annotations
+
+import io
+import re
+import warnings
+import zipfile
+
+from openpyxl import Workbook, load_workbook
+from openpyxl.formatting.formatting import ConditionalFormattingList
+from openpyxl.worksheet.datavalidation import DataValidationList
+
+#: Most stored cells (``<c>`` elements, styled empty ones included) of all
+#: sheets together for which the input is loaded whole, formatting and all [-].
+FULL_COPY_CELLS = 100_000
+#: Most stored cells of one sheet that is carried at all [-].
+SHEET_CELLS = 2_000_000
+#: The longest text a spreadsheet cell can hold [characters] (Microsoft,
+#: "Excel specifications and limits": 32,767 characters per cell).
+CELL_CHARS = 32_767
+CUT_NOTE = " [cut at 32,767 characters]"
+
+_CELL = re.compile(rb"<(?:\w+:)?c[\s/>]")
+_FORMULA = re.compile(rb"<(?:\w+:)?f[\s/>]")
+_SHEET_PART = re.compile(r"^xl/worksheets/[^/]+\.xml$")
+
+
+def fit_cell(text: str) -> tuple[str, bool]:
+    """Return ``text`` cut to fit one spreadsheet cell, and whether it was cut."""
+    if len(text) <= CELL_CHARS:
+        return text, False
+    return text[: CELL_CHARS - len(CUT_NOTE)] + CUT_NOTE, True
+
+
+def count_parts(snapshot: bytes) -> dict[str, tuple[int, int, int | None]]:
+    """Return {sheet part: (stored cells, formula cells, last row with a value)}.
+
+    Each part is read a chunk at a time (the last row as
+    :func:`ranker.workbook.preflight.last_value_row` finds it).
+    """
+    from ranker.workbook.preflight import last_value_row
+
+    out: dict[str, tuple[int, int, int | None]] = {}
+    with zipfile.ZipFile(io.BytesIO(snapshot)) as zf:
+        for name in zf.namelist():
+            if not _SHEET_PART.match(name):
+                continue
+            counts = [0, 0]
+
+            def chunks(name=name, counts=counts):
+                tail = b""
+                with zf.open(name) as fh:
+                    while chunk := fh.read(1 << 20):
+                        block = tail + chunk
+                        cut = max(0, len(block) - 8)  # a tag split across chunks counts once
+                        counts[0] += len(_CELL.findall(block, 0, cut))
+                        counts[1] += len(_FORMULA.findall(block, 0, cut))
+                        tail = block[cut:]
+                        yield chunk
+                counts[0] += len(_CELL.findall(tail))
+                counts[1] += len(_FORMULA.findall(tail))
+
+            last = last_value_row(chunks())
+            out[name] = (counts[0], counts[1], last)
+    return out
+
+
+def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
+    """Return a workbook holding the input's sheets as values, and warnings to report.
+
+    Parameters
+    ----------
+    inputs : Inputs
+        The input as read; its ``snapshot`` bytes are copied (the file is not
+        opened again).
+    drop : set of str
+        Titles of sheets not to carry (an earlier run's result sheets).
+
+    Returns
+    -------
+    (Workbook, list of str)
+        The workbook (input sheets only) and one warning per thing that was
+        converted, left out or not carried.
+    """
+    snapshot = inputs.snapshot
+    counts = count_parts(snapshot)
+    total = sum(c[0] for c in counts.values())
+    formulas = sum(c[1] for c in counts.values())
+    big = max((c[0] for c in counts.values()), default=0)
+    notes: list[str] = []
+    wb = None
+    if total <= FULL_COPY_CELLS and big <= SHEET_CELLS:
+        try:
+            wb = _full_copy(snapshot, drop, notes)
+            wb.save(io.BytesIO())  # what loads but cannot be written again fails here, not later
+        except Exception as exc:  # noqa: BLE001 - a part openpyxl cannot load: stream instead
+            wb = None
+            notes.clear()
+            notes.append(
+                "the input sheets were copied into the results workbook as values and number "
+                f"formats only, without their formatting and comments: a part of the input "
+                f"could not be loaded whole ({type(exc).__name__})"
+            )
+    else:
+        notes.append(
+            f"the input sheets were copied into the results workbook as values and number "
+            f"formats only, without their formatting and comments: the input stores "
+            f"{total:,} cells, over the {FULL_COPY_CELLS:,} that are copied with formatting"
+        )
+    if wb is None:
+        wb = _value_copy(snapshot, drop, notes)
+    from .workbook import STATE_SHEET
+
+    if STATE_SHEET in wb.sheetnames:  # the reader refused any sheet of that name but ours
+        del wb[STATE_SHEET]
+    if formulas:
+        notes.append(
+            f"the input holds {formulas:,} formula cell(s); the results workbook carries the "
+            "value each showed when the input was last saved, not the formula"
+        )
+    return wb, notes
+
+
+def _load(snapshot: bytes, **kw):
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        return load_workbook(
+            io.BytesIO(snapshot), data_only=True, keep_vba=False, keep_links=False, **kw
+        )
+
+
+def _full_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
+    wb = _load(snapshot)
+    for name in list(wb.sheetnames):
+        if name in drop:
+            del wb[name]
+    names = list(wb.defined_names)
+    wb.defined_names.clear()
+    for ws in wb.worksheets:
+        names += list(ws.defined_names)
+        ws.defined_names.clear()
+    if names:
+        shown = ", ".join(sorted(set(names))[:5]) + (" ..." if len(set(names)) > 5 else "")
+        notes.append(f"the input's defined names ({shown}) were left out of the results workbook")
+    lists = rules = cut = 0
+    for ws in wb.worksheets:
+        lists += _literal_validations(ws)
+        rules += _plain_formats(ws)
+        for cell in list(ws._cells.values()):  # the stored cells only, not the rectangle
+            v = cell.value
+            if cell.data_type == "f":  # no formula survives, whatever its type
+                cell.value = None
+            elif isinstance(v, str) and len(v) > CELL_CHARS:
+                cell.value, _ = fit_cell(v)
+                cut += 1
+    if lists:
+        notes.append(
+            f"{lists} data-validation list(s) of the input that refer to cells or names were "
+            "left out of the results workbook"
+        )
+    if rules:
+        notes.append(
+            f"{rules} conditional format(s) of the input driven by a formula were left out of "
+            "the results workbook"
+        )
+    if cut:
+        notes.append(_cut_note(cut))
+    return wb
+
+
+def _cut_note(n: int) -> str:
+    return (
+        f"{n} input cell(s) longer than the {CELL_CHARS:,} characters a spreadsheet cell holds "
+        "were cut to fit in the results workbook"
+    )
+
+
+def _is_literal(formula) -> bool:
+    if formula is None:
+        return True
+    text = str(formula).strip()
+    if text.startswith('"') and text.endswith('"'):
+        return True
+    try:
+        float(text)
+    except ValueError:
+        return False
+    return True
+
+
+def _literal_validations(ws) -> int:
+    """Keep the data validations whose formulas are literal lists or numbers."""
+    kept, gone = [], 0
+    for dv in ws.data_validations.dataValidation:
+        if _is_literal(dv.formula1) and _is_literal(dv.formula2):
+            kept.append(dv)
+        else:
+            gone += 1
+    if gone:
+        fresh = DataValidationList()
+        for dv in kept:
+            fresh.append(dv)
+        ws.data_validations = fresh
+    return gone
+
+
+def _plain_formats(ws) -> int:
+    """Keep the conditional formats that no formula drives."""
+    fresh, gone = ConditionalFormattingList(), 0
+    for cf in ws.conditional_formatting:
+        for rule in cf.rules:
+            values = [
+                v.val for c in (rule.colorScale, rule.dataBar, rule.iconSet) if c for v in c.cfvo
+            ]
+            if rule.formula or any(v is not None and not _is_literal(v) for v in values):
+                gone += 1
+            else:
+                fresh.add(str(cf.sqref), rule)
+    if gone:
+        ws.conditional_formatting = fresh
+    return gone
+
+
+def _value_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
+    """Stream every worksheet's values and number formats into a new workbook."""
+    counts = count_parts(snapshot)
+    src = _load(snapshot, read_only=True)
+    out = Workbook()
+    out.remove(out.active)
+    cut = 0
+    try:
+        for ws in src.worksheets:
+            if ws.title in drop:
+                continue
+            part = str(getattr(ws, "_worksheet_path", "")).lstrip("/")
+            stored, _, last = counts.get(part, (0, 0, None))
+            if stored > SHEET_CELLS:
+                notes.append(
+                    f"{ws.title}: the sheet stores {stored:,} cells, over the "
+                    f"{SHEET_CELLS:,} carried into the results workbook; it was left out "
+                    "(the input file still has it)"
+                )
+                continue
+            target = out.create_sheet(ws.title)
+            target.sheet_state = ws.sheet_state
+            try:
+                ws.reset_dimensions()
+                # Rows past the last stored value hold nothing to carry: not parsed.
+                for row in ws.iter_rows(max_row=None if last is None else max(last, 1)):
+                    for c in row:
+                        v = getattr(c, "value", None)
+                        if v is None:
+                            continue
+                        if isinstance(v, str) and len(v) > CELL_CHARS:
+                            v, _ = fit_cell(v)
+                            cut += 1
+                        cell = target.cell(row=c.row, column=c.column, value=v)
+                        if isinstance(v, str):
+                            cell.data_type = "s"  # text stays text, whatever it starts with
+                        fmt = c.number_format
+                        if fmt and fmt != "General":
+                            cell.number_format = fmt
+            except Exception as exc:  # noqa: BLE001 - a damaged sheet part is the file's fault
+                out.remove(target)
+                notes.append(
+                    f"{ws.title}: the sheet's cells could not be read "
+                    f"({type(exc).__name__}); it was left out of the results workbook "
+                    "(the input file still has it)"
+                )
+    finally:
+        src.close()
+    if not out.sheetnames:
+        out.create_sheet("Input")
+    if cut:
+        notes.append(_cut_note(cut))
+    return out
+
+
+#: How a result sheet of this tool begins its second row (``SheetWriter.sheet``).
+RESULT_NOTE = "Written by ranker "
+
+
+def earlier_result_sheets(snapshot: bytes) -> set[str]:
+    """Return the titles of the sheets an earlier run of this tool wrote into the input.
+
+    A sheet counts only when the workbook's ``ranker-sheets`` property lists
+    it *and* the sheet itself begins as a result sheet does (its A2 note), so
+    a forged or stale property cannot make the planner's own sheets vanish.
+    The hidden state sheet counts when it is very hidden (the reader refuses
+    a planner's visible sheet of that name).
+    """
+    from .workbook import SHEETS_PROPERTY, STATE_SHEET
+
+    listed = _custom_properties(snapshot).get(SHEETS_PROPERTY, "")
+    titles = [t for t in listed.split("\n") if t]
+    out: set[str] = set()
+    try:
+        src = _load(snapshot, read_only=True)
+    except Exception:  # noqa: BLE001 - the reader read it; keep every sheet if this cannot
+        return out
+    try:
+        for title in titles:
+            if title not in src.sheetnames or title == STATE_SHEET:
+                continue
+            ws = src[title]
+            if not hasattr(ws, "iter_rows"):  # a chart sheet
+                continue
+            try:
+                note = next(ws.iter_rows(min_row=2, max_row=2, max_col=1, values_only=True))[0]
+            except Exception:  # noqa: BLE001 - an unreadable sheet is kept, not dropped
+                continue
+            if isinstance(note, str) and note.startswith(RESULT_NOTE):
+                out.add(title)
+        if STATE_SHEET in src.sheetnames and src[STATE_SHEET].sheet_state == "veryHidden":
+            out.add(STATE_SHEET)
+    finally:
+        src.close()
+    return out
+
+
+def _custom_properties(snapshot: bytes) -> dict[str, str]:
+    """Return the workbook's custom document properties as {name: text}."""
+    from defusedxml import ElementTree as SafeET
+
+    try:
+        with zipfile.ZipFile(io.BytesIO(snapshot)) as zf:
+            if "docProps/custom.xml" not in zf.namelist():
+                return {}
+            root = SafeET.fromstring(zf.read("docProps/custom.xml"))
+    except Exception:  # noqa: BLE001 - unreadable properties are no properties
+        return {}
+    out = {}
+    for prop in root:
+        name = prop.get("name")
+        if name is not None and name not in out:
+            out[name] = "".join(t for child in prop for t in child.itertext())
+    return out
