@@ -64,13 +64,19 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("input", type=Path, metavar="INPUT.xlsx")
 
     r = sub.add_parser("run", help="rank the corridors and write the outputs")
-    r.add_argument("input", type=Path, metavar="INPUT.xlsx")
+    r.add_argument(
+        "input",
+        type=Path,
+        metavar="INPUT.xlsx",
+        help="the input workbook (writes INPUT-ranked.xlsx and .html), or a results workbook "
+        "ranker wrote (refreshed in place, keeping your edits)",
+    )
     r.add_argument(
         "--out",
         type=Path,
         default=None,
         metavar="DIR",
-        help="output folder (default: the input's folder)",
+        help="output folder, created when missing (default: the input's folder)",
     )
     r.add_argument(
         "--weights",

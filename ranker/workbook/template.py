@@ -136,9 +136,9 @@ def _instructions(wb: Workbook) -> None:
         (
             "3.",
             "Optional sheets: Jurisdictions and Corridor miles (for policy_readiness), "
-            "Assumptions (change a value, or leave it blank for the default), Adoption, Pairwise, "
-            "Budget and Scenarios; Places (latitude and longitude of the places named in "
-            "connects) for the map and the GeoJSON file of the results.",
+            "Assumptions (type a value beside its default, or leave it blank for the default), "
+            "Adoption, Pairwise, Budget and Scenarios; Places (latitude and longitude of the "
+            "places named in connects) for the map and the GeoJSON file of the results.",
             False,
         ),
         (
@@ -149,14 +149,16 @@ def _instructions(wb: Workbook) -> None:
         ),
         (
             "5.",
-            "Run:  ranker run THIS_FILE.xlsx  - it writes the ranked workbook and the "
-            "justification sheet beside this file. This file is never changed.",
+            "Run:  ranker run THIS_FILE.xlsx  - it writes THIS_FILE-ranked.xlsx and "
+            "THIS_FILE-ranked.html beside this file. This file is never changed.",
             False,
         ),
         (
             "6.",
-            "Adjust the weights (or pick another set with --weights NAME) and run again; the "
-            "outputs show how the order moves.",
+            "Adjust the weights or any value, here or in THIS_FILE-ranked.xlsx, and run that "
+            "file again (running the ranked workbook refreshes it in place); or pick another "
+            "set with --weights NAME, or give one criterion its final share in percent with "
+            "--weight KEY=SHARE. Every run says what changed since the last one.",
             False,
         ),
         ("", "", False),
