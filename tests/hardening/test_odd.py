@@ -164,6 +164,7 @@ def test_large_input_is_streamed_as_values(tmp_path, monkeypatch):
     assert outcome.code == 0, outcome.err
     assert any("values and number formats only" in w for w in outcome.warnings)
     assert any("Big notes: the sheet stores 600 cells" in w for w in outcome.warnings)
+    assert not any("Corridors: the sheet" in w for w in outcome.warnings)  # always carried
     xlsx = tmp_path / "out" / "input-ranked.xlsx"
     wb = load_workbook(xlsx)
     assert "Big notes" not in wb.sheetnames
