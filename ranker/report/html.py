@@ -240,7 +240,11 @@ def _since_last_run(result) -> dict | None:
     for part in ("inputs", "criteria", "moved"):
         only = {"previous": record["previous"], **{k: [] for k in ("inputs", "criteria", "moved")}}
         only[part] = record.get(part, [])
-        lines = describe(only, limit=CHANGE_LINES) if only[part] else []
+        lines = (
+            describe(only, limit=CHANGE_LINES, more="in the results workbook")
+            if only[part]
+            else []
+        )
         parts[part] = [x for x in lines if not x.startswith(("No corridor", "Nothing changed"))]
     return {"previous": record["previous"], **parts}
 

@@ -40,8 +40,9 @@ BENEFIT_SCALED = ("minmax", "max")
 SHEET = "Live weights"
 RECORD_LINE = (
     "The record of the decision is the run (the Ranking sheet and the justification "
-    "sheet), not this sheet: what you try here is not saved as a result until you run "
-    "the workbook again."
+    "sheet), not this sheet: the run does not read the weights typed here, and the next "
+    "run rewrites this sheet. To make them the run's weights, type them into a weight "
+    "column of the Criteria sheet and run the workbook again."
 )
 INPUT_FILL = PatternFill("solid", fgColor="FFF2CC")
 INPUT_FONT = Font(bold=True, color="1F4E79")

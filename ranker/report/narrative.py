@@ -241,6 +241,15 @@ def method_labels(methods) -> dict:
     return {m: METHODS[m].label if m in METHODS else m for m in methods}
 
 
+def _shown(value) -> str:
+    """A default as the note quotes it: ``288,000`` rather than ``288000.0``."""
+    if isinstance(value, float) and value.is_integer() and abs(value) < 1e15:
+        return f"{value:,.0f}"
+    if isinstance(value, float):
+        return f"{value:,.6g}"
+    return str(value)
+
+
 def assumptions_used(result) -> list[dict]:
     """Every assumption with the value used, whether it is the default, and the default.
 
@@ -274,7 +283,7 @@ def assumptions_used(result) -> list[dict]:
                 "unit": a.unit,
                 "set_by": "changed" if changed else "default",
                 "default": default if changed else "",
-                "note": f"The default ({default}): {a.note}" if changed else a.note,
+                "note": f"The default ({_shown(default)}): {a.note}" if changed else a.note,
             }
         )
     return rows

@@ -390,6 +390,25 @@ def plan_sheet(writer, result) -> None:
     writer.table(ws, corridors, top=bottom + 1, index_label="corridor_id", name="plan_corridors")
 
 
+#: Lines of each part of "what changed" on the Run info sheet (the JSON summary has all).
+RUN_INFO_CHANGES = 2000
+
+
+def run_info_changes(result) -> list[str]:
+    """The "changes since the last run" lines of the Run info sheet."""
+    from ..changes import describe
+
+    previous = result.change_record.get("previous")
+    if not previous:
+        return ["no earlier results workbook to compare with"]
+    lines = describe(
+        result.change_record,
+        limit=RUN_INFO_CHANGES,
+        more="the JSON summary of ranker run --json lists all",
+    )
+    return [f"compared with {previous}"] + lines
+
+
 def run_info_sheet(writer, result) -> None:
     """Version, input SHA-256, seed, samples, timestamp, assumptions, every warning."""
     ws = writer.sheet("Run info", "Run information")
@@ -414,7 +433,7 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 2, v)
     row = 4 + len(info) + 1
     put(ws, row, 1, "Changes since the last run").font = HEADER_FONT
-    changes = result.changes or ["no earlier results workbook to compare with"]
+    changes = run_info_changes(result)
     for i, line in enumerate(changes, start=row + 1):
         put(ws, i, 1, line)
     row += len(changes) + 2
