@@ -335,11 +335,13 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
     return out
 
 
-def describe(changes: dict, *, limit: int | None = None) -> list[str]:
+def describe(
+    changes: dict, *, limit: int | None = None, more: str = "on the Run info sheet"
+) -> list[str]:
     """Return the changes as plain sentences, inputs first, then values, then moves.
 
     ``limit`` caps the lines of each of the three parts, with one line
-    saying how many more there are.
+    saying how many more there are and where they are (``more``).
     """
     if changes.get("previous") is None and not any(
         changes.get(k) for k in ("inputs", "criteria", "moved")
@@ -349,7 +351,7 @@ def describe(changes: dict, *, limit: int | None = None) -> list[str]:
     def capped(lines: list[str], what: str) -> list[str]:
         if limit is None or len(lines) <= limit:
             return lines
-        return lines[:limit] + [f"... and {len(lines) - limit} more {what} (all in the workbook)"]
+        return lines[:limit] + [f"... and {len(lines) - limit:,} more {what} ({more})"]
 
     inputs = []
     for c in changes.get("inputs", []):

@@ -33,6 +33,29 @@ def _parser() -> argparse.ArgumentParser:
 
     t = sub.add_parser("template", help="write the blank input workbook")
     t.add_argument("path", type=Path, metavar="PATH.xlsx")
+    t.add_argument(
+        "--from",
+        dest="network",
+        type=Path,
+        default=None,
+        metavar="NETWORK.geojson",
+        help="pre-fill Corridors and Places from a GIS file of corridor lines (GeoJSON; "
+        "Shapefile or GeoPackage with the gis extra)",
+    )
+    t.add_argument(
+        "--id-property",
+        default=None,
+        metavar="NAME",
+        help="with --from: the property holding each corridor's id (default corridor_id, "
+        "id or code)",
+    )
+    t.add_argument(
+        "--name-property",
+        default=None,
+        metavar="NAME",
+        help="with --from: the property holding each corridor's name (default name, "
+        "corridor or label)",
+    )
 
     d = sub.add_parser("demo", help="write the invented demo scenario and run it")
     d.add_argument("--out", type=Path, default=Path("."), metavar="DIR")
@@ -41,13 +64,19 @@ def _parser() -> argparse.ArgumentParser:
     c.add_argument("input", type=Path, metavar="INPUT.xlsx")
 
     r = sub.add_parser("run", help="rank the corridors and write the outputs")
-    r.add_argument("input", type=Path, metavar="INPUT.xlsx")
+    r.add_argument(
+        "input",
+        type=Path,
+        metavar="INPUT.xlsx",
+        help="the input workbook (writes INPUT-ranked.xlsx and .html), or a results workbook "
+        "ranker wrote (refreshed in place, keeping your edits)",
+    )
     r.add_argument(
         "--out",
         type=Path,
         default=None,
         metavar="DIR",
-        help="output folder (default: the input's folder)",
+        help="output folder, created when missing (default: the input's folder)",
     )
     r.add_argument(
         "--weights",
@@ -102,13 +131,34 @@ def cmd_template(args) -> int:
         )
     if path.exists() or path.is_symlink():
         raise InputError.one(shown(path), "a file of this name exists", "choose a new file name")
+    network = None
+    if args.network is not None:  # read and check it all before anything is written
+        from .geo.importer import read_network
+
+        network = read_network(
+            args.network, id_property=args.id_property, name_property=args.name_property
+        )
+    elif args.id_property or args.name_property:
+        raise InputError.one(
+            "--id-property", "needs --from", "add --from NETWORK.geojson, or drop the option"
+        )
     make_out_dir(path.parent, flag="the template's path")
     try:
-        write_template(path)
+        write_template(path, network=network)
     except OSError as exc:
         raise os_error(exc, path) from exc
     path = shown(path)
-    print(f"Wrote the input template to {path}. Fill it in, then run: ranker check {path}")
+    if network is not None:
+        print(
+            f"Wrote the input template to {path} with {len(network.corridors)} corridors and "
+            f"{len(network.places)} places from {shown(args.network)} (length_mi is each "
+            "line's geodesic length on WGS 84)."
+        )
+        for note in network.notes:
+            print(f"  note: {note}")
+    else:
+        print(f"Wrote the input template to {path}.", end=" ")
+    print(f"Fill it in, then run: ranker check {path}")
     return EXIT_OK
 
 

@@ -292,12 +292,12 @@ PAIRWISE_ROWS = {
 #: cost together, and less in total than all of them, so the plan spreads over six years
 #: and the optimised plan differs from the greedy one.
 BUDGET_ROWS = [
-    (2027, 14e6),
-    (2028, 15e6),
-    (2029, 16e6),
-    (2030, 17e6),
-    (2031, 18e6),
-    (2032, 19e6),
+    (2027, 7.5e6),
+    (2028, 8.0e6),
+    (2029, 8.5e6),
+    (2030, 9.0e6),
+    (2031, 9.5e6),
+    (2032, 10.0e6),
 ]
 
 SCENARIO_ROWS = [

@@ -100,7 +100,8 @@ def rank_inputs(
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
     stage(progress, "deriving the criteria")
     p = prepare(inputs)
-    assumptions, matrix, kept = p.assumptions, p.matrix, p.kept
+    # Every stage scores the saturated matrix; the outputs show the values as derived.
+    assumptions, matrix, kept = p.assumptions, p.scored, p.kept
     warnings = list(p.warnings)
     included = inputs.included
     chosen = choose_weight_set(p.weight_sets, weights)
@@ -113,6 +114,8 @@ def rank_inputs(
     stage(progress, "scoring")
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
     warnings.extend(scores.warnings)
+    diagnostics = _diagnostics(matrix.loc[kept], scores)
+    warnings.extend(_diagnostic_warnings(diagnostics, included))
 
     robustness = None
     if len(kept) >= 2 and not any(w > 0 for w in scores.weights.values()):
@@ -163,7 +166,10 @@ def rank_inputs(
         overrides=overrides,
         weight_sets=p.weight_sets,
         criteria=included,
-        matrix=matrix,
+        matrix=p.matrix,
+        scored_matrix=matrix,
+        full_credit=dict(p.full_credit),
+        diagnostics=diagnostics,
         provenance=p.provenance,
         derivation=p.derivation,
         excluded=p.excluded,
@@ -190,6 +196,10 @@ class Prepared:
     excluded: list[dict]
     weight_sets: list
     warnings: list[str]
+    #: The matrix every method scores: values past a full-credit level clipped to it.
+    scored: pd.DataFrame | None = None
+    #: Criterion key to its full-credit level (:mod:`ranker.score.saturation`).
+    full_credit: dict | None = None
 
 
 def prepare(inputs: Inputs) -> Prepared:
@@ -197,6 +207,8 @@ def prepare(inputs: Inputs) -> Prepared:
 
     Shared by ``ranker check`` (which stops here) and ``ranker run``.
     """
+    from .report.narrative import energy_cap_warnings, saturation_warnings
+    from .score.saturation import full_credit_levels, saturate, saturated_counts
     from .score.screen import screen
     from .score.weights import resolve_weight_sets
 
@@ -215,15 +227,35 @@ def prepare(inputs: Inputs) -> Prepared:
             "or remove the Budget sheet",
         )
     kept, excluded = screen(matrix, inputs.included, inputs)
+    levels = full_credit_levels(inputs.included, assumptions)
+    scored = saturate(matrix, inputs.included, levels)
     # Objective (entropy, CRITIC) sets describe the corridors actually scored.
-    sets = resolve_weight_sets(inputs, matrix.loc[kept], assumptions)
+    sets = resolve_weight_sets(inputs, scored.loc[kept], assumptions)
     warnings = list(inputs.warnings)
     if derivation is not None:
         warnings.extend(derivation.warnings)
     for s in sets:
         warnings.extend(s.warnings)
+    if derivation is not None:
+        warnings.extend(energy_cap_warnings(derivation.sizing, inputs.corridors["name"]))
+    warnings.extend(
+        saturation_warnings(
+            saturated_counts(matrix.loc[kept], inputs.included, levels),
+            levels,
+            {c.key: c for c in inputs.included},
+        )
+    )
     return Prepared(
-        assumptions, matrix, provenance, derivation, kept, excluded, sets, _unique(warnings)
+        assumptions,
+        matrix,
+        provenance,
+        derivation,
+        kept,
+        excluded,
+        sets,
+        _unique(warnings),
+        scored=scored,
+        full_credit=levels,
     )
 
 
@@ -340,6 +372,22 @@ def apply_overrides(
     return apply_shares(chosen.weights, overrides, keys), dict(overrides)
 
 
+def _diagnostics(matrix: pd.DataFrame, scores) -> dict:
+    """Spread share per criterion and strongly rank-correlated pairs (ranker.score.diagnostics)."""
+    from .score.diagnostics import rank_correlations, spread_shares, strong_pairs
+
+    used = [k for k in scores.weights if k in matrix.columns]
+    shares = spread_shares(scores.weighted[used]) if used else pd.Series(dtype=float)
+    pairs = strong_pairs(rank_correlations(matrix[used])) if len(matrix) > 2 else []
+    return {"spread_share": {k: float(v) for k, v in shares.items()}, "correlated": pairs}
+
+
+def _diagnostic_warnings(diagnostics: dict, included) -> list[str]:
+    from .report.narrative import diagnostic_warnings
+
+    return diagnostic_warnings(diagnostics, {c.key: c.label for c in included})
+
+
 def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]:
     """Return the weights used in scoring for every included criterion [-].
 
@@ -389,11 +437,15 @@ def _futures(inputs: Inputs, used, scores):
         scenarios.setdefault(str(row["scenario"]), {})[str(row["key"])] = row["value"]
 
     def rerank(overrides: dict) -> pd.Series:
+        from .score.saturation import full_credit_levels, saturate
+
         try:
             assumptions = resolve(inputs.assumptions, overrides)
             matrix, _, _ = build_matrix(inputs, assumptions)
             kept, _ = screen(matrix, inputs.included, inputs)
-            return score_matrix(matrix.loc[kept], inputs.included, used, assumptions).rank
+            levels = full_credit_levels(inputs.included, assumptions)
+            scored = saturate(matrix, inputs.included, levels)
+            return score_matrix(scored.loc[kept], inputs.included, used, assumptions).rank
         except InputError as exc:  # name the Scenarios cells, not the Assumptions sheet
             from .workbook.scenario_cells import in_scenario
 

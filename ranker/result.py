@@ -57,6 +57,16 @@ class Result:
     matrix : DataFrame
         Corridors (all, excluded ones too) by included criteria, in each
         criterion's own unit.
+    scored_matrix : DataFrame or None
+        The matrix every method scored: ``matrix`` with each value past its
+        full-credit level clipped to the level (None: same as ``matrix``).
+    full_credit : dict of str to float
+        Criterion key to its full-credit level, in the criterion's unit
+        (:mod:`ranker.score.saturation`); criteria without one left out.
+    diagnostics : dict
+        ``spread_share`` (criterion to its share of the spread of the weighted
+        normalised values [-]) and ``correlated`` (pairs ``{"a", "b", "rho"}``
+        of criteria with ``|Spearman rho| > 0.8``; :mod:`ranker.score.diagnostics`).
     provenance : dict of str to str
         Criterion to ``"derived"`` or ``"given"``.
     derivation : Derivation or None
@@ -106,6 +116,9 @@ class Result:
     tool_version: str = __version__
     outputs: dict[str, str] = field(default_factory=dict)
     chosen_weights: dict[str, float] = field(default_factory=dict)
+    scored_matrix: pd.DataFrame | None = None
+    full_credit: dict[str, float] = field(default_factory=dict)
+    diagnostics: dict = field(default_factory=dict)
     changes: list[str] = field(default_factory=list)
     change_record: dict = field(
         default_factory=lambda: {"previous": None, "inputs": [], "criteria": [], "moved": []}

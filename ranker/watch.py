@@ -70,6 +70,8 @@ def watch(
                         print(str(p), file=sys.stderr)
                     print("Fix the workbook and save it again; still watching.", file=sys.stderr)
                     continue
+                if Path(result.outputs.get("workbook", "")).resolve() == path.resolve():
+                    seen = _stamp(path)  # refreshed in place: our own write is not a save
                 print(f"--- run {runs} at {time.strftime('%H:%M:%S')} ---")
                 if args.json:
                     json.dump(result.to_json(), sys.stdout)

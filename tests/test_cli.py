@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+from html import escape
 
 import pytest
 from openpyxl import load_workbook
@@ -123,6 +124,11 @@ def test_rerun_of_the_results_workbook_refreshes_it_in_place(direct_workbook, ca
         "new": 400,
         "unit": "points",
     } in changes["inputs"]
+    line = f"{where}, weight on Delivery risk in set default: 20 -> 400 points"
+    run_info = [c.value for row in again["Run info"].iter_rows() for c in row if c.value]
+    assert line in run_info  # the same list in the workbook ...
+    html = out.with_suffix(".html").read_text(encoding="utf-8")
+    assert escape(line) in html  # ... and on the justification sheet
     now = {r["corridor_id"]: r["rank"] for r in summary["ranking"]}
     moved = {m["corridor_id"]: (m["old_rank"], m["new_rank"]) for m in changes["moved"]}
     assert moved == {c: (first[c], now[c]) for c in now if first[c] != now[c]}
@@ -188,3 +194,34 @@ def test_internal_error_is_one_line_with_log(direct_workbook, capsys, monkeypatc
     err = capsys.readouterr().err
     assert code == 1
     assert err.count("\n") == 1 and "full log in" in err
+
+
+def test_changes_name_tier_moves_and_the_samples(direct_workbook, capsys):
+    """A corridor that keeps its rank but changes tier is listed with both tiers."""
+    assert main(["run", str(direct_workbook), "--samples", "0", "--json"]) == 0
+    before = {r["corridor_id"]: r for r in json.loads(capsys.readouterr().out)["ranking"]}
+    assert main(["run", str(direct_workbook), "--samples", "400", "--json"]) == 0
+    summary = json.loads(capsys.readouterr().out)
+    now = {r["corridor_id"]: r for r in summary["ranking"]}
+    expected = [
+        {
+            "corridor_id": c,
+            "name": now[c]["name"],
+            "old_rank": before[c]["rank"],
+            "new_rank": now[c]["rank"],
+            "old_tier": before[c]["tier"],
+            "new_tier": now[c]["tier"],
+        }
+        for c in now
+        if (before[c]["rank"], before[c]["tier"]) != (now[c]["rank"], now[c]["tier"])
+    ]
+    assert summary["changes"]["moved"] == sorted(
+        expected, key=lambda m: (m["new_rank"], m["corridor_id"])
+    )
+    assert {
+        "cell": "--samples",
+        "label": "Monte Carlo samples",
+        "old": 0,
+        "new": 400,
+        "unit": "samples",
+    } in summary["changes"]["inputs"]

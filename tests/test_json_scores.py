@@ -19,7 +19,7 @@ def _recompute(summary: dict) -> dict[str, np.ndarray]:
     w = np.array([summary["weights"][k] for k in keys])
     benefit = np.array([summary["criteria"][k]["direction"] == "benefit" for k in keys])
     x = np.array([[e["criteria"][k] for k in keys] for e in summary["ranking"]], dtype=float)
-    level = [summary["criteria"][k].get("saturation") for k in keys]
+    level = [summary["criteria"][k].get("full_credit_at") for k in keys]
     for j, cap in enumerate(level):  # credit stops at the saturation level
         if cap is not None:
             x[:, j] = np.minimum(x[:, j], cap) if benefit[j] else np.maximum(x[:, j], cap)

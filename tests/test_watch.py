@@ -63,3 +63,34 @@ def test_watch_reruns_on_save_and_reports_changes(direct_workbook, tmp_path, cap
     out = capsys.readouterr().out
     assert "What changed since the last run" in out
     assert "weight on Cost in set default: 40 -> 90 points" in out
+
+
+def test_watching_a_results_workbook_does_not_rerun_on_its_own_refresh(direct_workbook, tmp_path):
+    """Running X-ranked.xlsx rewrites it; that write must not count as a save."""
+    assert run_once(_args(direct_workbook, None), {}) is not None
+    ranked = direct_workbook.with_name("direct-ranked.xlsx")
+    runs = []
+
+    def recording(args, overrides):
+        runs.append(run_once(args, overrides))
+        return runs[-1]
+
+    done = threading.Event()
+
+    def run():
+        watch(_args(ranked, None), {}, recording, max_runs=2, poll_s=0.05, settle_s=0.05)
+        done.set()
+
+    thread = threading.Thread(target=run, daemon=True)
+    thread.start()
+    for _ in range(400):
+        if runs:
+            break
+        time.sleep(0.05)
+    assert len(runs) == 1
+    done.wait(1.5)  # without the guard, the refresh itself starts a second run at once
+    assert len(runs) == 1 and not done.is_set()
+    wb = load_workbook(ranked)
+    wb.save(ranked)  # the planner saves: now it runs again
+    assert done.wait(60)
+    assert len(runs) == 2

@@ -115,9 +115,13 @@ COLUMNS: dict[str, tuple[str, str]] = {
         "[kWh/yr]",
         "En-route energy sold in analysis_year: 365 x "
         "trucks_per_day x electric_share x energy_per_pass_kwh x "
-        "en_route_share.",
+        "en_route_share, at most energy_capacity_kwh_per_yr.",
     ),
-    "en_route_kwh_horizon": ("[kWh]", "En-route energy sold over the horizon, undiscounted."),
+    "en_route_kwh_horizon": (
+        "[kWh]",
+        "En-route energy sold over the horizon, undiscounted, each year at most "
+        "energy_capacity_kwh_per_yr.",
+    ),
     "margin_npv_usd": (
         "[USD]",
         "NPV at discount_rate of (charging_price_usd_per_kwh - "
@@ -127,7 +131,31 @@ COLUMNS: dict[str, tuple[str, str]] = {
         "[USD]",
         "NPV of 12 x demand_charge_usd_per_kw_month x peak_load_mw x 1000 per year.",
     ),
-    "revenue_npv_usd": ("[USD]", "margin_npv_usd - demand_charge_npv_usd."),
+    "revenue_npv_usd": (
+        "[USD]",
+        "margin_npv_usd - demand_charge_npv_usd - operating_cost_npv_usd.",
+    ),
+    "operating_cost_npv_usd": (
+        "[USD]",
+        "NPV of ports x port_opex_usd_per_yr per year over the horizon.",
+    ),
+    "energy_capacity_kwh_per_yr": (
+        "[kWh/yr]",
+        "ports x charger_power_kw x operating_hours_per_day x 365 x utilization_ceiling: the "
+        "most the sized ports sell in a year.",
+    ),
+    "energy_capped_from_year": (
+        "[year]",
+        "First year in which the trucks would buy more than the ports can deliver (blank: never).",
+    ),
+    "energy_capped_last_year": (
+        "[year]",
+        "Last year of the horizon in which the cap binds (blank: never).",
+    ),
+    "energy_capped_kwh_horizon": (
+        "[kWh]",
+        "Energy over the horizon the trucks would buy but the sized ports cannot deliver.",
+    ),
     # -- readiness --------------------------------------------------------------------------
     "policy_readiness": (
         "[0-100]",

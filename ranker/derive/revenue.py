@@ -1,13 +1,15 @@
-"""Charging revenue: NPV of the operator's margin along the adoption path, less demand charges.
+"""Charging revenue: NPV of the operator's margin, less demand charges and operating cost.
 
 Years ``t = 0 .. horizon_years - 1`` run from the analysis year; ``t = 0``
 is not discounted (the convention of :mod:`ranker.derive.finance` and of
 ``numpy_financial.npv``). The kWh of year ``t`` follow the electric share
 of that year and the truck traffic of that year (``truck_traffic_growth_rate``,
-0 by default, keeps today's counts). The chargers are taken to serve the
-demand of every year, and demand charges to apply to the target-year peak
-load from year 0: ports added after the target year are not in the capital
-cost, so late-horizon revenue is an upper view.
+0 by default, keeps today's counts), and are capped at what the ports sized
+for the target year can deliver (:func:`port_energy_capacity`): ports added
+after the target year are not in the capital cost, so their sales are not
+counted either. Demand charges apply to the target-year peak load from year
+0, and every port pays its yearly operating cost (maintenance, network and
+software) over the whole horizon.
 """
 
 from __future__ import annotations
@@ -134,3 +136,110 @@ def demand_charge_npv_peak(
     """
     factor = discount_factor_compound(np.arange(years), rate_per_yr=discount_rate).sum()
     return 12.0 * demand_charge_usd_per_kw_month * np.asarray(peak_load_kw, float) * factor
+
+
+def port_energy_capacity(
+    ports: np.ndarray,
+    *,
+    charger_power_kw: float,
+    operating_hours_per_day: float,
+    utilization_ceiling: float,
+) -> np.ndarray:
+    """Compute the most energy the sized ports can deliver in a year [kWh/yr].
+
+    Parameters
+    ----------
+    ports : array_like
+        Ports along the corridor [-].
+    charger_power_kw : float
+        Rated power per port [kW].
+    operating_hours_per_day : float
+        Open hours [h/day].
+    utilization_ceiling : float
+        Largest share of open hours a port can deliver at full power [-].
+
+    Returns
+    -------
+    ndarray
+        ``ports * power * hours * 365 * ceiling`` [kWh/yr].
+
+    References
+    ----------
+    .. [1] Common practice: a port's energy throughput is its power times
+       the hours it delivers (the energy balance of the sizing stage).
+
+    Examples
+    --------
+    >>> port_energy_capacity([2.0], charger_power_kw=350.0, operating_hours_per_day=24.0,
+    ...                      utilization_ceiling=0.3)
+    array([1839600.])
+    """
+    return (
+        np.asarray(ports, float)
+        * charger_power_kw
+        * operating_hours_per_day
+        * DAYS_PER_YEAR
+        * utilization_ceiling
+    )
+
+
+def energy_sold_capped(kwh_per_yr: np.ndarray, capacity_kwh_per_yr: np.ndarray) -> np.ndarray:
+    """Cap each year's energy at what the ports can deliver [kWh/yr].
+
+    Parameters
+    ----------
+    kwh_per_yr : array_like, shape (n, T)
+        Energy the trucks would buy, year by year [kWh/yr].
+    capacity_kwh_per_yr : array_like, shape (n,)
+        Most energy the sized ports deliver in a year [kWh/yr].
+
+    Returns
+    -------
+    ndarray, shape (n, T)
+        ``min(kWh_t, capacity)`` [kWh/yr].
+
+    Examples
+    --------
+    >>> energy_sold_capped([[100.0, 300.0]], [200.0])
+    array([[100., 200.]])
+    """
+    return np.minimum(
+        np.asarray(kwh_per_yr, float), np.asarray(capacity_kwh_per_yr, float)[:, None]
+    )
+
+
+def operating_cost_npv_ports(
+    ports: np.ndarray, *, port_opex_usd_per_yr: float, years: int, discount_rate: float
+) -> np.ndarray:
+    """Compute the NPV of the ports' yearly operating cost, first year undiscounted [USD].
+
+    Parameters
+    ----------
+    ports : array_like
+        Ports along the corridor [-].
+    port_opex_usd_per_yr : float
+        Maintenance, network and software cost per port per year [USD/yr].
+    years : int
+        Years paid, ``t = 0 .. years - 1`` [yr].
+    discount_rate : float
+        Discount rate [1/yr].
+
+    Returns
+    -------
+    ndarray
+        ``ports * opex * sum_t (1 + i) ** -t`` [USD].
+
+    References
+    ----------
+    .. [1] W. G. Sullivan, E. M. Wicks and C. P. Koelling, "Engineering
+       Economy", 16th ed., Pearson, 2015, ch. 4 (present worth of a uniform
+       series).
+
+    Examples
+    --------
+    >>> operating_cost_npv_ports([2.0], port_opex_usd_per_yr=1000.0, years=2,
+    ...                          discount_rate=0.0)
+    array([4000.])
+    """
+    factor = discount_factor_compound(np.arange(years), rate_per_yr=discount_rate).sum()
+    return np.asarray(ports, float) * port_opex_usd_per_yr * factor

@@ -42,7 +42,14 @@ from .glossary import COLUMNS
 from .grid import grid_upgrade_excess, headroom_ratio_peak, peak_load_coincidence
 from .needs import Checked, check_inputs
 from .readiness import policy_readiness
-from .revenue import demand_charge_npv_peak, en_route_energy_per_year, margin_npv_charging
+from .revenue import (
+    demand_charge_npv_peak,
+    en_route_energy_per_year,
+    energy_sold_capped,
+    margin_npv_charging,
+    operating_cost_npv_ports,
+    port_energy_capacity,
+)
 from .sizing import charger_sizing
 
 #: Built-in criterion key to its direction (from :data:`ranker.builtin.BUILTIN_CRITERIA`).
@@ -179,14 +186,32 @@ def _grid_and_cost(plan: Checked, a: dict, sized: dict) -> dict[str, np.ndarray]
 
 
 def _revenue(
-    plan: Checked, a: dict, energy: dict, path: pd.DataFrame, peak_load_mw: np.ndarray
+    plan: Checked, a: dict, energy: dict, path: pd.DataFrame, sized: dict
 ) -> dict[str, np.ndarray]:
-    """NPV of the charging margin over the horizon, less the demand charges."""
+    """NPV of the charging margin over the horizon, less demand charges and operating cost.
+
+    The energy sold in a year is capped at what the sized ports can deliver
+    (ports x power x open hours x ``utilization_ceiling``): ports added for
+    later growth are not in the capital cost, so their sales are not counted.
+    """
     # En-route energy of a fully electric fleet at today's traffic, scaled by year.
     horizon = path.loc[path["in_horizon"]]
     full = plan.fields["trucks_per_day"] * energy["energy_per_pass_kwh"] * a["en_route_share"]
-    kwh = en_route_energy_per_year(
+    wanted = en_route_energy_per_year(
         full, horizon["electric_share"].to_numpy(), horizon["traffic_index"].to_numpy()
+    )
+    capacity = port_energy_capacity(
+        sized["ports"],
+        charger_power_kw=a["charger_power_kw"],
+        operating_hours_per_day=a["operating_hours_per_day"],
+        utilization_ceiling=a["utilization_ceiling"],
+    )
+    kwh = energy_sold_capped(wanted, capacity)
+    binds = wanted > capacity[:, None] * (1.0 + 1e-12)
+    years = horizon["year"].to_numpy()
+    first_capped = np.where(binds.any(axis=1), years[np.argmax(binds, axis=1)], np.nan)
+    last_capped = np.where(
+        binds.any(axis=1), years[binds.shape[1] - 1 - np.argmax(binds[:, ::-1], axis=1)], np.nan
     )
     margin = margin_npv_charging(
         kwh,
@@ -195,17 +220,28 @@ def _revenue(
         discount_rate=a["discount_rate"],
     )
     demand = demand_charge_npv_peak(
-        peak_load_mw * 1000.0,
+        sized["peak_load_mw"] * 1000.0,
         demand_charge_usd_per_kw_month=a["demand_charge_usd_per_kw_month"],
+        years=len(horizon),
+        discount_rate=a["discount_rate"],
+    )
+    opex = operating_cost_npv_ports(
+        sized["ports"],
+        port_opex_usd_per_yr=a["port_opex_usd_per_yr"],
         years=len(horizon),
         discount_rate=a["discount_rate"],
     )
     return {
         "en_route_kwh_first_year": kwh[:, 0],
         "en_route_kwh_horizon": kwh.sum(axis=1),
+        "energy_capacity_kwh_per_yr": capacity,
+        "energy_capped_from_year": first_capped,
+        "energy_capped_last_year": last_capped,
+        "energy_capped_kwh_horizon": (wanted - kwh).sum(axis=1),
         "margin_npv_usd": margin,
         "demand_charge_npv_usd": demand,
-        "revenue_npv_usd": margin - demand,
+        "operating_cost_npv_usd": opex,
+        "revenue_npv_usd": margin - demand - opex,
     }
 
 
@@ -213,7 +249,7 @@ def _sizing(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[st
     """The sizing stage: sites and ports, then grid and cost, then revenue."""
     out = _size(plan, a, energy, path)
     out.update(_grid_and_cost(plan, a, out))
-    out.update(_revenue(plan, a, energy, path, out["peak_load_mw"]))
+    out.update(_revenue(plan, a, energy, path, out))
     return out
 
 

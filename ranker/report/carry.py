@@ -18,9 +18,10 @@ file. What is carried:
   formula, macros and external links are left out (with a warning naming
   what was left out).
 
-A sheet with more than :data:`SHEET_CELLS` stored cells is not carried (with
-a warning), which bounds time and memory; chart sheets are kept only on the
-full copy.
+A planner's sheet that would take the streamed copy past :data:`SHEET_CELLS`
+stored cells is not carried (with a warning), which bounds time and memory;
+the sheets the tool reads are always carried. Chart sheets are kept only on
+the full copy.
 """
 
 from __future__ import annotations
@@ -37,8 +38,10 @@ from openpyxl.worksheet.datavalidation import DataValidationList
 #: Most stored cells (``<c>`` elements, styled empty ones included) of all
 #: sheets together for which the input is loaded whole, formatting and all [-].
 FULL_COPY_CELLS = 100_000
-#: Most stored cells of one sheet that is carried at all [-].
-SHEET_CELLS = 2_000_000
+#: Most stored cells of the planner's own sheets carried in all when the copy is
+#: streamed (about 250 bytes each in memory while the results workbook is built);
+#: the sheets the tool reads are always carried [-].
+SHEET_CELLS = 1_000_000
 #: The longest text a spreadsheet cell can hold [characters] (Microsoft,
 #: "Excel specifications and limits": 32,767 characters per cell).
 CELL_CHARS = 32_767
@@ -247,24 +250,29 @@ def _plain_formats(ws) -> int:
 
 def _value_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
     """Stream every worksheet's values and number formats into a new workbook."""
+    from ranker.workbook.schema import SHEETS, normalize_sheet_name
+
     counts = count_parts(snapshot)
     src = _load(snapshot, read_only=True)
     out = Workbook()
     out.remove(out.active)
-    cut = 0
+    cut = carried = 0
+    contract = {normalize_sheet_name(n) for n in SHEETS}
     try:
         for ws in src.worksheets:
             if ws.title in drop:
                 continue
             part = str(getattr(ws, "_worksheet_path", "")).lstrip("/")
             stored, _, last = counts.get(part, (0, 0, None))
-            if stored > SHEET_CELLS:
-                notes.append(
-                    f"{ws.title}: the sheet stores {stored:,} cells, over the "
-                    f"{SHEET_CELLS:,} carried into the results workbook; it was left out "
-                    "(the input file still has it)"
-                )
-                continue
+            if normalize_sheet_name(ws.title) not in contract:
+                if carried + stored > SHEET_CELLS:
+                    notes.append(
+                        f"{ws.title}: the sheet stores {stored:,} cells, which would take the "
+                        f"copy of your own sheets past {SHEET_CELLS:,} cells; it was left out "
+                        "of the results workbook (the input file still has it)"
+                    )
+                    continue
+                carried += stored
             target = out.create_sheet(ws.title)
             target.sheet_state = ws.sheet_state
             try:

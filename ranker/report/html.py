@@ -150,6 +150,7 @@ def build_html(result) -> str:
         "labels": narrative.method_labels(methods),
         "recommendation": narrative.recommendation(result),
         "brief": _brief(result),
+        "spread": narrative.spread_sentence(result),
         # Slot for a map on the brief (SVG text, drawn where it fits); "" = none.
         "brief_map": brief_map,
         "changed": [a for a in assumptions if a["set_by"] == "changed"],
@@ -172,6 +173,7 @@ def build_html(result) -> str:
                 "source": result.provenance.get(c.key, "given"),
                 "weight": result.weights.get(c.key, 0.0),
                 "weight_note": result.weight_notes().get(c.key, ""),
+                "full_credit": result.full_credit.get(c.key),
             }
             for c in result.criteria
         ],
@@ -238,7 +240,11 @@ def _since_last_run(result) -> dict | None:
     for part in ("inputs", "criteria", "moved"):
         only = {"previous": record["previous"], **{k: [] for k in ("inputs", "criteria", "moved")}}
         only[part] = record.get(part, [])
-        lines = describe(only, limit=CHANGE_LINES) if only[part] else []
+        lines = (
+            describe(only, limit=CHANGE_LINES, more="in the results workbook")
+            if only[part]
+            else []
+        )
         parts[part] = [x for x in lines if not x.startswith(("No corridor", "Nothing changed"))]
     return {"previous": record["previous"], **parts}
 

@@ -40,8 +40,9 @@ BENEFIT_SCALED = ("minmax", "max")
 SHEET = "Live weights"
 RECORD_LINE = (
     "The record of the decision is the run (the Ranking sheet and the justification "
-    "sheet), not this sheet: what you try here is not saved as a result until you run "
-    "the workbook again."
+    "sheet), not this sheet: the run does not read the weights typed here, and the next "
+    "run rewrites this sheet. To make them the run's weights, type them into a weight "
+    "column of the Criteria sheet and run the workbook again."
 )
 INPUT_FILL = PatternFill("solid", fgColor="FFF2CC")
 INPUT_FONT = Font(bold=True, color="1F4E79")
@@ -181,7 +182,9 @@ def live_sheet(writer, result) -> None:
         put(ws, ROW_HEAD, j, h).font = HEADER_FONT
     col_ws = FIRST_COL + k
     letters = [get_column_letter(col_ws + i) for i in range(len(extra) + len(tool))]
-    matrix = result.matrix.loc[ids, keys].to_numpy(dtype=float)
+    # The values as scored: past a full-credit level, at the level.
+    source = result.scored_matrix if result.scored_matrix is not None else result.matrix
+    matrix = source.loc[ids, keys].to_numpy(dtype=float)
     names = result.inputs.corridors.loc[ids, "name"]
     scores = s.scores
     used = f"${c0}${ROW_USED}:${c1}${ROW_USED}"

@@ -159,7 +159,9 @@ def strongest_weakest(result, cid) -> tuple[str, str]:
     from ..score.normalize import normalize_minmax
 
     keys = [c.key for c in result.criteria if c.key in result.scores.weights]
-    scored = result.matrix.loc[result.scores.rank.index, keys]
+    # Positions on the values as scored (past a full-credit level, at the level).
+    source = result.scored_matrix if result.scored_matrix is not None else result.matrix
+    scored = source.loc[result.scores.rank.index, keys]
     if cid not in scored.index or not keys:
         return "", ""
     benefit = np.array([c.is_benefit for c in result.criteria if c.key in keys])
@@ -239,6 +241,15 @@ def method_labels(methods) -> dict:
     return {m: METHODS[m].label if m in METHODS else m for m in methods}
 
 
+def _shown(value) -> str:
+    """A default as the note quotes it: ``288,000`` rather than ``288000.0``."""
+    if isinstance(value, float) and value.is_integer() and abs(value) < 1e15:
+        return f"{value:,.0f}"
+    if isinstance(value, float):
+        return f"{value:,.6g}"
+    return str(value)
+
+
 def assumptions_used(result) -> list[dict]:
     """Every assumption with the value used, whether it is the default, and the default.
 
@@ -272,7 +283,7 @@ def assumptions_used(result) -> list[dict]:
                 "unit": a.unit,
                 "set_by": "changed" if changed else "default",
                 "default": default if changed else "",
-                "note": f"The default ({default}): {a.note}" if changed else a.note,
+                "note": f"The default ({_shown(default)}): {a.note}" if changed else a.note,
             }
         )
     return rows
@@ -426,3 +437,85 @@ def provenance_line(result) -> str:
         f"{result.inputs.sha256[:12]}...); run {result.started}; {result.samples:,} samples, "
         f"seed {result.seed}; full detail in the appendices and the results workbook."
     )
+
+
+def saturation_warnings(counts: dict, levels: dict, specs: dict) -> list[str]:
+    """Say, per criterion whose full-credit level binds, how many corridors it caps."""
+    out = []
+    for key, count in counts.items():
+        if not count:
+            continue
+        spec = specs[key]
+        side = "above" if spec.is_benefit else "below"
+        out.append(
+            f"{spec.label}: {count} corridor{'s' if count != 1 else ''} {side} the full-credit "
+            f"level {fmt(levels[key])} score as if at it (Criteria full_credit_at"
+            + (", default for grid headroom" if key == "grid_headroom" else "")
+            + ")."
+        )
+    return out
+
+
+def diagnostic_warnings(diagnostics: dict, labels: dict) -> list[str]:
+    """Warn when one criterion carries most of the spread, or two count one fact twice."""
+    from ..score.diagnostics import DOMINANT_SHARE, STRONG_RHO
+
+    out = []
+    for key, share in diagnostics.get("spread_share", {}).items():
+        if share > DOMINANT_SHARE:
+            out.append(
+                f"{labels.get(key, key)} carries {share_text(share)} of the spread of the "
+                f"weighted scores (more than {share_text(DOMINANT_SHARE)}): it decides most of "
+                "the order on its own; check its values and consider a full_credit_at level."
+            )
+    for p in diagnostics.get("correlated", []):
+        out.append(
+            f"{labels.get(p['a'], p['a'])} and {labels.get(p['b'], p['b'])} are strongly "
+            f"rank-correlated across corridors (Spearman rho {p['rho']:.2f}, beyond "
+            f"+-{STRONG_RHO:g}): they may count the same fact twice."
+        )
+    return out
+
+
+def spread_sentence(result) -> str:
+    """Say each criterion's share of the spread of the weighted scores, largest first."""
+    shares = result.diagnostics.get("spread_share", {})
+    if not shares:
+        return ""
+    labels = {c.key: c.label for c in result.criteria}
+    parts = [
+        f"{labels.get(k, k)} {share_text(v)}"
+        for k, v in sorted(shares.items(), key=lambda kv: -kv[1])
+    ]
+    return (
+        "Share of the spread of the weighted scores (how much each criterion separates the "
+        "corridors): " + "; ".join(parts) + "."
+    )
+
+
+#: Corridors named in the energy-cap warning; the rest are counted.
+CAP_NAMED = 8
+
+
+def energy_cap_warnings(sizing, names) -> list[str]:
+    """Name the corridors and years where the ports cap the energy sold (revenue NPV)."""
+    if "energy_capped_from_year" not in sizing:
+        return []
+    capped = sizing["energy_capped_from_year"].dropna().sort_values(kind="stable")
+    if not len(capped):
+        return []
+    last = (
+        int(sizing["energy_capped_last_year"].max())
+        if "energy_capped_last_year" in sizing
+        else None
+    )
+    parts = [f"{names.get(c, c)} ({c}) from {int(y)}" for c, y in capped.iloc[:CAP_NAMED].items()]
+    more = len(capped) - CAP_NAMED
+    text = (
+        "Revenue counts only the energy the sized ports can deliver (ports x power x open hours "
+        "x utilization_ceiling); the trucks would buy more in later years for "
+        + listing(parts + ([f"{more} more corridors"] if more > 0 else []))
+        + (f", through {last}" if last else "")
+        + ". Selling it would need ports the capital cost does not include."
+    )
+    return [text]

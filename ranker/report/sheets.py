@@ -137,6 +137,9 @@ def weights_sheet(writer, result) -> None:
     frame = pd.DataFrame(index=pd.Index(keys, name="criterion"))
     frame["label"] = [c.label for c in result.criteria]
     frame["used [-]"] = [result.weights.get(k, 0.0) for k in keys]
+    frame["full credit at"] = [result.full_credit.get(k) for k in keys]
+    spread = result.diagnostics.get("spread_share", {})
+    frame["share of the score spread [-]"] = [spread.get(k, 0.0) for k in keys]
     notes = result.weight_notes()
     if any(notes.values()):
         frame["chosen [-]"] = [result.chosen_weights.get(k, 0.0) for k in keys]
@@ -387,6 +390,25 @@ def plan_sheet(writer, result) -> None:
     writer.table(ws, corridors, top=bottom + 1, index_label="corridor_id", name="plan_corridors")
 
 
+#: Lines of each part of "what changed" on the Run info sheet (the JSON summary has all).
+RUN_INFO_CHANGES = 2000
+
+
+def run_info_changes(result) -> list[str]:
+    """The "changes since the last run" lines of the Run info sheet."""
+    from ..changes import describe
+
+    previous = result.change_record.get("previous")
+    if not previous:
+        return ["no earlier results workbook to compare with"]
+    lines = describe(
+        result.change_record,
+        limit=RUN_INFO_CHANGES,
+        more="the JSON summary of ranker run --json lists all",
+    )
+    return [f"compared with {previous}"] + lines
+
+
 def run_info_sheet(writer, result) -> None:
     """Version, input SHA-256, seed, samples, timestamp, assumptions, every warning."""
     ws = writer.sheet("Run info", "Run information")
@@ -411,7 +433,7 @@ def run_info_sheet(writer, result) -> None:
         put(ws, i, 2, v)
     row = 4 + len(info) + 1
     put(ws, row, 1, "Changes since the last run").font = HEADER_FONT
-    changes = result.changes or ["no earlier results workbook to compare with"]
+    changes = run_info_changes(result)
     for i, line in enumerate(changes, start=row + 1):
         put(ws, i, 1, line)
     row += len(changes) + 2

@@ -85,6 +85,7 @@ def summary_json(result) -> dict:
                 "label": c.label,
                 "direction": c.direction,
                 "source": result.provenance.get(c.key, "given"),
+                "full_credit_at": result.full_credit.get(c.key),
             }
             for c in result.criteria
         },
@@ -99,6 +100,7 @@ def summary_json(result) -> dict:
             for w in result.weight_sets
         ],
         "robustness": robustness,
+        "diagnostics": result.diagnostics,
         "rank_acceptability": {},
         "excluded": result.excluded,
         "ties": s.ties,

@@ -221,6 +221,7 @@ def read_criteria(
                 at_least=lo,
                 at_most=hi,
                 row=r,
+                full_credit_at=rec.get("full_credit_at"),
             )
         )
     if specs and not any(s.include for s in specs):

@@ -91,7 +91,7 @@ _OLE = bytes.fromhex("D0CF11E0A1B11AE1")
 _XML_PARTS = (".xml", ".rels", ".vml")
 _FORMULA = re.compile(rb"<(?:\w+:)?f[\s>/]")
 _MERGE = re.compile(rb'<(?:\w+:)?mergeCell\s[^>]*?ref="([A-Za-z]+\d+(?::[A-Za-z]+\d+)?)"')
-_ROW_TAG = re.compile(rb"<(?:\w+:)?row\s[^>]*>")
+_HIDDEN_ROW_TAG = re.compile(rb'<(?:\w+:)?row\s[^>]*\bhidden="[^>]*>')
 _COL_TAG = re.compile(rb"<(?:\w+:)?col\s[^>]*>")
 _ATTR = re.compile(rb'(\w+)="([^"]*)"')
 _NS_MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
@@ -546,74 +546,84 @@ def _join(folder: str, target: str) -> str:
     return "/".join(parts)
 
 
-_CELL_XML = re.compile(rb"<(?:\w+:)?c\b([^>]*?)(?:/>|>(.*?)</(?:\w+:)?c>)", re.S)
+#: A formula cell with no value, or an empty one, that is not a text result (t="str"
+#: with an empty value is a saved empty text): an unsaved formula.
+_UNSAVED = re.compile(
+    rb'<(?:\w+:)?c\b(?P<a>(?:(?!t="str")[^>/])*)>\s*'
+    rb"<(?:\w+:)?f\b[^>]*?(?:/>|>(?P<f>[^<]*)</(?:\w+:)?f>)\s*"
+    rb"(?:<(?:\w+:)?v\s*/>|<(?:\w+:)?v>\s*</(?:\w+:)?v>)?\s*</(?:\w+:)?c>"
+)
 _CELL_REF = re.compile(rb'\sr="([A-Za-z]{1,3})(\d+)"')
-_F_TEXT = re.compile(rb"<(?:\w+:)?f\b[^>]*?(?:/>|>(.*?)</(?:\w+:)?f>)", re.S)
-_V_TEXT = re.compile(rb"<(?:\w+:)?v\b[^>]*?(?:/>|>(.*?)</(?:\w+:)?v>)", re.S)
-_STR_TYPE = re.compile(rb'\st="str"')
 
 
 def _unsaved_formulas(xml: bytes) -> dict[tuple[int, int], str]:
     """Find the formula cells stored without a value (``<f>`` and no or an empty ``<v>``).
 
-    An empty ``<v>`` of a text cell (``t="str"``) is a saved empty result.
-
-    One regular-expression pass over the sheet's XML, instead of a second
-    parse of every row.
+    An empty ``<v>`` of a text cell (``t="str"``) is a saved empty result. One
+    regular-expression search of the sheet's XML, instead of a second parse of
+    every row; only the cells it finds reach Python.
     """
     from html import unescape
 
     from openpyxl.utils import column_index_from_string
 
     out: dict[tuple[int, int], str] = {}
-    for m in _CELL_XML.finditer(xml):
-        body = m.group(2)
-        if not body or b"<" not in body:
-            continue
-        f = _F_TEXT.search(body)
-        if f is None:
-            continue
-        v = _V_TEXT.search(body)
-        if v is not None and (v.group(1) or _STR_TYPE.search(m.group(1))):
-            continue  # a saved value, or a saved empty text result
-        ref = _CELL_REF.search(m.group(1))
+    for m in _UNSAVED.finditer(xml):
+        ref = _CELL_REF.search(m.group("a"))
         if ref is None:
             continue
-        text = unescape((f.group(1) or b"").decode("utf-8", "replace")).strip()
+        text = unescape((m.group("f") or b"").decode("utf-8", "replace")).strip()
         pos = (int(ref.group(2)), column_index_from_string(ref.group(1).decode().upper()))
         out[pos] = f"={text}" if text else "(a shared formula)"
     return out
 
 
-#: A row's number, or a stored value (a ``<v>`` with content, or an inline string).
-ROW_OR_VALUE = re.compile(rb"<(?:\w+:)?row\b([^>]*)>|<(?:\w+:)?v(?:\s[^>]*)?>[^<]|<(?:\w+:)?is>")
+#: A row's start tag, and a stored value (a ``<v>`` with content, or an inline string).
+_ROW_START = re.compile(rb"<(?:\w+:)?row\b([^>]*)>")
+_VALUE_TAG = re.compile(rb"<(?:\w+:)?v(?:\s[^>]*)?>[^<]|<(?:\w+:)?is>")
 _ROW_NUMBER = re.compile(rb'\sr="(\d+)"')
+
+
+def _row_before(block: bytes, end: int) -> tuple[bool, int | None]:
+    """Find the last row start tag before ``end``: (found, its number or None)."""
+    at = max(block.rfind(b"<row", 0, end), block.rfind(b":row", 0, end))
+    while at >= 0:
+        start = at if block[at : at + 1] == b"<" else block.rfind(b"<", 0, at)
+        m = _ROW_START.match(block, max(start, 0))
+        if m is not None and m.end() <= end:
+            n = _ROW_NUMBER.search(m.group(1))
+            return True, int(n.group(1)) if n else None
+        at = max(block.rfind(b"<row", 0, at), block.rfind(b":row", 0, at))
+    return False, None
 
 
 def last_value_row(chunks) -> int | None:
     """Return the last row of a sheet's XML that holds a stored value (0 for none).
 
     ``chunks`` is an iterable of byte strings read in order (a whole part may
-    be one chunk). None when a row before a value carries no number, so the
-    answer cannot be told without parsing. Empty cells (formatted only) and
-    formulas whose saved result is empty text hold no value.
+    be one chunk). None when that row's tag carries no number, so the answer
+    cannot be told without parsing. Empty cells (formatted only) and formulas
+    whose saved result is empty text hold no value. The value search runs in
+    the regular-expression engine and the row is found by searching back
+    from the last value, so a million rows cost well under a second.
     """
-    row: int | None = 0
+    from collections import deque
+
     last: int | None = 0
+    row: int | None = 0  # the number of the last row tag seen in earlier chunks
     block = b""
     for chunk in [*chunks, b""]:
         block += chunk
-        # Near the end of a chunk a tag may be cut; it is matched with the next one.
+        # Near a chunk's end a tag may be cut; that stretch is searched again next time.
         stop = len(block) if not chunk else max(0, len(block) - 256)
-        end = 0
-        for m in ROW_OR_VALUE.finditer(block, 0, stop):
-            end = m.end()
-            if m.group(1) is not None:
-                n = _ROW_NUMBER.search(m.group(1))
-                row = int(n.group(1)) if n else None
-            else:
-                last = row
-        block = block[max(end, stop - 256, 0) :]
+        value = deque(_VALUE_TAG.finditer(block, 0, stop), maxlen=1)
+        if value:
+            found, number = _row_before(block, value[0].start())
+            last = number if found else row
+        found, number = _row_before(block, stop)
+        if found:
+            row = number
+        block = block[max(stop - 256, 0) :]
     return last
 
 
@@ -623,7 +633,7 @@ def _scan_sheet(xml: bytes, part: _Part) -> None:
     if part.has_formulas:
         part.unsaved = _unsaved_formulas(xml)
     part.merges = [m.group(1).decode().upper() for m in _MERGE.finditer(xml)]
-    for m in _ROW_TAG.finditer(xml):
+    for m in _HIDDEN_ROW_TAG.finditer(xml):  # only the row tags that say hidden
         attrs = dict(_ATTR.findall(m.group(0)))
         if attrs.get(b"hidden") in (b"1", b"true") and attrs.get(b"r", b"").isdigit():
             part.hidden_rows.add(int(attrs[b"r"]))

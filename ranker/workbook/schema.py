@@ -366,6 +366,17 @@ CRITERIA_FIELDS = (
         width=11,
         percent="share",
     ),
+    _f(
+        "full_credit_at",
+        "",
+        "number",
+        False,
+        "Optional level in the criterion's own unit at which credit stops: a benefit above it, or "
+        "a cost below it, scores as if it were at the level. Blank: no level (grid_headroom: "
+        "the assumption grid_headroom_full_credit_at, 2).",
+        width=14,
+        percent="share",
+    ),
 )
 
 ADOPTION_FIELDS = (

@@ -45,6 +45,9 @@ class CriterionSpec:
         analysis [%], for example ``10.0`` for +-10 %.
     at_least, at_most : float or None
         Must-meet limits in the criterion's own unit.
+    full_credit_at : float or None
+        Level at which credit stops (a benefit above it, a cost below it,
+        scores as the level), in the criterion's own unit; None for none.
     row : int
         Row of the ``Criteria`` sheet it came from (for messages).
     """
@@ -57,6 +60,7 @@ class CriterionSpec:
     at_least: float | None = None
     at_most: float | None = None
     row: int = 0
+    full_credit_at: float | None = None
 
     @property
     def is_benefit(self) -> bool:

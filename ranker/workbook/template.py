@@ -136,8 +136,9 @@ def _instructions(wb: Workbook) -> None:
         (
             "3.",
             "Optional sheets: Jurisdictions and Corridor miles (for policy_readiness), "
-            "Assumptions (change a value, or leave it blank for the default), Adoption, Pairwise, "
-            "Budget and Scenarios.",
+            "Assumptions (type a value beside its default, or leave it blank for the default), "
+            "Adoption, Pairwise, Budget and Scenarios; Places (latitude and longitude of the "
+            "places named in connects) for the map and the GeoJSON file of the results.",
             False,
         ),
         (
@@ -148,14 +149,16 @@ def _instructions(wb: Workbook) -> None:
         ),
         (
             "5.",
-            "Run:  ranker run THIS_FILE.xlsx  - it writes the ranked workbook and the "
-            "justification sheet beside this file. This file is never changed.",
+            "Run:  ranker run THIS_FILE.xlsx  - it writes THIS_FILE-ranked.xlsx and "
+            "THIS_FILE-ranked.html beside this file. This file is never changed.",
             False,
         ),
         (
             "6.",
-            "Adjust the weights (or pick another set with --weights NAME) and run again; the "
-            "outputs show how the order moves.",
+            "Adjust the weights or any value, here or in THIS_FILE-ranked.xlsx, and run that "
+            "file again (running the ranked workbook refreshes it in place); or pick another "
+            "set with --weights NAME, or give one criterion its final share in percent with "
+            "--weight KEY=SHARE. Every run says what changed since the last one.",
             False,
         ),
         ("", "", False),
@@ -303,8 +306,8 @@ def build_template() -> Workbook:
     return wb
 
 
-def write_template(path: Path) -> None:
-    """Write the blank input workbook.
+def write_template(path: Path, *, network=None) -> None:
+    """Write the blank input workbook, or one pre-filled from a GIS file.
 
     The file is written to a temporary name in the same folder and moved
     into place, so a failed write leaves no half-written file.
@@ -313,6 +316,10 @@ def write_template(path: Path) -> None:
     ----------
     path : Path
         Where to write the ``.xlsx`` file; its folder must exist.
+    network : ranker.geo.importer.Network, optional
+        Corridors, places and lines read from a GIS file
+        (:func:`ranker.geo.importer.read_network`); they fill the Corridors,
+        Places and (hidden) Geometry sheets.
 
     Examples
     --------
@@ -320,6 +327,10 @@ def write_template(path: Path) -> None:
     """
     path = Path(path)
     wb = build_template()
+    if network is not None:
+        from ranker.geo.importer import fill_workbook
+
+        fill_workbook(wb, network)
     fd, tmp = tempfile.mkstemp(prefix=".~" + path.stem, suffix=".xlsx", dir=path.parent)
     os.close(fd)
     try:

@@ -107,8 +107,49 @@ def test_revenue_of_a_one_year_horizon_by_hand():
     a = resolve({})
     kwh = 365 * 5400 * a["initial_electric_share"] * s["energy_per_pass_kwh"] * 0.3
     assert s["en_route_kwh_first_year"] == pytest.approx(kwh)
-    want = kwh * (0.45 - 0.15) - 12 * 10.0 * s["peak_load_mw"] * 1000
+    opex = s["ports"] * a["port_opex_usd_per_yr"]  # one year, undiscounted
+    want = kwh * (0.45 - 0.15) - 12 * 10.0 * s["peak_load_mw"] * 1000 - opex
     assert d.values.loc["K3", "charging_revenue"] == pytest.approx(want)
+
+
+def test_operating_cost_by_hand():
+    """Three years at 7 %: ports x opex x (1 + 1/1.07 + 1/1.07^2) (present worth of a series)."""
+    d = _full(horizon_years=3, port_opex_usd_per_yr=5000.0, discount_rate=0.07)
+    s = d.sizing
+    factor = 1 + 1 / 1.07 + 1 / 1.07**2
+    np.testing.assert_allclose(s["operating_cost_npv_usd"], s["ports"] * 5000.0 * factor)
+    np.testing.assert_allclose(
+        s["revenue_npv_usd"],
+        s["margin_npv_usd"] - s["demand_charge_npv_usd"] - s["operating_cost_npv_usd"],
+    )
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    wanted=st.lists(st.floats(0.0, 1e7), min_size=2, max_size=15),
+    cap=st.floats(1.0, 1e7),
+    rate=st.floats(0.0, 0.15),
+)
+def test_doubling_demand_after_the_cap_binds_leaves_revenue_unchanged(wanted, cap, rate):
+    """Years already at the ports' capacity sell the same when the trucks want twice as much."""
+    from ranker.derive.revenue import energy_sold_capped, margin_npv_charging
+
+    w = np.array([wanted])
+    doubled = np.where(w >= cap, 2 * w, w)
+    price = {"charging_price_usd_per_kwh": 0.45, "energy_cost_usd_per_kwh": 0.15}
+    one = margin_npv_charging(energy_sold_capped(w, [cap]), discount_rate=rate, **price)
+    two = margin_npv_charging(energy_sold_capped(doubled, [cap]), discount_rate=rate, **price)
+    assert two == pytest.approx(one, rel=1e-12)
+
+
+def test_the_derived_cap_is_ports_times_power_hours_and_ceiling():
+    """With a tiny ceiling every year sells exactly the ports' capacity."""
+    a = resolve({"utilization_ceiling": 0.001})
+    s = derive_criteria(make_inputs(three_corridors()), a, ["charging_revenue"]).sizing
+    assert (s["energy_capped_from_year"] == a["analysis_year"]).all()  # binds from year 0
+    cap = s["ports"] * a["charger_power_kw"] * a["operating_hours_per_day"] * 365 * 0.001
+    np.testing.assert_allclose(s["en_route_kwh_first_year"], cap, rtol=1e-12)
+    np.testing.assert_allclose(s["en_route_kwh_horizon"], cap * a["horizon_years"], rtol=1e-12)
 
 
 def test_traffic_growth_raises_the_sizing_year_counts():
@@ -191,7 +232,11 @@ def test_doubling_length_with_everything_per_mile_equal_doubles_energy(length, c
             "climb_ft": [climb_per_mi * length, 2 * climb_per_mi * length],
         }
     )
-    d = derive_criteria(inp, resolve({}), ["charging_revenue", "terrain_penalty"])
+    # A ceiling of 1 keeps the ports' energy cap out of the way (ports are whole numbers).
+    d = derive_criteria(
+        inp, resolve({"utilization_ceiling": 1.0}), ["charging_revenue", "terrain_penalty"]
+    )
+    assert d.sizing["energy_capped_from_year"].isna().all()
     for col in (
         "energy_per_pass_kwh",
         "en_route_kwh_per_day",

@@ -89,8 +89,9 @@ CLASSES: dict[int, tuple[str, str]] = {
         "parsing; formulas saved without a value are found in the same search. The input "
         f"sheets are copied with their formatting up to {carry.FULL_COPY_CELLS:,} stored "
         "cells in all, beyond that as values and number formats streamed a row at a time "
-        f"(with a warning), and a sheet of more than {carry.SHEET_CELLS:,} stored cells is "
-        "left out of the results workbook with a warning (the input keeps it). "
+        "(with a warning); a sheet of the planner's own that would take that copy past "
+        f"{carry.SHEET_CELLS:,} stored cells is left out of the results workbook with a "
+        "warning (the input keeps it; the sheets the tool reads are always carried). "
         "`python bench/odd.py` measures this.",
     ),
     6: (

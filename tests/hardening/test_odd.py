@@ -164,6 +164,7 @@ def test_large_input_is_streamed_as_values(tmp_path, monkeypatch):
     assert outcome.code == 0, outcome.err
     assert any("values and number formats only" in w for w in outcome.warnings)
     assert any("Big notes: the sheet stores 600 cells" in w for w in outcome.warnings)
+    assert not any("Corridors: the sheet" in w for w in outcome.warnings)  # always carried
     xlsx = tmp_path / "out" / "input-ranked.xlsx"
     wb = load_workbook(xlsx)
     assert "Big notes" not in wb.sheetnames
@@ -282,3 +283,29 @@ def test_writer_cuts_text_to_a_cell(tmp_path):
 def test_valid_sheets_helper_is_valid(tmp_path):
     path = write_book(tmp_path / "v.xlsx", valid_sheets())
     assert run("check", path).code == 0
+
+
+def test_command_line_ends_with_default_ctrl_c_and_plain_library_warnings(monkeypatch, capsys):
+    """On the real command line (no argv given): a library's warning prints as one line
+    without a source path, and once main returns, Ctrl-C during interpreter shutdown
+    ends the process by the default action, not with a traceback."""
+    import sys
+    import warnings
+
+    def noisy(args):
+        warnings.warn("divide by zero encountered", RuntimeWarning, stacklevel=1)
+        return 0
+
+    monkeypatch.setitem(ranker.cli.COMMANDS, "check", noisy)
+    monkeypatch.setattr(sys, "argv", ["ranker", "check", "x.xlsx"])
+    previous = signal.getsignal(signal.SIGINT)
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("always")
+            assert ranker.cli.main() == 0
+        assert signal.getsignal(signal.SIGINT) is signal.SIG_DFL
+    finally:
+        signal.signal(signal.SIGINT, previous)
+    err = capsys.readouterr().err
+    assert "warning: RuntimeWarning: divide by zero encountered" in err
+    assert ".py:" not in err and "site-packages" not in err

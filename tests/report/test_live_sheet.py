@@ -98,7 +98,7 @@ def test_libreoffice_recalculation_equals_the_tools_scores(tmp_path, normalisati
         target.parent.mkdir(exist_ok=True)
         book.save(target)
         files.append(target)
-    kept = result.matrix.loc[ids, keys]
+    kept = result.scored_matrix.loc[ids, keys]  # as scored: full-credit levels applied
     for m, recalculated in enumerate(_recalculate(files, tmp_path)):
         sheet_ids, values = _read(recalculated, n, k)
         assert sheet_ids == ids

@@ -32,7 +32,7 @@ def _ranks(result, weights):
     kept = result.scores.rank.index
     keys = list(weights)
     return score_matrix(
-        result.matrix.loc[kept, keys], result.criteria, dict(weights), result.assumptions
+        result.scored_matrix.loc[kept, keys], result.criteria, dict(weights), result.assumptions
     ).rank
 
 

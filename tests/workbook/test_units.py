@@ -4,9 +4,10 @@ from __future__ import annotations
 
 import datetime as dt
 import math
+import re
 
 import pytest
-from hypothesis import given, settings
+from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
 from ranker import constants as C
@@ -101,6 +102,9 @@ def test_numbers_beyond_the_largest_are_refused(x):
 @given(st.floats(min_value=-1e6, max_value=1e6, allow_nan=False))
 def test_percent_sign_follows_the_field(x):
     text = f"{x!r}%"
+    # "1.125" reads as 1125 with a point for thousands as well as 1.125: refused as
+    # ambiguous (docs/input-errors.md), so such texts are not a percent case.
+    assume(not re.fullmatch(r"-?\d{1,3}\.\d{3}%", text))
     assert U.parse_number(text, percent="points") == x
     assert U.parse_number(text, percent="share") == pytest.approx(x / 100, rel=1e-15, abs=0)
     with pytest.raises(U.CellValueError):
