@@ -30,8 +30,7 @@ def synthetic(path: Path, n: int, seed: int = 5, *, criteria: int = 5) -> Path:
     import numpy as np
     from openpyxl import load_workbook
 
-    from ranker.demo import fill_sheet
-    from ranker.workbook.template import write_template
+    from ranker.workbook.template import fill_sheet, write_template
 
     rng = np.random.default_rng(seed)
     write_template(path)

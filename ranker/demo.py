@@ -28,6 +28,7 @@ from .workbook.tables import (
     PLACES,
     SCENARIOS,
 )
+from .workbook.template import fill_sheet
 
 DEMO_NAME = "tessaly-basin.xlsx"
 
@@ -308,26 +309,6 @@ SCENARIO_ROWS = [
     ("dear chargers", "port_cost_usd", 420000),
     ("dear chargers", "site_cost_usd", 2500000),
 ]
-
-
-def fill_sheet(ws, rows: list[dict]) -> None:
-    """Replace a sheet's data rows; add header cells for keys the sheet lacks."""
-    headers = {}
-    for cell in ws[1]:
-        if cell.value is not None:
-            headers[str(cell.value).strip().lower()] = cell.column
-    if ws.max_row > 1:
-        ws.delete_rows(2, ws.max_row - 1)
-    for row in rows:
-        for key in row:
-            if key not in headers:
-                col = max(headers.values(), default=0) + 1
-                ws.cell(row=1, column=col, value=key)
-                headers[key] = col
-    for i, row in enumerate(rows, start=2):
-        for key, value in row.items():
-            if value is not None:
-                ws.cell(row=i, column=headers[key], value=value)
 
 
 def build_demo_bytes() -> bytes:

@@ -7,8 +7,7 @@ from pathlib import Path
 import pytest
 from openpyxl import load_workbook
 
-from ranker.demo import fill_sheet
-from ranker.workbook.template import write_template
+from ranker.workbook.template import fill_sheet, write_template
 
 # Three invented corridors with criteria given directly (no derivation).
 DIRECT_CORRIDORS = [

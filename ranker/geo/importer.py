@@ -33,6 +33,7 @@ from pathlib import Path
 from ..errors import InputError, Problem
 from ..workbook import tables as T
 from ..workbook.schema import SHEETS, normalize_key
+from ..workbook.template import fill_sheet
 from .geodesic import geodesic_m, line_length_mi
 
 #: Line ends closer than this are one place [m] (common practice: GIS
@@ -456,16 +457,5 @@ def fill_workbook(wb, net: Network) -> None:
         (T.PLACES, net.places),
         (T.GEOMETRY, net.geometry),
     ):
-        ws = wb[sheet]
-        headers = {str(c.value).strip().lower(): c.column for c in ws[1] if c.value is not None}
-        for row in rows:
-            for key in row:
-                if key not in headers:
-                    col = max(headers.values(), default=0) + 1
-                    ws.cell(row=1, column=col, value=key)
-                    headers[key] = col
-        for r, row in enumerate(rows, start=2):
-            for key, value in row.items():
-                if value is not None:
-                    ws.cell(row=r, column=headers[key], value=value)
+        fill_sheet(wb[sheet], rows)
     wb[T.GEOMETRY].sheet_state = "hidden"

@@ -289,6 +289,29 @@ def _fill_pairwise(wb: Workbook) -> None:
     ws.freeze_panes = "B2"
 
 
+def fill_sheet(ws, rows: list[dict]) -> None:
+    """Replace a sheet's data rows; add header cells for keys the sheet lacks.
+
+    Headers match as typed lower case; ``None`` values leave their cell empty.
+    """
+    headers = {}
+    for cell in ws[1]:
+        if cell.value is not None:
+            headers[str(cell.value).strip().lower()] = cell.column
+    if ws.max_row > 1:
+        ws.delete_rows(2, ws.max_row - 1)
+    for row in rows:
+        for key in row:
+            if key not in headers:
+                col = max(headers.values(), default=0) + 1
+                ws.cell(row=1, column=col, value=key)
+                headers[key] = col
+    for i, row in enumerate(rows, start=2):
+        for key, value in row.items():
+            if value is not None:
+                ws.cell(row=i, column=headers[key], value=value)
+
+
 def build_template() -> Workbook:
     """Return the blank input workbook as an openpyxl Workbook (not saved)."""
     wb = Workbook()
