@@ -334,7 +334,7 @@ def build_network(
     seen: dict[str, str] = {}
     ignored: set[str] = set()
     lengths_given = False
-    ends: list[tuple[float, float]] = []
+    ends = _Ends(join_m)
     place_of: list[int] = []
     for label, geom, props in features:
         if len(problems) >= MAX_PROBLEMS:
@@ -396,11 +396,11 @@ def build_network(
                 {"corridor_id": cid, "part": j, "lon": lon, "lat": lat} for lon, lat in pts
             )
         for end in (parts[0][0], parts[-1][-1]):
-            place_of.append(_join(end, ends, join_m))
+            place_of.append(ends.join(end))
     if problems:
         raise InputError(problems)
-    width = max(2, len(str(len(ends))))
-    for k, (lon, lat) in enumerate(ends):
+    width = max(2, len(str(len(ends.points))))
+    for k, (lon, lat) in enumerate(ends.points):
         p = f"P{k + 1:0{width}d}"
         net.places.append({"place": p, "name": p, "lat": lat, "lon": lon})
     for i, row in enumerate(net.corridors):
@@ -440,14 +440,36 @@ def build_network(
     return net
 
 
-def _join(end: tuple[float, float], ends: list[tuple[float, float]], join_m: float) -> int:
-    """Index of the place within ``join_m`` of ``end`` (added when none is) [-]."""
-    lon, lat = end
-    for k, (lo, la) in enumerate(ends):
-        if abs(la - lat) <= join_m / 110_000.0 and geodesic_m(lon, lat, lo, la) <= join_m:
-            return k
-    ends.append(end)
-    return len(ends) - 1
+class _Ends:
+    """Line ends met so far, with an index by latitude band for joining nearby ends.
+
+    An end joins the first earlier end (in the order met) within ``join_m``; only
+    ends within ``join_m / 110 km`` of its latitude can be that near, so only the
+    neighbouring latitude bands are searched, and joining n ends costs about n
+    look-ups instead of n^2 / 2.
+    """
+
+    def __init__(self, join_m: float):
+        self.join_m = join_m
+        self.reach = join_m / 110_000.0  # [deg] latitude within reach (at least 110 km a degree)
+        self.band = max(self.reach, 1e-12)  # [deg] width of one band of the index
+        self.points: list[tuple[float, float]] = []
+        self.by_band: dict[int, list[int]] = {}
+
+    def join(self, end: tuple[float, float]) -> int:
+        """Index of the place within ``join_m`` of ``end`` (added when none is) [-]."""
+        lon, lat = end
+        key = math.floor(lat / self.band)
+        near = sorted(
+            k for b in (key - 1, key, key + 1) for k in self.by_band.get(b, ())
+        )  # the ends in the bands around, in the order met
+        for k in near:
+            lo, la = self.points[k]
+            if abs(la - lat) <= self.reach and geodesic_m(lon, lat, lo, la) <= self.join_m:
+                return k
+        self.points.append(end)
+        self.by_band.setdefault(key, []).append(len(self.points) - 1)
+        return len(self.points) - 1
 
 
 def fill_workbook(wb, net: Network) -> None:

@@ -230,3 +230,37 @@ def test_missing_gis_extra_says_how_to_install_it(tmp_path, monkeypatch, capsys)
 def test_id_property_without_from_is_refused(tmp_path, capsys):
     assert main(["template", str(tmp_path / "t.xlsx"), "--id-property", "x"]) == 2
     assert "needs --from" in capsys.readouterr().err
+
+
+def test_joining_ends_by_latitude_band_equals_the_search_over_all_earlier_ends():
+    """The band index finds the same first end within reach as scanning every earlier end."""
+    import random
+
+    from ranker.geo.geodesic import geodesic_m
+    from ranker.geo.importer import _Ends
+
+    rng = random.Random(5)
+    for join_m in (0.0, 50.0, 2_000.0):
+        ends = _Ends(join_m)
+        seen: list[tuple[float, float]] = []
+        for _ in range(400):
+            if seen and rng.random() < 0.5:  # near an earlier end, within or beyond reach
+                lon, lat = rng.choice(seen)
+                end = (lon + rng.uniform(-3e-4, 3e-4), lat + rng.uniform(-3e-4, 3e-4))
+            else:
+                end = (rng.uniform(10.0, 10.2), rng.uniform(45.0, 45.2))
+            expect = next(
+                (
+                    k
+                    for k, (lo, la) in enumerate(seen)
+                    if abs(la - end[1]) <= join_m / 110_000.0
+                    and geodesic_m(end[0], end[1], lo, la) <= join_m
+                ),
+                None,
+            )
+            got = ends.join(end)
+            if expect is None:
+                seen.append(end)
+                assert got == len(seen) - 1
+            else:
+                assert got == expect
