@@ -153,11 +153,9 @@ def rank_inputs(
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
         warnings.extend(plan.warnings)
 
-    from .geo.network import corridor_network, network_warnings
+    from .geo.network import network_warnings
 
-    warnings.extend(network_warnings(corridor_network(inputs), inputs))
-
-    return Result(
+    result = Result(
         inputs=inputs,
         assumptions=assumptions,
         weight_set=chosen.name,
@@ -177,11 +175,14 @@ def rank_inputs(
         robustness=robustness,
         futures=futures,
         plan=plan,
-        warnings=_unique(warnings),
+        warnings=warnings,
         samples=samples,
         seed=seed,
         started=started,
     )
+    # The positions are found once, by Result.network, for these warnings and the outputs.
+    result.warnings = _unique(warnings + network_warnings(result.network, inputs))
+    return result
 
 
 @dataclass
