@@ -12,7 +12,7 @@ rank or tier.
 
 from __future__ import annotations
 
-import math
+from .plain import plain
 
 #: Relative difference below which two numbers count as equal [-].
 SAME = 1e-12
@@ -24,15 +24,12 @@ STATE_VERSION = 2
 
 
 def _plain(value):
+    """A value as the state sheet stores it: words as typed, then plain JSON types."""
     if isinstance(value, tuple):
         return ", ".join(str(v) for v in value)
     if isinstance(value, bool):
         return "yes" if value else "no"
-    if hasattr(value, "item"):  # numpy scalars
-        value = value.item()
-    if isinstance(value, float) and not math.isfinite(value):
-        return None
-    return value
+    return plain(value)
 
 
 def input_values(result) -> dict[str, object]:

@@ -31,6 +31,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..errors import InputError, Problem
+from ..plain import plain
 from ..workbook import tables as T
 from ..workbook.schema import SHEETS, normalize_key
 from ..workbook.template import fill_sheet
@@ -219,7 +220,7 @@ def _read_ogr(path: Path) -> list[tuple[str, dict | None, dict]]:
     out = []
     for i, wkb in enumerate(geoms):
         label = f"{where}: feature {i}"
-        props = {n: _plain(values[j][i]) for j, n in enumerate(names)}
+        props = {n: plain(values[j][i]) for j, n in enumerate(names)}
         geom = None
         if wkb is not None:
             g = shapely.from_wkb(wkb)
@@ -228,15 +229,6 @@ def _read_ogr(path: Path) -> list[tuple[str, dict | None, dict]]:
             geom = shapely.geometry.mapping(g)
         out.append((label, _listify(geom), props))
     return out
-
-
-def _plain(v):
-    """A property value from pyogrio as a plain Python value."""
-    if hasattr(v, "item"):
-        v = v.item()
-    if isinstance(v, float) and math.isnan(v):
-        return None
-    return v
 
 
 def _listify(geom):
