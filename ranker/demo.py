@@ -306,8 +306,9 @@ SCENARIO_ROWS = [
     ("slow adoption", "bass_p", 0.005),
     ("fast adoption", "bass_q", 0.5),
     ("fast adoption", "bass_p", 0.02),
-    ("dear chargers", "port_cost_usd", 420000),
-    ("dear chargers", "site_cost_usd", 2500000),
+    # About 1.45x the port and 1.65x the site defaults (200,000 and 530,000 USD).
+    ("dear chargers", "port_cost_usd", 290000),
+    ("dear chargers", "site_cost_usd", 880000),
 ]
 
 
