@@ -221,6 +221,7 @@ def _brief(result) -> dict:
         "more": more,
         "rule": narrative.tier_rule(result),
         "funded": narrative.funded_by_year(result),
+        "first_waits": narrative.first_ranked_waits(result),
         "provenance": narrative.provenance_line(result),
     }
 

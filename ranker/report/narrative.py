@@ -430,6 +430,47 @@ def funded_by_year(result) -> list[str]:
     return out
 
 
+def first_ranked_waits(result) -> str:
+    """Say why the optimised plan funds the first-ranked corridor later than rank order would.
+
+    Returns "" when there is no plan or the first-ranked corridor is funded in the
+    year the greedy plan (rank order) funds it. Otherwise names the corridors the
+    optimised plan funds in that year instead and compares score per million USD
+    (the sum of their scores over the sum of their capital) with the first-ranked
+    corridor's [-/million USD].
+    """
+    plan = result.plan
+    if plan is None or not len(result.ranking):
+        return ""
+    first = result.ranking.index[0]
+    greedy = plan.greedy.set_index("corridor_id")
+    optimised = plan.optimised.set_index("corridor_id")
+    if first not in greedy.index or first not in optimised.index:
+        return ""
+    was, now = greedy.at[first, "year_funded"], optimised.at[first, "year_funded"]
+    if pd.isna(was) or (not pd.isna(now) and now <= was):
+        return ""
+    instead = optimised[optimised["year_funded"] == was]
+    if not len(instead):
+        return ""
+    names = result.inputs.corridors["name"].astype(str)
+    per = instead["score"].sum() / instead["capital_usd"].sum() * 1e6
+    own = optimised.at[first, "score"] / optimised.at[first, "capital_usd"] * 1e6
+    when = "is not funded within the budget years" if pd.isna(now) else f"waits until {int(now)}"
+    tier = int(result.ranking.at[first, "tier"])
+    settled = (
+        "; its tier's order is not settled by the evidence"
+        if (result.ranking["tier"] == tier).sum() > 1
+        else ""
+    )
+    return (
+        f"The first-ranked corridor, {names.get(first, first)}, {when}: the money of "
+        f"{int(was)} buys {listing([names.get(c, c) for c in instead.index])} instead, "
+        f"{per:.3g} score per million USD against its {own:.3g}{settled}. "
+        "Appendix C and the Phasing sheet of the results workbook explain every move."
+    )
+
+
 def provenance_line(result) -> str:
     """One line: tool, input file and its hash, run time, samples and seed."""
     return (
