@@ -195,39 +195,17 @@ def run_once(args, overrides: dict[str, float]):
     return result
 
 
-#: Rows of the ranking printed on the terminal; the outputs hold them all.
-PRINTED_ROWS = 30
 #: Lines of each part of "what changed" printed on the terminal; the outputs hold them all.
 PRINTED_CHANGES = 12
 
 
 def print_ranking(result, stream=None) -> None:
-    """Print the ranked order, what changed since the last run, and where the outputs are."""
-    from .report.summary import has_samples
+    """Print the ranked order by tiers, what changed since the last run, and the outputs."""
+    from .report.narrative import terminal_lines
 
     stream = stream or sys.stdout
-    method = result.primary_method
-    print(f"Ranking by {method}, weight set '{result.weight_set}':", file=stream)
-    labels = {c.key: c.label for c in result.criteria}
-    shown = ", ".join(f"{labels.get(k, k)} {w:.1%}" for k, w in result.weights.items())
-    given = ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items())
-    print(f"  weights: {shown}" + (f" (after --weight {given})" if given else ""), file=stream)
-    ranking = result.ranking
-    first = result.robustness.first_rank if has_samples(result.robustness) else None
-    for cid, row in ranking.iloc[:PRINTED_ROWS].iterrows():
-        sure = f"  first in {first[cid]:.0%} of samples" if first is not None else ""
-        print(
-            f"  {row['rank']:>3}. {row['name']} ({cid})  score {row[f'score_{method}']:.3f}{sure}",
-            file=stream,
-        )
-    if len(ranking) > PRINTED_ROWS:
-        print(f"  ... and {len(ranking) - PRINTED_ROWS} more in the results workbook", file=stream)
-    for e in result.excluded:
-        print(
-            f"  excluded: {e['corridor_id']} ({e['criterion']} {e['value']:.4g} "
-            f"against limit {e['limit']:.4g})",
-            file=stream,
-        )
+    for line in terminal_lines(result):
+        print(line, file=stream)
     if result.changes:
         from .changes import describe
 

@@ -560,3 +560,58 @@ def energy_cap_warnings(sizing, names) -> list[str]:
         + ". Selling it would need ports the capital cost does not include."
     )
     return [text]
+
+
+#: Rows of the ranking printed on the terminal; the outputs hold them all.
+PRINTED_ROWS = 30
+
+
+def terminal_lines(result, rows: int = PRINTED_ROWS) -> list[str]:
+    """The ranking as the terminal prints it: weights, one line per corridor, the decision.
+
+    Each corridor line gives its rank, tier, score and, with samples, the share
+    of samples in which it ranks first (``<1%`` for a share that rounds to 0,
+    ``none`` when it never does). The decision summary (:func:`recommendation`)
+    and the tier rule follow, so the terminal says what the justification sheet
+    says, including "not tested against uncertainty" without samples.
+    """
+    from .summary import has_samples
+
+    method = result.primary_method
+    labels = {c.key: c.label for c in result.criteria}
+    shown = ", ".join(f"{labels.get(k, k)} {w:.1%}" for k, w in result.weights.items())
+    given = ", ".join(f"{k}={v:g}%" for k, v in result.overrides.items())
+    out = [
+        f"Ranking by {method}, weight set '{result.weight_set}':",
+        f"  weights: {shown}" + (f" (after --weight {given})" if given else ""),
+    ]
+    ranking = result.ranking
+    first = result.robustness.first_rank if has_samples(result.robustness) else None
+    tiered = "tier" in ranking.columns
+    for cid, row in ranking.iloc[:rows].iterrows():
+        tier = f"  tier {int(row['tier'])}" if tiered else ""
+        sure = ""
+        if first is not None:
+            share = float(first[cid])
+            sure = (
+                "  never first in the samples"
+                if share == 0
+                else (f"  first in {share_text(share)} of samples")
+            )
+        out.append(
+            f"  {row['rank']:>3}. {row['name']} ({cid}){tier}  "
+            f"score {row[f'score_{method}']:.3f}{sure}"
+        )
+    if len(ranking) > rows:
+        out.append(f"  ... and {len(ranking) - rows} more in the results workbook")
+    for e in result.excluded:
+        out.append(
+            f"  excluded: {e['corridor_id']} ({e['criterion']} {e['value']:.4g} "
+            f"against limit {e['limit']:.4g})"
+        )
+    if tiered and len(ranking):
+        out.extend(f"  {line}" for line in recommendation(result))
+        t = getattr(result.robustness, "tiers", None)
+        if t is not None and t.samples:  # without samples the summary already says so
+            out.append(f"  {tier_rule(result)}")
+    return out

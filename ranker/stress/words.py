@@ -50,12 +50,16 @@ def weight_text(value: float, reference: float | None = None) -> str:
 
 
 def share_text(share: float) -> str:
-    """0.234 -> ``23%``; tiny non-zero shares say ``<1%``."""
+    """0.234 -> ``23%``; a non-zero share that rounds to 0 says ``<1%``, one below 1
+    that rounds to 100 says ``>99%`` (neither "never" nor "always" unless it is so)."""
     if share is None or (isinstance(share, float) and math.isnan(share)):
         return "n/a"
-    if 0 < share < 0.005:
+    text = f"{100 * share:.0f}"
+    if share > 0 and text == "0":
         return "<1%"
-    return f"{100 * share:.0f}%"
+    if share < 1 and text == "100":
+        return ">99%"
+    return f"{text}%"
 
 
 def listing(items: list[str]) -> str:
