@@ -53,7 +53,6 @@ from ranker.stress import stress_test
 from ranker.stress.acceptability import rank_acceptability, weights_dirichlet
 from ranker.stress.batch import Scorer
 from ranker.stress.reversal import clone, leave_one_out, pairwise, replace_worse
-from ranker.stress.words import Namer
 
 warnings.simplefilter("ignore")  # scikit-criteria warns on every TOPSIS with a cost criterion
 
@@ -98,7 +97,7 @@ def bench_checkers(n: int) -> None:
     ids = [f"C{i}" for i in range(n)]
     pipe = mkpipe(VectorScaler(target="matrix"), TOPSIS())
     dm = dm_of(x, WEIGHTS, ids)
-    sc, namer = Scorer(topsis, BENEFIT), Namer()
+    sc = Scorer(topsis, BENEFIT)
     print(f"\n== rank-reversal checks, {n} corridors x {K} criteria ==")
     inv, t_inv = timed(RankInvariantChecker(pipe, random_state=1).evaluate, dm)
     trans, t_trans = timed(RankTransitivityChecker(pipe, n_jobs=1).evaluate, dm)
@@ -116,14 +115,14 @@ def bench_checkers(n: int) -> None:
             skc_first_kept[j] = bool(rank.to_series()[best] == 1)
 
     def ours_test1():
-        chk = replace_worse(sc, x, WEIGHTS, ids, namer, replacements=mutations)
+        chk = replace_worse(sc, x, WEIGHTS, ids, replacements=mutations)
         return {j: ids[j] not in chk.first_lost for j in mutations}
 
     ours_first_kept, t_o1 = best_of(3, ours_test1)
-    (t2, t3), t_o23 = best_of(3, pairwise, sc, x, WEIGHTS, ids, namer)
-    cl, t_ocl = best_of(3, clone, sc, x, WEIGHTS, ids, namer)
-    default_rule, t_o1d = best_of(3, replace_worse, sc, x, WEIGHTS, ids, namer)
-    loo, t_loo = best_of(3, leave_one_out, sc, x, WEIGHTS, ids, namer)
+    (t2, t3), t_o23 = best_of(3, pairwise, sc, x, WEIGHTS, ids)
+    cl, t_ocl = best_of(3, clone, sc, x, WEIGHTS, ids)
+    default_rule, t_o1d = best_of(3, replace_worse, sc, x, WEIGHTS, ids)
+    loo, t_loo = best_of(3, leave_one_out, sc, x, WEIGHTS, ids)
 
     changed = set(cl.changed)
     clone_same = []

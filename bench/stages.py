@@ -129,11 +129,10 @@ def one_size(n: int, tmp: Path, samples: int, repeats: int, skip: set) -> list[t
     from ranker.stress.batch import Scorer
     from ranker.stress.reversal import clone, leave_one_out, pairwise, replace_worse
     from ranker.stress.tipping import sweep_criterion
-    from ranker.stress.words import Namer
 
     x, w, benefit = _matrix(synthetic(tmp / f"s{n}.xlsx", n, criteria=8))
     sc = Scorer(topsis, benefit, True, {"normalization": "vector"})
-    ids, namer = [f"S{i:05d}" for i in range(n)], Namer(None, None)
+    ids = [f"S{i:05d}" for i in range(n)]
     draws = weights_dirichlet(w, samples, rng=np.random.default_rng(1), concentration=50.0)
     print(f"\n{n} corridors x {x.shape[1]} criteria, {samples} samples")
     rows = []
@@ -157,7 +156,7 @@ def one_size(n: int, tmp: Path, samples: int, repeats: int, skip: set) -> list[t
         rows.append(("tiers and pairwise shares", stage, None, None))
         del store
     if "pairs" not in skip:
-        stage, (trans, agree) = _time(lambda: pairwise(sc, x, w, ids, namer), repeats)
+        stage, (trans, agree) = _time(lambda: pairwise(sc, x, w, ids), repeats)
         floor, (_, cycles, disagree) = _time(lambda: floor_pairs(x, w, benefit), repeats)
         same = "yes" if (trans.count, agree.count) == (cycles, disagree) else "NO"
         rows.append(("tests 2 and 3 (pairs)", stage, floor, same))
@@ -167,7 +166,7 @@ def one_size(n: int, tmp: Path, samples: int, repeats: int, skip: set) -> list[t
         ("loo", "leave one out", leave_one_out),
     ):
         if key not in skip:
-            stage, _ = _time(lambda c=check: c(sc, x, w, ids, namer), repeats)
+            stage, _ = _time(lambda c=check: c(sc, x, w, ids), repeats)
             rows.append((name, stage, None, None))
     if "tipping" not in skip:
         stage, _ = _time(

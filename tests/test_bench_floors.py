@@ -22,7 +22,6 @@ from ranker.score.topsis import topsis
 from ranker.stress.acceptability import rank_acceptability, weights_dirichlet
 from ranker.stress.batch import Scorer
 from ranker.stress.reversal import pairwise
-from ranker.stress.words import Namer
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -58,6 +57,6 @@ def test_acceptability_floor_equals_stage(n, k, seed):
 @given(st.integers(3, 60), st.integers(2, 8), st.integers(0, 10_000))
 def test_pairs_floor_equals_stage(n, k, seed):
     x, w, benefit, sc = _case(n, k, seed)
-    trans, agree = pairwise(sc, x, w, [f"C{i}" for i in range(n)], Namer(None, None))
+    trans, agree = pairwise(sc, x, w, [f"C{i}" for i in range(n)])
     _, cycles, disagree = STAGES.floor_pairs(x, w, benefit)
     assert (trans.count, agree.count) == (cycles, disagree)

@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from ..stress.words import listing, share_text
+from .words import listing, share_text
 
 
 def certainty_word(share: float) -> str:
@@ -199,13 +199,10 @@ def reversal_sentences(result) -> list[str]:
     rob = result.robustness
     if rob is None:
         return []
-    out = []
-    for c in rob.rank_reversal:
-        sentence = c.get("sentence") or (
-            f"{c.get('check')}: {'passed' if c.get('passed') else 'failed'}."
-        )
-        out.append(sentence)
-    return out
+    from .words.checks import check_sentence
+
+    namer = _namer(result)
+    return [check_sentence(c, namer) for c in rob.rank_reversal]
 
 
 def consistency_text(c: dict | None) -> str:
@@ -338,7 +335,7 @@ def pairwise_note(result) -> str:
 
 
 def _namer(result):
-    from ..stress.words import Namer
+    from .words import Namer
 
     return Namer(
         result.inputs.corridors["name"].astype(str).to_dict(),
@@ -356,7 +353,7 @@ def tipping_sentence(record: dict, namer) -> str:
     namer : Namer
         Corridor names and criterion labels.
     """
-    from ..stress.words import ordinal, weight_text
+    from .words import ordinal, weight_text
 
     label = namer.criterion(record["criterion"])
     now = weight_text(record["current_weight"])

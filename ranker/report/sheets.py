@@ -12,7 +12,12 @@ from openpyxl.utils import get_column_letter
 from ..files import shown
 from ..workbook.schema import BUILTIN_CRITERIA
 from .live_sheet import live_sheet
-from .narrative import assumptions_used, consistency_text, tipping_sentences
+from .narrative import (
+    assumptions_used,
+    consistency_text,
+    reversal_sentences,
+    tipping_sentences,
+)
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
@@ -280,8 +285,8 @@ def robustness_sheet(writer, result) -> None:
     put(ws, row, 1, "Rank-reversal checks").font = HEADER_FONT
     checks = pd.DataFrame(
         [
-            {"check": c.get("check"), "passed": c.get("passed"), "result": c.get("sentence", "")}
-            for c in rob.rank_reversal
+            {"check": c.get("check"), "passed": c.get("passed"), "result": sentence}
+            for c, sentence in zip(rob.rank_reversal, reversal_sentences(result), strict=True)
         ]
     )
     if len(checks):

@@ -27,6 +27,17 @@ def has_samples(robustness) -> bool:
     return robustness is not None and robustness.acceptability.size > 0
 
 
+def _with_sentence(record: dict, sentence: str) -> dict:
+    """A check's JSON record with its sentence after ``details`` (its numbers stay inside)."""
+    out = {}
+    for key, value in record.items():
+        if key != "facts":
+            out[key] = value
+        if key == "details":
+            out["sentence"] = sentence
+    return out
+
+
 def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
     from ..changes import json_changes
@@ -50,7 +61,7 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
-        from .narrative import tipping_sentences
+        from .narrative import reversal_sentences, tipping_sentences
 
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
@@ -58,6 +69,12 @@ def summary_json(result) -> dict:
             robustness["tipping_points"], tipping_sentences(result), strict=True
         ):
             record["sentence"] = sentence
+        robustness["rank_reversal"] = [
+            _with_sentence(record, sentence)
+            for record, sentence in zip(
+                robustness["rank_reversal"], reversal_sentences(result), strict=True
+            )
+        ]
     else:
         robustness.update({"rank_reversal": [], "tipping_points": []})
     out = {

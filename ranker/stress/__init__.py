@@ -32,6 +32,7 @@ import pandas as pd
 from ranker.errors import InputError, Problems
 from ranker.plain import plain
 
+from ..report.words import Namer, listing
 from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
 from .batch import Scorer, rank_batch
 from .closeness import COLUMNS as CLOSENESS_COLUMNS
@@ -48,7 +49,6 @@ from .tiers import (
     tiers_without_samples,
 )
 from .tipping import INTERVAL_COLUMNS, sweep_criterion, tipping_records
-from .words import Namer, listing
 
 __all__ = ["Robustness", "futures", "stress_test"]
 
@@ -79,7 +79,9 @@ class Robustness:
         Share of value draws in which the corridor ranks first under its
         central weights [-]; NaN where it never ranked first.
     rank_reversal : list of dict
-        ``{"check", "passed", "details", "sentence", "count"}`` per check.
+        ``{"check", "passed", "details", "facts", "count", ...}`` per check
+        (:meth:`ranker.stress.reversal.Check.to_json`; the words are
+        :func:`ranker.report.words.checks.check_sentence`).
     tipping_points : list of dict
         ``{"criterion", "current_weight", "kind", "corridor_id", "other_id",
         "weight_at", "direction", "sentence", ...}`` per crossing.
@@ -530,7 +532,7 @@ def stress_test(
             "entering": [ids[i] for i in change["entering"]],
             "leaving": [ids[i] for i in change["leaving"]],
         }
-    checks = all_checks(scorer, x, w, ids, names, labels)
+    checks = all_checks(scorer, x, w, ids)
     tick()
     sweeps = [sweep_criterion(scorer, x, w, c) for c in range(k)] if k > 1 else []
     records, rows = tipping_records(sweeps, ids, keys, namer)

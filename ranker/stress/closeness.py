@@ -26,8 +26,8 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from ..report.words import Namer, share_text
 from .batch import beat_thresholds
-from .words import Namer, share_text
 
 #: Share of samples in which the pair swaps above which it is practically tied [-].
 SWAP_SHARE = 0.10

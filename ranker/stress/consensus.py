@@ -28,8 +28,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ..report.words import Namer, listing, ordinal
 from .batch import Scorer, rank_batch
-from .words import Namer, listing, ordinal
 
 
 @dataclass

@@ -57,7 +57,6 @@ from .batch import chunk_size, rank_batch, score_variants
 from .pairs import cycles_from_rows, pair_relation, signs_row
 from .swaps import RankedCollector, passes
 from .variants import topsis_variants
-from .words import Namer
 
 #: Most swaps listed per check (all are counted) [-].
 MAX_DETAILS = 200
@@ -80,8 +79,9 @@ class Check:
         True when no reversal was found.
     details : list of dict
         JSON-ready records of what reversed.
-    sentence : str
-        The result in words.
+    facts : dict
+        The numbers the check's sentence quotes (corridors, replacements,
+        swaps lower down, ...); :mod:`ranker.report.words.checks` writes it.
     count : int
         How many reversals (swaps, cycles or disagreements) were found [-].
     changed : list of str
@@ -95,18 +95,18 @@ class Check:
     check: str
     passed: bool
     details: list[dict] = field(default_factory=list)
-    sentence: str = ""
+    facts: dict = field(default_factory=dict)
     count: int = 0
     changed: list[str] = field(default_factory=list)
     first_lost: list[str] = field(default_factory=list)
 
     def to_json(self) -> dict:
-        """Return the JSON-ready record ``{"check", "passed", "details", "sentence"}``."""
+        """Return the JSON-ready record ``{"check", "passed", "details", "facts", ...}``."""
         return {
             "check": self.check,
             "passed": bool(self.passed),
             "details": self.details,
-            "sentence": self.sentence,
+            "facts": dict(self.facts),
             "count": int(self.count),
             "changed": list(self.changed),
             "first_lost": list(self.first_lost),
@@ -138,7 +138,7 @@ def worsen(matrix: np.ndarray, is_benefit: np.ndarray, *, fraction: float = WORS
 
 
 def replace_worse(
-    scorer, matrix, weights, ids, namer, *, fraction=WORSEN_FRACTION, replacements=None
+    scorer, matrix, weights, ids, *, fraction=WORSEN_FRACTION, replacements=None
 ) -> Check:
     """Run test 1 of Wang & Triantaphyllou (2008): the first stays first.
 
@@ -152,8 +152,6 @@ def replace_worse(
         Weights [-].
     ids : list of str
         Corridor ids, in matrix order.
-    namer : Namer
-        For the sentence.
     fraction : float
         Worsening rule, see :func:`worsen` [-].
     replacements : dict of int to ndarray, optional
@@ -200,33 +198,17 @@ def replace_worse(
         col.add(s, rank_batch(goods), goods, kept)
     details, count, lost, moved, top_count = col.result()
     passed = not lost
-    count -= top_count
-    if not targets:
-        sentence = "Only the first-placed corridor is left, so test 1 has nothing to replace."
-    elif passed:
-        sentence = (
-            "The first-placed corridor stays first when any other corridor is made worse "
-            f"({100 * fraction:g}% of each criterion's range on every criterion): "
-            "test 1 of Wang & Triantaphyllou is met."
-            if replacements is None
-            else "The first-placed corridor stays first under every replacement: test 1 is met."
-        )
-    else:
-        rec = details[0]
-        sentence = (
-            f"Making {namer.corridor(rec['changed'])} worse hands first place from "
-            f"{namer.corridor(rec['corridor_id'])} to {namer.corridor(rec['other_id'])}: "
-            f"a rank reversal (test 1 of Wang & Triantaphyllou fails in "
-            f"{len(lost)} of {len(targets)} replacements)."
-        )
-    if count > 0:
-        sentence += f" Lower down, {count:,} pair(s) of other corridors swap."
-    if unchanged:
-        sentence += f" {len(unchanged)} corridor(s) could not be made worse (no criterion varies)."
-    return Check("replace_worse", passed, details, sentence, len(lost), moved, lost)
+    facts = {
+        "replacements": len(targets),
+        "lower_swaps": int(count - top_count),
+        "not_worsened": len(unchanged),
+        "fraction": float(fraction),
+        "by_rule": replacements is None,
+    }
+    return Check("replace_worse", passed, details, facts, len(lost), moved, lost)
 
 
-def clone(scorer, matrix, weights, ids, namer) -> Check:
+def clone(scorer, matrix, weights, ids) -> Check:
     """Add an exact copy of each corridor in turn; the order of the others must hold."""
     x = np.asarray(matrix, dtype=float)
     n, k = x.shape
@@ -252,18 +234,7 @@ def clone(scorer, matrix, weights, ids, namer) -> Check:
         kept[:, n] = False  # the copy takes no part in the comparison
         col.add(s, rank_batch(goods), goods, kept)
     details, count, lost, changed, _ = col.result()
-    if not count:
-        sentence = (
-            "Adding an exact copy of any one corridor leaves the order of the others unchanged."
-        )
-    else:
-        d = details[0]
-        sentence = (
-            f"Adding a copy of {namer.corridor(d['changed'])} makes "
-            f"{namer.corridor(d['corridor_id'])} and {namer.corridor(d['other_id'])} swap; "
-            f"copies of {len(changed)} corridor(s) change the order ({count:,} swap(s) in all)."
-        )
-    return Check("clone", count == 0, details, sentence, count, changed, lost)
+    return Check("clone", count == 0, details, {"corridors": n}, count, changed, lost)
 
 
 def empty_stack_of(mats: np.ndarray) -> np.ndarray:
@@ -273,7 +244,7 @@ def empty_stack_of(mats: np.ndarray) -> np.ndarray:
     return out
 
 
-def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
+def leave_one_out(scorer, matrix, weights, ids) -> Check:
     """Remove each corridor in turn and list every pair of the rest that swaps."""
     x = np.asarray(matrix, dtype=float)
     n, k = x.shape
@@ -281,12 +252,7 @@ def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
     r0 = rank_batch(g0)
     best = set(np.nonzero(r0 == 1)[0].tolist())
     if n < 3:
-        return Check(
-            "leave_one_out",
-            True,
-            [],
-            "With fewer than three corridors, removing one leaves nothing to reorder.",
-        )
+        return Check("leave_one_out", True, [], {"corridors": n})
 
     rest = np.arange(n - 1)[None, :]
 
@@ -320,62 +286,36 @@ def leave_one_out(scorer, matrix, weights, ids, namer) -> Check:
         present[np.arange(e - s), np.arange(s, e)] = False
         col.add(s, ranks, goods, present)
     details, count, lost, removed, _ = col.result()
-    if not count:
-        sentence = "Removing any one corridor leaves the order of the rest unchanged."
-    else:
-        d = details[0]
-        sentence = (
-            f"Removing {namer.corridor(d['changed'])} makes {namer.corridor(d['corridor_id'])} "
-            f"and {namer.corridor(d['other_id'])} swap; {len(removed)} of {n} removals change "
-            f"the order ({count:,} swap(s) in all)."
-        )
-    return Check("leave_one_out", count == 0, details, sentence, count, removed, lost)
+    return Check("leave_one_out", count == 0, details, {"corridors": n}, count, removed, lost)
 
 
-def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
+def pairwise(scorer, matrix, weights, ids) -> tuple[Check, Check]:
     """Run tests 2 and 3 of Wang & Triantaphyllou (2008) on two-corridor sub-problems.
 
     Returns
     -------
     transitivity, agreement : Check
+        ``facts`` of both: ``corridors`` [-]; of the agreement: ``pairs``
+        compared [-].
     """
     x = np.asarray(matrix, dtype=float)
     n, k = x.shape
     g0 = scorer.weights(x, weights)[0]
     r0 = rank_batch(g0)
     if n < 2:
-        one = "A single corridor has no pairs to compare."
-        return Check("transitivity", True, [], one), Check("pairwise_agreement", True, [], one)
+        facts = {"corridors": n, "pairs": 0}
+        return (
+            Check("transitivity", True, [], {"corridors": n}),
+            Check("pairwise_agreement", True, [], facts),
+        )
     rel = pair_relation(scorer, x, weights, r0, block=PAIR_BLOCK, limit=MAX_DETAILS)
     cycles = rel.cycles
-    if n < 3:
-        trans = Check(
-            "transitivity",
-            True,
-            [],
-            "With two corridors no cycle is possible: test 2 is met trivially.",
-        )
-    elif not cycles:
-        trans = Check(
-            "transitivity",
-            True,
-            [],
-            "Compared two at a time, the corridors never form a cycle "
-            "(A over B over C over A): test 2 of Wang & Triantaphyllou is met.",
-        )
+    if n < 3 or not cycles:
+        trans = Check("transitivity", True, [], {"corridors": n})
     else:
         found = cycles_from_rows(partial(signs_row, scorer, x, weights), n, MAX_DETAILS)
         details = [{"cycle": [ids[i] for i in cyc]} for cyc in found]
-        a, b, c = (namer.corridor(ids[i]) for i in found[0])
-        trans = Check(
-            "transitivity",
-            False,
-            details,
-            f"Compared two at a time, {cycles} cycle(s) appear, for example {a} beats "
-            f"{b}, {b} beats {c} and {c} beats {a}: test 2 of Wang & Triantaphyllou "
-            "fails.",
-            cycles,
-        )
+        trans = Check("transitivity", False, details, {"corridors": n}, cycles)
     bad_count = rel.disagree
     details = []
     for pa, pb, sign in zip(rel.bad_a, rel.bad_b, rel.bad_sign, strict=True):
@@ -390,32 +330,12 @@ def pairwise(scorer, matrix, weights, ids, namer) -> tuple[Check, Check]:
                 "score_gap_full": float(g0[a] - g0[b]),
             }
         )
-    if not bad_count:
-        agree = Check(
-            "pairwise_agreement",
-            True,
-            [],
-            "Every two-corridor comparison agrees with the full order: test 3 of "
-            "Wang & Triantaphyllou is met.",
-        )
-    else:
-        d = details[0]
-        who = f"{namer.corridor(d['pair_winner'])} wins" if d["pair_winner"] else "it is a tie"
-        agree = Check(
-            "pairwise_agreement",
-            False,
-            details,
-            f"{bad_count} of {rel.count} two-corridor comparisons disagree with the full "
-            f"order; e.g. between {namer.corridor(d['corridor_id'])} "
-            f"(ranked {d['full_ranks'][0]}) and {namer.corridor(d['other_id'])} "
-            f"(ranked {d['full_ranks'][1]}) on their own, {who}: test 3 of "
-            "Wang & Triantaphyllou fails.",
-            int(bad_count),
-        )
+    facts = {"corridors": n, "pairs": int(rel.count)}
+    agree = Check("pairwise_agreement", not bad_count, details, facts, int(bad_count))
     return trans, agree
 
 
-def all_checks(scorer, matrix, weights, ids, names=None, labels=None) -> list[Check]:
+def all_checks(scorer, matrix, weights, ids) -> list[Check]:
     """Run every rank-reversal check; see the module notes for the rules.
 
     Parameters
@@ -428,8 +348,6 @@ def all_checks(scorer, matrix, weights, ids, names=None, labels=None) -> list[Ch
         Weights summing to 1 [-].
     ids : list of str
         Corridor ids in matrix order.
-    names, labels : dict, optional
-        Corridor names and criterion labels for the sentences.
 
     Returns
     -------
@@ -445,13 +363,12 @@ def all_checks(scorer, matrix, weights, ids, names=None, labels=None) -> list[Ch
     >>> [c.passed for c in all_checks(sc, m, np.array([0.6, 0.4]), ["A", "B", "C"])]
     [True, True, True, True, True]
     """
-    namer = Namer(names, labels)
     ids = [str(i) for i in ids]
-    trans, agree = pairwise(scorer, matrix, weights, ids, namer)
+    trans, agree = pairwise(scorer, matrix, weights, ids)
     return [
-        replace_worse(scorer, matrix, weights, ids, namer),
+        replace_worse(scorer, matrix, weights, ids),
         trans,
         agree,
-        clone(scorer, matrix, weights, ids, namer),
-        leave_one_out(scorer, matrix, weights, ids, namer),
+        clone(scorer, matrix, weights, ids),
+        leave_one_out(scorer, matrix, weights, ids),
     ]

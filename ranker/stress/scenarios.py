@@ -21,7 +21,7 @@ from collections.abc import Callable
 
 import pandas as pd
 
-from .words import Namer, ordinal
+from ..report.words import Namer, ordinal
 
 
 def _as_ranks(series: object, scenario: str) -> pd.Series:

@@ -39,8 +39,8 @@ import numpy as np
 
 from ranker.score.ranks import TIE_RTOL
 
+from ..report.words import ordinal, weight_text
 from .batch import Scorer, beat_thresholds, rank_batch
-from .words import ordinal, weight_text
 
 #: Grid points over [0, 1] that bracket crossings for non-linear kernels [-].
 GRID_POINTS = 201

@@ -9,7 +9,7 @@ import pytest
 from ranker import rank_workbook
 from ranker.cli import main
 from ranker.report.narrative import terminal_lines
-from ranker.stress.words import share_text
+from ranker.report.words import share_text
 
 LINE = re.compile(r"^\s+(\d+)\. .* \((\w+)\)  tier (\d+)  score ")
 

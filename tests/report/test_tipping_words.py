@@ -17,9 +17,9 @@ import pytest
 import ranker
 from ranker.demo import write_demo
 from ranker.report import narrative
+from ranker.report.words import ordinal
 from ranker.score import score_matrix
 from ranker.stress.tipping import sweep_weights
-from ranker.stress.words import ordinal
 
 
 @pytest.fixture(scope="module")

@@ -13,9 +13,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ranker.report.words import Namer
 from ranker.score.stack import empty_stack
 from ranker.stress.batch import Scorer, rank_batch, score_variants
-from ranker.stress.words import Namer
 
 
 @dataclass

@@ -11,9 +11,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ranker.report.words import ordinal, weight_text
 from ranker.score.ranks import TIE_RTOL
 from ranker.stress.batch import Scorer, beat_thresholds, rank_batch
-from ranker.stress.words import ordinal, weight_text
 
 #: Grid points over [0, 1] that bracket crossings for non-linear kernels [-].
 GRID_POINTS = 201

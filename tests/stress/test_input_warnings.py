@@ -14,10 +14,10 @@ import numpy as np
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from ranker.report.words import Namer
 from ranker.score.topsis import topsis
 from ranker.stress import _input_warnings
 from ranker.stress.batch import Scorer
-from ranker.stress.words import Namer
 
 
 def _reference_dominant(y: np.ndarray) -> list[int]:

@@ -32,7 +32,7 @@ def run(m, weights=None, benefit=None, *, shaken=True, **kw):
     assert isinstance(r, Robustness)
     json.dumps(r.to_json())  # JSON-ready
     assert [c["check"] for c in r.rank_reversal] == CHECKS
-    assert all(c["sentence"] for c in r.rank_reversal)
+    assert all(c["facts"] for c in r.rank_reversal)
     if r.samples:
         acc = r.acceptability.to_numpy()
         assert np.allclose(acc.sum(axis=0), 1) and np.allclose(acc.sum(axis=1), 1)

@@ -91,7 +91,7 @@ def test_weighted_sum_top_tipping_point_is_the_crossing():
         assert t["exact"]
     cost = [t for t in tops if t["criterion"] == "k1"]
     from ranker.report.narrative import tipping_sentence
-    from ranker.stress.words import Namer
+    from ranker.report.words import Namer
 
     assert "capital cost" in tipping_sentence(cost[0], Namer({}, {"k1": "capital cost"}))
 
@@ -189,7 +189,7 @@ def test_sentences_a_board_can_read():
         labels={"k1": "capital cost"},
     )
     from ranker.report.narrative import tipping_sentence
-    from ranker.stress.words import Namer
+    from ranker.report.words import Namer
 
     namer = Namer({"C0": "North Spur", "C1": "Valley Line"}, {"k1": "capital cost"})
     text = " ".join(tipping_sentence(t, namer) for t in r.tipping_points)

@@ -1,0 +1,12 @@
+"""Every sentence a person reads, written from the analyses' numbers and records.
+
+The analyses (:mod:`ranker.stress`, :mod:`ranker.plan`, :mod:`ranker.score`)
+return numbers and records; the modules here turn them into words for the
+terminal, the workbook and the justification sheet. :mod:`.basic` holds the
+pieces (names, ordinals, shares, lists); :mod:`.checks` the rank-reversal
+checks.
+"""
+
+from .basic import Namer, listing, ordinal, share_text, weight_text
+
+__all__ = ["Namer", "listing", "ordinal", "share_text", "weight_text"]
