@@ -404,6 +404,13 @@ def card_tips(result, cid) -> list[str]:
     return out
 
 
+def rank_intervals(result) -> pd.DataFrame:
+    """The rank-interval table of the run with each row in words (``sentence``)."""
+    from .words.tipping import with_interval_sentences
+
+    return with_interval_sentences(result.robustness.rank_intervals, _namer(result))
+
+
 def tipping_sentences(result) -> list[str]:
     """Every tipping point of the run in words, in the order of the records."""
     rob = result.robustness

@@ -15,6 +15,7 @@ from .live_sheet import live_sheet
 from .narrative import (
     assumptions_used,
     consistency_text,
+    rank_intervals,
     reversal_sentences,
     tipping_sentences,
 )
@@ -305,7 +306,7 @@ def more_robustness_sheet(writer, result) -> None:
     ws = writer.sheet("Weight ranges", "Over which weights does each corridor keep its rank?")
     bottom = 2
     if len(rob.rank_intervals):
-        _, _, bottom, _ = writer.table(ws, rob.rank_intervals, name="rank_intervals")
+        _, _, bottom, _ = writer.table(ws, rank_intervals(result), name="rank_intervals")
     if has_samples(rob):
         put(
             ws,

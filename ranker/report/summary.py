@@ -61,7 +61,7 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
-        from .narrative import reversal_sentences, tipping_sentences
+        from .narrative import rank_intervals, reversal_sentences, tipping_sentences
 
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
@@ -69,6 +69,9 @@ def summary_json(result) -> dict:
             robustness["tipping_points"], tipping_sentences(result), strict=True
         ):
             record["sentence"] = sentence
+        robustness["rank_intervals"] = [
+            plain(r) for r in rank_intervals(result).to_dict(orient="records")
+        ]
         robustness["rank_reversal"] = [
             _with_sentence(record, sentence)
             for record, sentence in zip(

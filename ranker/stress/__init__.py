@@ -535,7 +535,7 @@ def stress_test(
     checks = all_checks(scorer, x, w, ids)
     tick()
     sweeps = [sweep_criterion(scorer, x, w, c) for c in range(k)] if k > 1 else []
-    records, rows = tipping_records(sweeps, ids, keys, namer)
+    records, rows = tipping_records(sweeps, ids, keys)
     intervals = pd.DataFrame(rows, columns=INTERVAL_COLUMNS)
     tick()
     stakeholders = None

@@ -39,7 +39,6 @@ import numpy as np
 
 from ranker.score.ranks import TIE_RTOL
 
-from ..report.words import ordinal, weight_text
 from .batch import Scorer, beat_thresholds, rank_batch
 
 #: Grid points over [0, 1] that bracket crossings for non-linear kernels [-].
@@ -448,11 +447,10 @@ INTERVAL_COLUMNS = [
     "rank_below",
     "rank_above",
     "exact",
-    "sentence",
 ]
 
 
-def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer) -> tuple:
+def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str]) -> tuple:
     """Turn sweeps into tipping-point records and the rank-interval table.
 
     Returns
@@ -467,13 +465,12 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
         ``other_rank_after`` (of ``other_id``, just past ``weight_at``). A
         crossing that ends the intervals of both corridors is listed once.
     intervals : list of list
-        Rows for :data:`INTERVAL_COLUMNS`.
+        Rows for :data:`INTERVAL_COLUMNS` (numbers only; the words are
+        :func:`ranker.report.words.tipping.interval_sentences`).
     """
     records, rows = [], []
     for sw in sweeps:
         key = keys[sw.criterion]
-        label = namer.criterion(key)
-        now = weight_text(sw.current)
         seen: dict[tuple, list[float]] = {}
         events = []
         # First places first (their crossings are "top"), then from the bottom
@@ -515,15 +512,6 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
         records.extend(events)
         for i in range(len(ids)):
             r, lo, hi = int(sw.ranks[i]), float(sw.low[i]), float(sw.high[i])
-            who = namer.corridor(ids[i], start=True)
-            if lo <= 0.0 and hi >= 1.0:
-                sentence = f"{who} stays {ordinal(r)} whatever the weight on {label} (0 to 1)."
-            else:
-                sentence = (
-                    f"{who} stays {ordinal(r)} while the weight on {label} is between "
-                    f"{weight_text(lo, sw.current)} and {weight_text(hi, sw.current)}; "
-                    f"it is {now} now."
-                )
             rows.append(
                 [
                     key,
@@ -537,7 +525,6 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str], namer)
                     int(sw.low_rank[i]),
                     int(sw.high_rank[i]),
                     bool(sw.exact),
-                    sentence,
                 ]
             )
     return records, rows

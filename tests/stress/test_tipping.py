@@ -195,6 +195,18 @@ def test_sentences_a_board_can_read():
     text = " ".join(tipping_sentence(t, namer) for t in r.tipping_points)
     assert "capital cost" in text and "0.25 now" in text
     assert "North Spur (C0)" in text or "Valley Line (C1)" in text
-    holds = r.rank_intervals
+    from ranker.report.words.tipping import with_interval_sentences
+
+    holds = with_interval_sentences(r.rank_intervals, namer)
     assert set(holds["criterion"]) == {"k0", "k1"} and len(holds) == 6
-    assert holds["sentence"].str.contains("stays").all()
+    for row in holds.to_dict(orient="records"):
+        who = {"C0": "North Spur (C0)", "C1": "Valley Line (C1)"}.get(row["corridor_id"])
+        who = who or f"Corridor {row['corridor_id']}"
+        label = {"k1": "capital cost"}.get(row["criterion"], row["criterion"])
+        if row["weight_low"] <= 0 and row["weight_high"] >= 1:
+            assert row["sentence"].endswith(f"whatever the weight on {label} (0 to 1).")
+        else:
+            now = f"{row['current_weight']:.2f}"
+            assert row["sentence"].startswith(f"{who} stays ")
+            assert f"the weight on {label} is between" in row["sentence"]
+            assert row["sentence"].endswith(f"it is {now} now.")
