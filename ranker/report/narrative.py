@@ -411,6 +411,15 @@ def rank_intervals(result) -> pd.DataFrame:
     return with_interval_sentences(result.robustness.rank_intervals, _namer(result))
 
 
+def closeness(result) -> pd.DataFrame:
+    """The neighbour-closeness table of the run with each flag's reason in words."""
+    from .words.closeness import with_reasons
+
+    rob = result.robustness
+    sampled = rob.tiers is not None and rob.tiers.samples and len(rob.closeness)
+    return with_reasons(rob.closeness, _namer(result), rob.tier if sampled else None)
+
+
 def tipping_sentences(result) -> list[str]:
     """Every tipping point of the run in words, in the order of the records."""
     rob = result.robustness

@@ -61,7 +61,7 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
-        from .narrative import rank_intervals, reversal_sentences, tipping_sentences
+        from .narrative import closeness, rank_intervals, reversal_sentences, tipping_sentences
 
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
@@ -72,6 +72,7 @@ def summary_json(result) -> dict:
         robustness["rank_intervals"] = [
             plain(r) for r in rank_intervals(result).to_dict(orient="records")
         ]
+        robustness["closeness"] = [plain(r) for r in closeness(result).to_dict(orient="records")]
         robustness["rank_reversal"] = [
             _with_sentence(record, sentence)
             for record, sentence in zip(

@@ -543,12 +543,12 @@ def stress_test(
         stakeholders = consensus_json(compare_weight_sets(scorer, x, sets), ids, namer)
     tick()
     closeness = (
-        closeness_table(g0, r0, pairs, ids, namer, identical=identical, **closeness_mc)
+        closeness_table(g0, r0, pairs, ids, identical=identical, **closeness_mc)
         if n > 1
         else pd.DataFrame(columns=CLOSENESS_COLUMNS)
     )
     if len(closeness) and tiers.samples:
-        closeness = same_tier_flags(closeness, tier, namer)
+        closeness = same_tier_flags(closeness, tier)
     tick()
     return Robustness(
         samples=samples,

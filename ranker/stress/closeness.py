@@ -26,7 +26,6 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from ..report.words import Namer, share_text
 from .batch import beat_thresholds
 
 #: Share of samples in which the pair swaps above which it is practically tied [-].
@@ -43,8 +42,13 @@ COLUMNS = [
     "swap_share",
     "gap_low",
     "gap_high",
-    "reason",
+    "basis",
 ]
+
+#: What ``practically_tied`` rests on, per pair (column ``basis``): identical
+#: values, equal scores, the Monte Carlo swap share, or (without samples) the
+#: gap rule. :func:`ranker.report.words.closeness.closeness_reasons` says it.
+BASES = ("identical", "equal_scores", "samples", "gap", "tiers")
 
 
 def adjacent_pairs(goodness: np.ndarray) -> np.ndarray:
@@ -68,7 +72,6 @@ def closeness_table(
     ranks,
     pairs,
     ids,
-    namer: Namer,
     *,
     swap_share=None,
     gap_low=None,
@@ -87,8 +90,6 @@ def closeness_table(
         From :func:`adjacent_pairs`.
     ids : list of str
         Corridor ids.
-    namer : Namer
-        For the reasons.
     swap_share, gap_low, gap_high : ndarray, shape (n - 1,), optional
         Monte Carlo share of samples in which the pair swaps and the 5th and
         95th percentile of its score difference [-]; None without samples.
@@ -110,29 +111,18 @@ def closeness_table(
         lo = None if gap_low is None else float(gap_low[p])
         hi = None if gap_high is None else float(gap_high[p])
         if identical and frozenset((int(a), int(b))) in identical:
-            flag, reason = True, "identical values on every criterion"
+            flag, basis = True, "identical"
         elif tied:
-            flag, reason = True, "equal scores"
+            flag, basis = True, "equal_scores"
         elif share is not None:
-            flag = share >= SWAP_SHARE
-            reason = (
-                f"{namer.corridor(ids[b])} comes out ahead in {100 * share:.1f}% of the "
-                f"samples ({'at least' if flag else 'under'} {share_text(SWAP_SHARE)})"
-            )
+            flag, basis = share >= SWAP_SHARE, "samples"
         else:
-            flag = spread > 0 and gap < SMALL_GAP * spread
-            reason = (
-                "gap under 1% of the score spread; not tested against uncertainty "
-                "(Monte Carlo off)"
-                if flag
-                else "gap of at least 1% of the score spread; not tested against uncertainty "
-                "(Monte Carlo off)"
-            )
-        rows.append([int(ranks[a]), ids[a], ids[b], gap, bool(flag), share, lo, hi, reason])
+            flag, basis = spread > 0 and gap < SMALL_GAP * spread, "gap"
+        rows.append([int(ranks[a]), ids[a], ids[b], gap, bool(flag), share, lo, hi, basis])
     return pd.DataFrame(rows, columns=COLUMNS)
 
 
-def same_tier_flags(table: pd.DataFrame, tier: pd.Series, namer: Namer) -> pd.DataFrame:
+def same_tier_flags(table: pd.DataFrame, tier: pd.Series) -> pd.DataFrame:
     """Flag adjacent pairs as practically tied exactly when they share a tier.
 
     Parameters
@@ -141,34 +131,16 @@ def same_tier_flags(table: pd.DataFrame, tier: pd.Series, namer: Namer) -> pd.Da
         From :func:`closeness_table`, with Monte Carlo columns.
     tier : Series
         Tier per corridor id, 1 = first [-].
-    namer : Namer
-        For the reasons.
 
     Returns
     -------
     DataFrame
-        A copy with ``practically_tied`` and ``reason`` from the tiers.
+        A copy with ``practically_tied`` from the tiers (exact ties stay tied)
+        and ``basis`` ``tiers`` where the tiers decided.
     """
     out = table.copy()
-    flags, reasons = [], []
-    for rec in out.to_dict(orient="records"):
-        a, b = rec["corridor_id"], rec["next_id"]
-        same = int(tier[a]) == int(tier[b])
-        share = rec.get("swap_share")
-        ahead = (
-            ""
-            if share is None or (isinstance(share, float) and np.isnan(share))
-            else f"{namer.corridor(b)} comes out ahead in {100 * share:.1f}% of the samples; "
-        )
-        exact = rec["reason"] in ("equal scores", _IDENTICAL)
-        flags.append(bool(same or exact))
-        where = (
-            f"both in tier {int(tier[a])}" if same else f"tiers {int(tier[a])} and {int(tier[b])}"
-        )
-        reasons.append(f"{rec['reason']}; {where}" if exact else ahead + where)
-    out["practically_tied"] = flags
-    out["reason"] = reasons
+    same = tier.loc[out["corridor_id"]].to_numpy() == tier.loc[out["next_id"]].to_numpy()
+    exact = out["basis"].isin(["equal_scores", "identical"]).to_numpy()
+    out["practically_tied"] = [bool(v) for v in same | exact]
+    out.loc[~exact, "basis"] = "tiers"
     return out
-
-
-_IDENTICAL = "identical values on every criterion"

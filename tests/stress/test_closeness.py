@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from ranker.report.words import Namer
+from ranker.report.words.closeness import with_reasons
 from ranker.score.topsis import topsis
 from ranker.score.weighted_sum import weighted_sum
 from ranker.stress import stress_test
@@ -54,7 +56,31 @@ def test_identical_corridors_are_tied_and_monte_carlo_off_uses_the_gap_rule():
     r = stress_test(
         m, {"k0": 0.5, "k1": 0.5}, {"k0": True, "k1": True}, kernel=weighted_sum, samples=0
     )
-    c = r.closeness.set_index("corridor_id")
-    assert c.loc["C0", "practically_tied"] and "identical" in c.loc["C0", "reason"]
+    c = with_reasons(r.closeness, Namer()).set_index("corridor_id")
+    assert c.loc["C0", "practically_tied"] and c.loc["C0", "reason"] == (
+        "identical values on every criterion"
+    )
     assert not c.loc["C1", "practically_tied"]
-    assert c.loc["C3", "practically_tied"] and "Monte Carlo off" in c.loc["C3", "reason"]
+    assert c.loc["C1", "reason"].startswith("gap of at least 1% of the score spread")
+    assert c.loc["C3", "practically_tied"] and c.loc["C3", "reason"] == (
+        "gap under 1% of the score spread; not tested against uncertainty (Monte Carlo off)"
+    )
+
+
+def test_with_tiers_the_reason_names_them_and_the_swap_share():
+    """With samples the flag is the tiers' rule, and the reason says the tiers and the share."""
+    m = frame([[5.0, 4.0], [5.0, 4.0], [4.9, 4.1], [1.0, 1.0]])
+    r = stress_test(
+        m, {"k0": 0.5, "k1": 0.5}, {"k0": True, "k1": True}, kernel=weighted_sum, samples=2000
+    )
+    c = with_reasons(r.closeness, Namer(), r.tier).set_index("corridor_id")
+    for cid, row in c.iterrows():
+        a, b = int(r.tier[cid]), int(r.tier[row["next_id"]])
+        assert row["practically_tied"] == (a == b or row["gap"] == 0)
+        where = f"both in tier {a}" if a == b else f"tiers {a} and {b}"
+        assert row["reason"].endswith(where)
+        if row["gap"] > 0:
+            share = f"{100 * row['swap_share']:.1f}%"
+            assert row["reason"] == (
+                f"corridor {row['next_id']} comes out ahead in {share} of the samples; {where}"
+            )

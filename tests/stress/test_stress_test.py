@@ -54,7 +54,7 @@ def test_identical_corridors():
     assert np.allclose(r.acceptability.loc["C0"], r.acceptability.loc["C1"])
     assert r.first_rank["C0"] == pytest.approx((1 - r.first_rank["C2"]) / 2, abs=1e-12)
     tie = r.closeness.set_index("corridor_id").loc["C0"]
-    assert tie["practically_tied"] and "identical" in tie["reason"]
+    assert tie["practically_tied"] and tie["basis"] == "identical"
     assert not any({t["corridor_id"], t["other_id"]} == {"C0", "C1"} for t in r.tipping_points)
 
 
