@@ -453,9 +453,7 @@ def _futures(inputs: Inputs, used, scores):
             name = next((n for n, o in scenarios.items() if o == overrides), "")
             raise in_scenario(inputs, name, overrides, exc) from None
 
-    return futures(
-        scenarios, rerank, scores.rank, names=inputs.corridors["name"].astype(str).to_dict()
-    )
+    return futures(scenarios, rerank, scores.rank)
 
 
 def _plan(inputs, assumptions, matrix, scores, derivation, robustness):

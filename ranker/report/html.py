@@ -160,8 +160,8 @@ def build_html(result) -> str:
         "figures": figures,
         "cards": _cards(result, ranking.index),
         "shown_note": shown_note,
-        "stakeholders": rob.stakeholders if rob is not None else None,
-        "futures": result.futures,
+        "stakeholders": narrative.stakeholders(result),
+        "futures": narrative.futures(result),
         "plan": _plan_context(result),
         "map": map_section,
         "criteria": [

@@ -420,6 +420,23 @@ def closeness(result) -> pd.DataFrame:
     return with_reasons(rob.closeness, _namer(result), rob.tier if sampled else None)
 
 
+def stakeholders(result) -> dict | None:
+    """The weight-set comparison of the run with its sentences (None without weight sets)."""
+    from .words.futures import stakeholder_words
+
+    rob = result.robustness
+    if rob is None or not rob.stakeholders:
+        return None
+    return stakeholder_words(rob.stakeholders, _namer(result))
+
+
+def futures(result) -> dict | None:
+    """The futures of the run with their sentences (None without a Scenarios sheet)."""
+    from .words.futures import futures_words
+
+    return futures_words(result.futures, _namer(result)) if result.futures else None
+
+
 def tipping_sentences(result) -> list[str]:
     """Every tipping point of the run in words, in the order of the records."""
     rob = result.robustness

@@ -15,8 +15,10 @@ from .live_sheet import live_sheet
 from .narrative import (
     assumptions_used,
     consistency_text,
+    futures,
     rank_intervals,
     reversal_sentences,
+    stakeholders,
     tipping_sentences,
 )
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
@@ -321,7 +323,7 @@ def more_robustness_sheet(writer, result) -> None:
         _, _, bottom, _ = writer.table(
             ws, central, top=bottom + 3, index_label="corridor_id", name="central_weights"
         )
-    st = rob.stakeholders
+    st = stakeholders(result)
     if st:
         put(ws, bottom + 2, 1, "Rank by weight set, and the consensus order").font = HEADER_FONT
         put(ws, bottom + 3, 1, st.get("sentence", ""))
@@ -331,8 +333,8 @@ def more_robustness_sheet(writer, result) -> None:
         _, _, bottom, _ = writer.table(
             ws, table, top=bottom + 4, index_label="corridor_id", name="stakeholders"
         )
-    if result.futures:
-        f = result.futures
+    f = futures(result)
+    if f:
         ws2 = writer.sheet("Futures", "Rank under each future of the Scenarios sheet")
         put(ws2, 3, 1, f.get("sentence", ""))
         table = pd.DataFrame(f["corridors"]).set_index("corridor_id")

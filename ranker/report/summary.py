@@ -42,7 +42,7 @@ def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
     from ..changes import json_changes
     from ..files import shown
-    from .narrative import assumptions_used
+    from .narrative import assumptions_used, futures
 
     s = result.scores
     rob = result.robustness
@@ -61,7 +61,13 @@ def summary_json(result) -> dict:
         ranking.append(entry)
     robustness = {"samples": result.samples}
     if rob is not None:
-        from .narrative import closeness, rank_intervals, reversal_sentences, tipping_sentences
+        from .narrative import (
+            closeness,
+            rank_intervals,
+            reversal_sentences,
+            stakeholders,
+            tipping_sentences,
+        )
 
         robustness.update(rob.to_json())
         robustness["samples"] = result.samples
@@ -72,6 +78,7 @@ def summary_json(result) -> dict:
         robustness["rank_intervals"] = [
             plain(r) for r in rank_intervals(result).to_dict(orient="records")
         ]
+        robustness["stakeholders"] = stakeholders(result)
         robustness["closeness"] = [plain(r) for r in closeness(result).to_dict(orient="records")]
         robustness["rank_reversal"] = [
             _with_sentence(record, sentence)
@@ -125,7 +132,7 @@ def summary_json(result) -> dict:
         "rank_acceptability": {},
         "excluded": result.excluded,
         "ties": s.ties,
-        "futures": result.futures,
+        "futures": futures(result),
         "plan": result.plan.to_json() if result.plan is not None else None,
         "warnings": list(result.warnings),
         "started": result.started,

@@ -540,7 +540,7 @@ def stress_test(
     tick()
     stakeholders = None
     if weight_sets:
-        stakeholders = consensus_json(compare_weight_sets(scorer, x, sets), ids, namer)
+        stakeholders = consensus_json(compare_weight_sets(scorer, x, sets), ids)
     tick()
     closeness = (
         closeness_table(g0, r0, pairs, ids, identical=identical, **closeness_mc)

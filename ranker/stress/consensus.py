@@ -28,7 +28,6 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..report.words import Namer, listing, ordinal
 from .batch import Scorer, rank_batch
 
 
@@ -122,8 +121,9 @@ def compare_weight_sets(
     return Consensus(names, ranks, borda, rank_batch(borda), cope, rank_batch(cope))
 
 
-def consensus_json(result: Consensus, ids: list[str], namer: Namer) -> dict:
-    """Turn a :class:`Consensus` into the JSON-ready stakeholder record."""
+def consensus_json(result: Consensus, ids: list[str]) -> dict:
+    """Turn a :class:`Consensus` into the JSON-ready stakeholder record (numbers only;
+    the words are :func:`ranker.report.words.futures.stakeholder_words`)."""
     n = len(ids)
     r = result.ranks
     spread = r.max(axis=0) - r.min(axis=0)
@@ -133,17 +133,11 @@ def consensus_json(result: Consensus, ids: list[str], namer: Namer) -> dict:
         if spread[i] == 0:
             break
         by_set = {s: int(r[m, i]) for m, s in enumerate(result.sets)}
-        hi = max(by_set, key=by_set.get)
-        lo = min(by_set, key=by_set.get)
         disagreements.append(
             {
                 "corridor_id": ids[i],
                 "ranks": by_set,
                 "spread": int(spread[i]),
-                "sentence": (
-                    f"{namer.corridor(ids[i], start=True)} ranks {ordinal(by_set[lo])} "
-                    f"with the {lo} weights but {ordinal(by_set[hi])} with the {hi} weights."
-                ),
             }
         )
     order = np.lexsort((np.arange(n), result.copeland_rank, result.borda_rank))
@@ -159,20 +153,6 @@ def consensus_json(result: Consensus, ids: list[str], namer: Namer) -> dict:
     ]
     same_top = len({tuple(v) for v in tops.values()}) == 1
     agree_methods = bool(np.array_equal(result.borda_rank, result.copeland_rank))
-    first = [ids[i] for i in np.nonzero(result.borda_rank == 1)[0]]
-    if len(result.sets) == 1:
-        sentence = "Only one weight set was given, so there is nothing to compare."
-    elif not disagreements:
-        sentence = f"All {len(result.sets)} weight sets give the same order."
-    else:
-        sentence = (
-            f"The {len(result.sets)} weight sets "
-            f"{'agree on' if same_top else 'disagree about'} the first corridor and place "
-            f"{len(disagreements)} of {n} corridors differently; by Borda count the consensus "
-            f"first is {listing([namer.corridor(c) for c in first])}."
-        )
-        if not agree_methods:
-            sentence += " The Copeland order differs from Borda's in places (see consensus)."
     return {
         "sets": list(result.sets),
         "ranks": {s: {ids[i]: int(r[m, i]) for i in range(n)} for m, s in enumerate(result.sets)},
@@ -182,5 +162,4 @@ def consensus_json(result: Consensus, ids: list[str], namer: Namer) -> dict:
         "consensus_method": "borda",
         "consensus": consensus,
         "borda_copeland_agree": agree_methods,
-        "sentence": sentence,
     }

@@ -21,8 +21,6 @@ from collections.abc import Callable
 
 import pandas as pd
 
-from ..report.words import Namer, ordinal
-
 
 def _as_ranks(series: object, scenario: str) -> pd.Series:
     """Check a callback's answer: numeric ranks by corridor id; blanks dropped."""
@@ -46,8 +44,6 @@ def futures(
     scenarios: dict[str, dict],
     rerank: Callable[[dict], pd.Series],
     base_ranks: pd.Series,
-    *,
-    names: dict[str, str] | None = None,
 ) -> dict:
     """Re-rank under each scenario and report each corridor's rank range.
 
@@ -60,8 +56,6 @@ def futures(
         ``corridor_id``; it re-derives the criteria and re-ranks.
     base_ranks : pandas.Series
         Ranks [-] under the base assumptions, indexed by ``corridor_id``.
-    names : dict of str to str, optional
-        Corridor names for the sentences.
 
     Returns
     -------
@@ -69,9 +63,10 @@ def futures(
         JSON-ready: ``scenarios`` (names), ``ranks`` ({scenario: {corridor:
         rank}}), ``corridors`` (per corridor: ``base_rank``, ``best_rank``,
         ``worst_rank``, ``range``, ``most_moved_by``, ``largest_move``
-        (positive = moves up), ``sentence``), ``top`` ({scenario: [ids]}),
+        (positive = moves up)), ``top`` ({scenario: [ids]}),
         ``missing`` ({scenario: [ids]}), ``extra`` ({scenario: [ids not in
-        the base]}), ``sentence``.
+        the base]}); numbers only, the words are
+        :func:`ranker.report.words.futures.futures_words`.
 
     Examples
     --------
@@ -81,7 +76,6 @@ def futures(
     >>> out["corridors"][0]["worst_rank"], out["corridors"][0]["most_moved_by"]
     (2, 'dear power')
     """
-    namer = Namer(names)
     base = _as_ranks(base_ranks, "base")
     ranks: dict[str, pd.Series] = {}
     for name, overrides in scenarios.items():
@@ -96,19 +90,8 @@ def futures(
         move = {s: b - int(v) for s, v in row.items()}
         mover = max(move, key=lambda s: abs(move[s])) if move else None
         largest = move[mover] if mover is not None else 0
-        if mover is None or largest == 0:
-            sentence = (
-                f"{namer.corridor(cid, start=True)} stays {ordinal(b)} in every future."
-                if move
-                else f"{namer.corridor(cid, start=True)} has no scenario rank."
-            )
-            mover = None if not largest else mover
-        else:
-            sentence = (
-                f"{namer.corridor(cid, start=True)} ranges from {ordinal(min(values))} "
-                f"to {ordinal(max(values))} (base {ordinal(b)}); the '{mover}' future "
-                f"moves it most, to {ordinal(b - largest)}."
-            )
+        if not largest:
+            mover = None
         corridors.append(
             {
                 "corridor_id": cid,
@@ -118,22 +101,11 @@ def futures(
                 "range": max(values) - min(values),
                 "most_moved_by": mover,
                 "largest_move": int(largest),
-                "sentence": sentence,
             }
         )
     top = {s: [str(i) for i in r.index[r == r.min()]] if len(r) else [] for s, r in ranks.items()}
     missing = {s: [c for c in ids if c not in r.index] for s, r in ranks.items()}
     extra = {s: [c for c in r.index if c not in base.index] for s, r in ranks.items()}
-    steady = sum(c["range"] == 0 for c in corridors)
-    if not scenarios:
-        sentence = "No futures were given."
-    else:
-        base_top = [c for c in ids if base[c] == base.min()] if len(base) else []
-        kept = sum(top[s] == base_top for s in top)
-        sentence = (
-            f"Across {len(scenarios)} future(s), {steady} of {len(ids)} corridors keep "
-            f"their rank and the first corridor is unchanged in {kept} of them."
-        )
     return {
         "scenarios": [str(s) for s in scenarios],
         "ranks": {
@@ -144,5 +116,4 @@ def futures(
         "top": top,
         "missing": {s: v for s, v in missing.items() if v},
         "extra": {s: v for s, v in extra.items() if v},
-        "sentence": sentence,
     }

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ranker.report.words.futures import stakeholder_words
 from ranker.score.topsis import topsis
 from ranker.stress import stress_test
 from ranker.stress.batch import Scorer
@@ -59,7 +60,18 @@ def test_weight_sets_disagree_and_agree():
     )
     assert st["ranks"]["roads"] == dict(zip(m.index, res.ranks[0].tolist(), strict=True))
     assert [c["corridor_id"] for c in st["consensus"]][0] in {"C0", "C1", "C2"}
-    assert "weight sets" in st["sentence"]
+    said = stakeholder_words(st)
+    first = [c for c in m.index if st["consensus"][0]["corridor_id"] == c]
+    assert said["sentence"].startswith(
+        f"The 2 weight sets disagree about the first corridor and place "
+        f"{len(st['disagreements'])} of 3 corridors differently; by Borda count the consensus "
+        f"first is corridor "
+    )
+    assert first and f"corridor {first[0]}" in said["sentence"]
+    for d in said["disagreements"]:
+        lo, hi = sorted(d["ranks"].values())[0], sorted(d["ranks"].values())[-1]
+        assert d["sentence"].startswith(f"Corridor {d['corridor_id']} ranks ")
+        assert f"{lo}" in d["sentence"] and f"{hi}" in d["sentence"]
 
 
 def test_no_weight_sets_gives_none():
