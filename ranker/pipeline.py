@@ -137,7 +137,7 @@ def rank_inputs(
             seed,
             progress,
         )
-        warnings.extend(robustness.warnings)
+        warnings.extend(_stress_warnings(robustness, inputs, included))
     else:
         warnings.append("Only one corridor remains after screening; robustness analysis skipped.")
 
@@ -399,6 +399,14 @@ def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]
     return {c.key: float(scores.weights.get(c.key, 0.0)) for c in included}
 
 
+def _stress_warnings(robustness, inputs, included) -> list[str]:
+    from .report.words import Namer
+    from .report.words.stress import stress_warnings
+
+    names = inputs.corridors["name"].astype(str).to_dict()
+    return stress_warnings(robustness.warnings, Namer(names, {c.key: c.label for c in included}))
+
+
 def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, seed, progress):
     from .score import METHODS
     from .stress import stress_test
@@ -421,8 +429,6 @@ def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, 
         concentration=float(assumptions["weight_concentration"]),
         uncertainty_pct={k: v for k, v in uncertainty.items() if k in keep} or None,
         weight_sets=board_sets if len(board_sets) > 1 else None,
-        labels={c.key: c.label for c in included},
-        names=inputs.corridors["name"].astype(str).to_dict(),
         progress=progress,
         tier_confidence=float(assumptions["tier_confidence"]),
     )

@@ -437,6 +437,14 @@ def futures(result) -> dict | None:
     return futures_words(result.futures, _namer(result)) if result.futures else None
 
 
+def stress_warnings(result) -> list[str]:
+    """The stress stage's warnings of the run in words."""
+    from .words.stress import stress_warnings as words
+
+    rob = result.robustness
+    return [] if rob is None else words(rob.warnings, _namer(result))
+
+
 def tipping_sentences(result) -> list[str]:
     """Every tipping point of the run in words, in the order of the records."""
     rob = result.robustness

@@ -66,6 +66,7 @@ def summary_json(result) -> dict:
             rank_intervals,
             reversal_sentences,
             stakeholders,
+            stress_warnings,
             tipping_sentences,
         )
 
@@ -79,6 +80,7 @@ def summary_json(result) -> dict:
             plain(r) for r in rank_intervals(result).to_dict(orient="records")
         ]
         robustness["stakeholders"] = stakeholders(result)
+        robustness["warnings"] = stress_warnings(result)
         robustness["closeness"] = [plain(r) for r in closeness(result).to_dict(orient="records")]
         robustness["rank_reversal"] = [
             _with_sentence(record, sentence)

@@ -32,7 +32,7 @@ import pandas as pd
 from ranker.errors import InputError, Problems
 from ranker.plain import plain
 
-from ..report.words import Namer, listing
+from ..report.words.basic import listing
 from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
 from .batch import Scorer, rank_batch
 from .closeness import COLUMNS as CLOSENESS_COLUMNS
@@ -51,6 +51,21 @@ from .tiers import (
 from .tipping import INTERVAL_COLUMNS, sweep_criterion, tipping_records
 
 __all__ = ["Robustness", "futures", "stress_test"]
+
+#: Kinds of :attr:`Robustness.warnings` records and the fields each carries.
+WARNING_KINDS = {
+    "weights_rescaled": ("total",),
+    "one_corridor": (),
+    "two_corridors": (),
+    "one_criterion": ("criterion",),
+    "constant_criterion": ("criterion",),
+    "identical": ("corridors",),
+    "dominates": ("corridor",),
+    "zero_weight_dirichlet": ("criteria",),
+    "uncertainty_100": (),
+    "monte_carlo_off": (),
+    "confidence_draws_capped": ("draws", "samples"),
+}
 
 #: Progress units besides the Monte Carlo samples: one per other analysis.
 _STAGES = 4
@@ -93,8 +108,10 @@ class Robustness:
         Copeland beside it); None without weight sets.
     closeness : DataFrame
         Adjacent pairs: gap [-], practically_tied, reason, ...
-    warnings : list of str
-        Doubtful-but-legal input and notes the reader needs.
+    warnings : list of dict
+        Doubtful-but-legal input and notes the reader needs, as records
+        ``{"kind", ...}`` (:data:`WARNING_KINDS`); the words are
+        :func:`ranker.report.words.stress.stress_warnings`.
     """
 
     samples: int
@@ -108,7 +125,7 @@ class Robustness:
     rank_intervals: pd.DataFrame
     stakeholders: dict | None
     closeness: pd.DataFrame
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
     #: The weight vectors drawn for the Monte Carlo, shape (samples, k) [-], in the
     #: matrix's criterion order; None when it was off. Later stages (the build plan)
     #: re-use them so every analysis sees the same samples.
@@ -283,39 +300,29 @@ def _validate(
     return ids, keys, values, w, benefit, spread, sets
 
 
-def _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer):
-    warns = []
+def _input_warnings(x, ids, keys, w, spread, sampling, scorer):
+    """Doubtful-but-legal input, as records ``{"kind", ...}`` of :data:`WARNING_KINDS`.
+
+    Returns the records and the pairs of corridor indices with identical values.
+    """
+    warns: list[dict] = []
     n, k = x.shape
     if n == 1:
-        warns.append("Only one corridor: there is nothing to compare it with.")
+        warns.append({"kind": "one_corridor"})
     elif n == 2:
-        warns.append(
-            "Only two corridors: transitivity (test 2) cannot fail and removing one "
-            "leaves nothing to reorder."
-        )
+        warns.append({"kind": "two_corridors"})
     if k == 1:
-        warns.append(
-            f"Only one criterion ({namer.criterion(keys[0])}): weights cannot change "
-            "the order, so there are no weight tipping points."
-        )
+        warns.append({"kind": "one_criterion", "criterion": keys[0]})
     for c in range(k):
         if n > 1 and np.all(x[:, c] == x[0, c]):
-            warns.append(
-                f"Criterion {namer.criterion(keys[c])} has the same value for every "
-                "corridor: it cannot separate them, and its weight only dilutes the "
-                "others."
-            )
+            warns.append({"kind": "constant_criterion", "criterion": keys[c]})
     groups: dict[bytes, list[int]] = {}
     for i in range(n):
         groups.setdefault(x[i].tobytes(), []).append(i)
     identical = set()
     for members in groups.values():
         if len(members) > 1:
-            text = (
-                f"{listing([namer.corridor(ids[i]) for i in members])} have identical "
-                "values on every criterion: they always tie."
-            )
-            warns.append(text[0].upper() + text[1:])
+            warns.append({"kind": "identical", "corridors": [ids[i] for i in members]})
             identical.update(frozenset((a, b)) for a in members for b in members if a < b)
     better = np.where(scorer.is_benefit, 1.0, -1.0)
     y = x * better
@@ -325,21 +332,12 @@ def _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer):
     best = np.nonzero((y == y.max(axis=0)).all(axis=1))[0] if n > 1 else []
     for i in best:
         if (y == y[i]).all(axis=1).sum() == 1:
-            warns.append(
-                f"{namer.corridor(ids[i], start=True)} is at least as good as every "
-                "other corridor on every criterion: it dominates them, and sound "
-                "methods rank it first under any weights."
-            )
+            warns.append({"kind": "dominates", "corridor": ids[i]})
     if sampling == "dirichlet" and np.any(w == 0) and k > 1:
-        zero = [namer.criterion(keys[c]) for c in np.nonzero(w == 0)[0]]
-        warns.append(
-            f"Weight 0 on {listing(zero)}: Dirichlet sampling keeps it at 0; use "
-            "uniform sampling to explore it."
-        )
+        zero = [keys[c] for c in np.nonzero(w == 0)[0]]
+        warns.append({"kind": "zero_weight_dirichlet", "criteria": zero})
     if np.any(spread >= 1.0):
-        warns.append(
-            "An uncertainty_pct of 100 or more lets values change sign in the Monte Carlo samples."
-        )
+        warns.append({"kind": "uncertainty_100"})
     return warns, identical
 
 
@@ -357,8 +355,6 @@ def stress_test(
     concentration: float = 50.0,
     uncertainty_pct: dict[str, float] | None = None,
     weight_sets: dict[str, dict[str, float]] | None = None,
-    labels: dict[str, str] | None = None,
-    names: dict[str, str] | None = None,
     progress: Callable[[int, int], None] | None = None,
     tier_confidence: float = TIER_CONFIDENCE,
 ) -> Robustness:
@@ -396,8 +392,6 @@ def stress_test(
         Criterion to +- spread of its values in the samples [%].
     weight_sets : dict of str to dict, optional
         Stakeholder weight sets to compare, name to {criterion: weight} [-].
-    labels, names : dict of str to str, optional
-        Criterion labels and corridor names for the sentences.
     progress : callable, optional
         ``progress(done, total)``: units are Monte Carlo samples plus one
         per other analysis.
@@ -447,13 +441,12 @@ def stress_test(
         weight_sets,
     )
     samples = int(samples)
-    namer = Namer(names, labels)
     scorer = Scorer(kernel, benefit, higher_is_better, dict(kernel_options or {}))
     warns = []
     if abs(w.sum() - 1.0) > 1e-9:
-        warns.append(f"The weights summed to {w.sum():.6g}; they were rescaled to sum to 1.")
+        warns.append({"kind": "weights_rescaled", "total": float(w.sum())})
     w = w / w.sum()
-    input_warns, identical = _input_warnings(x, ids, keys, w, spread, sampling, namer, scorer)
+    input_warns, identical = _input_warnings(x, ids, keys, w, spread, sampling, scorer)
     warns.extend(input_warns)
     n, k = x.shape
     total = samples + _STAGES
@@ -492,7 +485,7 @@ def stress_test(
             on_ranks=store.add,
         )
         done = samples
-        warns.extend(acc.notes)
+        warns.extend(acc.notes)  # records too (ranker.stress.acceptability)
         acceptability = pd.DataFrame(  # no copy: (n x n) is 800 MB at 10,000 corridors
             acc.acceptability,
             index=index,
@@ -508,10 +501,7 @@ def stress_test(
             "gap_high": acc.pair_diff_high,
         }
     else:
-        warns.append(
-            "Monte Carlo is off (samples = 0): no rank acceptability, central weights "
-            "or confidence factors; 'practically tied' uses the 1% gap rule."
-        )
+        warns.append({"kind": "monte_carlo_off"})
         acceptability = pd.DataFrame(index=index, columns=[], dtype=float)
         first = pd.Series(np.nan, index=index, name="first_rank")
         central = pd.DataFrame(np.nan, index=index, columns=keys)

@@ -159,8 +159,9 @@ class Acceptability:
         Samples drawn [-].
     confidence_draws : int
         Value draws behind each confidence factor [-].
-    notes : list of str
-        What the reader should know (caps applied, deterministic factors).
+    notes : list of dict
+        What the reader should know, as records (``confidence_draws_capped``
+        with ``draws`` and ``samples``; see :data:`ranker.stress.WARNING_KINDS`).
     """
 
     acceptability: np.ndarray
@@ -172,7 +173,7 @@ class Acceptability:
     pair_diff_high: np.ndarray
     samples: int
     confidence_draws: int
-    notes: list[str] = field(default_factory=list)
+    notes: list[dict] = field(default_factory=list)
 
 
 def add_rank_shares(
@@ -364,10 +365,7 @@ def _confidence(scorer, x, central, spread, rng, samples, notes):
     per_draw = winners.size * n * k
     draws = int(min(samples, max(200, CONFIDENCE_BUDGET // per_draw)))
     if draws < samples:
-        notes.append(
-            f"Confidence factors use {draws:,} value draws (capped to bound run time), "
-            f"not {samples:,}."
-        )
+        notes.append({"kind": "confidence_draws_capped", "draws": draws, "samples": samples})
     wins = np.zeros(winners.size)
     step = chunk_size(n, k)
     for start in range(0, draws, step):

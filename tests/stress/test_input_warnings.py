@@ -15,6 +15,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from ranker.report.words import Namer
+from ranker.report.words.stress import stress_warnings
 from ranker.score.topsis import topsis
 from ranker.stress import _input_warnings
 from ranker.stress.batch import Scorer
@@ -46,9 +47,10 @@ def test_dominance_warnings_equal_pairwise_search(n, k, seed, levels):
         np.full(k, 1.0 / k),
         np.zeros(k),
         "dirichlet",
-        Namer(None, None),
         Scorer(topsis, benefit),
     )
-    found = [w.split(" ")[1] for w in warns if "dominates them" in w]
+    found = [w["corridor"] for w in warns if w["kind"] == "dominates"]
+    said = [t for t in stress_warnings(warns, Namer(None, None)) if "dominates them" in t]
+    assert [t.split(" ")[1] for t in said] == found
     expected = [ids[i] for i in _reference_dominant(x * np.where(benefit, 1.0, -1.0))]
     assert found == expected

@@ -9,6 +9,7 @@ import pandas as pd
 import pytest
 
 from ranker.errors import InputError
+from ranker.report.words.stress import stress_warnings
 from ranker.score.methods import METHODS
 from ranker.score.ranks import rank_scores
 from ranker.score.topsis import topsis
@@ -41,7 +42,7 @@ def run(m, weights=None, benefit=None, *, shaken=True, **kw):
 
 def test_two_corridors():
     r = run(frame([[3.0, 1.0], [1.0, 3.0]]), {"k0": 0.6, "k1": 0.4})
-    assert any("Only two corridors" in w for w in r.warnings)
+    assert any("Only two corridors" in w for w in stress_warnings(r.warnings))
     assert r.acceptability.shape == (2, 2) and len(r.closeness) == 1
     assert {c["check"]: c["passed"] for c in r.rank_reversal}["transitivity"]
     tops = [t for t in r.tipping_points if t["kind"] == "top"]
@@ -50,7 +51,9 @@ def test_two_corridors():
 
 def test_identical_corridors():
     r = run(frame([[3.0, 1.0], [3.0, 1.0], [1.0, 2.0]]), shaken=False)
-    assert any("identical values" in w and "C0" in w and "C1" in w for w in r.warnings)
+    assert any(
+        "identical values" in w and "C0" in w and "C1" in w for w in stress_warnings(r.warnings)
+    )
     assert np.allclose(r.acceptability.loc["C0"], r.acceptability.loc["C1"])
     assert r.first_rank["C0"] == pytest.approx((1 - r.first_rank["C2"]) / 2, abs=1e-12)
     tie = r.closeness.set_index("corridor_id").loc["C0"]
@@ -67,14 +70,14 @@ def test_all_corridors_identical():
 def test_constant_criterion():
     m = frame([[3.0, 7.0, 1.0], [1.0, 7.0, 3.0], [2.0, 7.0, 2.5]])
     r = run(m)
-    assert any("k1 has the same value" in w for w in r.warnings)
+    assert any("k1 has the same value" in w for w in stress_warnings(r.warnings))
     assert set(r.rank_intervals["criterion"]) == {"k0", "k1", "k2"}
 
 
 def test_single_criterion():
     m = frame([[3.0], [1.0], [2.0]])
     r = run(m, {"k0": 1.0}, {"k0": False}, samples=300)
-    assert any("Only one criterion" in w for w in r.warnings)
+    assert any("Only one criterion" in w for w in stress_warnings(r.warnings))
     assert r.tipping_points == [] and r.rank_intervals.empty
     # No weight can change the order; only the 5% value noise can, and it cannot
     # bridge gaps of 33-100%: acceptability is the order itself.
@@ -85,7 +88,7 @@ def test_single_criterion():
 def test_dominating_corridor():
     m = frame([[9.0, 9.0], [5.0, 2.0], [2.0, 6.0], [4.0, 4.0]])
     r = run(m)
-    assert any("dominates" in w and "C0" in w for w in r.warnings)
+    assert any("dominates" in w and "C0" in w for w in stress_warnings(r.warnings))
     assert r.first_rank["C0"] == 1.0 and r.confidence["C0"] == 1.0
     assert not [t for t in r.tipping_points if t["kind"] == "top"]
     top = r.rank_intervals[r.rank_intervals["corridor_id"] == "C0"]
@@ -94,7 +97,7 @@ def test_dominating_corridor():
 
 def test_single_corridor():
     r = run(frame([[1.0, 2.0]]))
-    assert any("Only one corridor" in w for w in r.warnings)
+    assert any("Only one corridor" in w for w in stress_warnings(r.warnings))
     assert r.acceptability.to_numpy().tolist() == [[1.0]] and r.closeness.empty
 
 
@@ -150,7 +153,7 @@ def test_weights_are_rescaled_with_a_warning():
         kernel=topsis,
         samples=0,
     )
-    assert any("rescaled" in w for w in r.warnings)
+    assert any("rescaled" in w for w in stress_warnings(r.warnings))
     assert r.rank_intervals["current_weight"].eq(0.5).all()
 
 

@@ -79,7 +79,7 @@ def test_weighted_sum_top_tipping_point_is_the_crossing():
     m = frame([[10.0, 300.0, 2.0], [14.0, 260.0, 1.0], [9.0, 150.0, 3.0], [12.0, 200.0, 5.0]])
     benefit = {"k0": True, "k1": False, "k2": True}
     w = {"k0": 0.5, "k1": 0.25, "k2": 0.25}
-    r = stress_test(m, w, benefit, kernel=weighted_sum, samples=0, labels={"k1": "capital cost"})
+    r = stress_test(m, w, benefit, kernel=weighted_sum, samples=0)
     tops = [t for t in r.tipping_points if t["kind"] == "top"]
     assert tops
     x, bvec, wvec = m.to_numpy(), np.array(list(benefit.values())), np.array(list(w.values()))
@@ -185,8 +185,6 @@ def test_sentences_a_board_can_read():
         {"k0": True, "k1": False},
         kernel=topsis,
         samples=0,
-        names={"C0": "North Spur", "C1": "Valley Line"},
-        labels={"k1": "capital cost"},
     )
     from ranker.report.narrative import tipping_sentence
     from ranker.report.words import Namer
