@@ -27,6 +27,7 @@ import re
 import numpy as np
 import pandas as pd
 
+from ..report.words.basic import listing
 from ..workbook.tables import ASSUMPTIONS, CORRIDORS
 from .checks import _fail
 
@@ -148,12 +149,6 @@ def first_joined(
     return -1
 
 
-def _list(names: list[str]) -> str:
-    if len(names) <= 1:
-        return "".join(names)
-    return ", ".join(names[:-1]) + " and " + names[-1]
-
-
 def coverage_view(
     connects: pd.Series,
     ids: list[str],
@@ -182,8 +177,8 @@ def coverage_view(
         ``endpoints``, ``rule`` (``"named"`` or ``"all places"``),
         ``connected_year`` (plan to year or None), ``funded_set`` (plan to
         corridor ids complete by then, or None), ``possible`` (whether all
-        corridors together join them) and ``sentence``; None when no
-        corridor names its places.
+        corridors together join them); None when no corridor names its
+        places. The words are :func:`ranker.report.words.plan.coverage_sentence`.
     warnings : list of str
         Why the view is missing or limited.
     """
@@ -222,7 +217,7 @@ def coverage_view(
         if unknown:
             raise _fail(
                 ASSUMPTIONS,
-                f"coverage_endpoints names {_list(unknown)}, which no corridor's connects mentions",
+                f"coverage_endpoints names {listing(unknown)}, which no corridor's connects mentions",
                 f"use places from the connects column: {', '.join(list(spelling.values())[:12])}",
             )
         rule = "named"
@@ -233,7 +228,7 @@ def coverage_view(
     ends = np.array(sorted({node[n.casefold()] for n in names}), dtype=int)
     if ends.size < 2:
         return None, [
-            f"coverage_endpoints names only {_list(names)}; name two places or more "
+            f"coverage_endpoints names only {listing(names)}; name two places or more "
             "for the coverage view."
         ]
     every = np.zeros(len(ids), dtype=int)
@@ -247,42 +242,11 @@ def coverage_view(
         funded[plan] = (
             [ids[i] for i in np.flatnonzero((done >= 0) & (done <= t))] if t >= 0 else None
         )
-    sentence = _sentence(names, rule, year_of, funded, possible)
     view = {
         "endpoints": names,
         "rule": rule,
         "connected_year": year_of,
         "funded_set": funded,
         "possible": possible,
-        "sentence": sentence,
     }
     return view, []
-
-
-def _sentence(names, rule, year_of, funded, possible) -> str:
-    who = (
-        f"All {len(names)} places named in connects"
-        if rule == "all places" and len(names) > 6
-        else (
-            "The places named in connects (" + _list(names) + ")"
-            if rule == "all places"
-            else _list(names)
-        )
-    )
-    if not possible:
-        return (
-            f"{who} cannot be joined by electrified corridors: even all the corridors together "
-            "do not link them (check connects)."
-        )
-    parts = []
-    for plan in ("optimised", "greedy"):
-        if plan not in year_of:
-            continue
-        y = year_of[plan]
-        if y is None:
-            parts.append(f"not within the plan under the {plan} plan")
-        else:
-            parts.append(
-                f"in {y} under the {plan} plan (funded by then: {', '.join(funded[plan])})"
-            )
-    return f"{who} are first joined by electrified corridors " + " and ".join(parts) + "."

@@ -3,7 +3,7 @@
 :func:`build_plan` checks its inputs, runs the greedy plan
 (:mod:`ranker.plan.greedy`), the optimised plan (:mod:`ranker.plan.optimise`),
 turns both into payments (:mod:`ranker.plan.schedule`), compares them
-(:mod:`ranker.plan.explain`), and adds the coverage view
+(in words: :mod:`ranker.report.words.plan`), and adds the coverage view
 (:mod:`ranker.plan.coverage`) and the year-one robustness
 (:mod:`ranker.plan.robust`) when their inputs are given.
 """
@@ -17,11 +17,11 @@ import numpy as np
 import pandas as pd
 
 from ..plain import plain
+from ..report.words.basic import money
 from ..workbook.tables import ASSUMPTIONS, BUDGET
 from . import optimise
 from .checks import _fail, check_endpoints, check_inputs, check_samples, check_series
 from .coverage import coverage_view
-from .explain import describe_differences, money
 from .greedy import greedy_kernel
 from .objectives import OBJECTIVES
 from .robust import year_one_share
@@ -60,8 +60,14 @@ class Plan:
     gap : float
         Optimality gap of the optimised plan: (solver's bound - value) /
         value; 0 when proven optimal [-].
-    differences : list of str
-        Plain-word sentences comparing the two plans.
+    comparison : dict
+        The numbers behind the comparison of the two plans, for
+        :func:`ranker.report.words.plan.plan_differences`: ``ids``,
+        ``cost`` [USD], ``quantity`` (objective's per-corridor unit),
+        ``objective`` (key), ``years`` [year], ``priority`` (rank order),
+        ``greedy`` and ``optimised`` (completion year index, -1 unfunded),
+        ``value`` ({plan: objective value}), ``unspent_greedy`` [USD],
+        ``stopped_at_greedy`` (the optimiser stopped with the greedy plan).
     coverage : dict or None
         ``endpoints``, ``rule``, ``connected_year`` ({plan: year or None}),
         ``funded_set``, ``possible``, ``sentence``; None without ``connects``.
@@ -79,7 +85,7 @@ class Plan:
     objective: str
     objective_value: dict
     gap: float
-    differences: list[str]
+    comparison: dict
     coverage: dict | None
     year_one_share: pd.Series | None
     warnings: list[str] = field(default_factory=list)
@@ -94,7 +100,6 @@ class Plan:
             "optimised": _records(self.optimised),
             "schedule": _records(self.schedule),
             "budget": _records(self.budget),
-            "differences": list(self.differences),
             "coverage": plain(self.coverage),
             "year_one_share": (
                 None
@@ -293,25 +298,19 @@ def build_plan(
     else:
         unspent_g = a.budget - spent["greedy"]
     frames = {k: _frame(a, names, done[k], pay[k], value) for k in PLANS}
-    if stopped and use_greedy:
-        differences = [
-            "The optimiser found no plan better than the greedy plan before it stopped, so "
-            "the optimised plan shown is the greedy plan."
-        ]
-    else:
-        differences = describe_differences(
-            a.ids,
-            names,
-            a.cost,
-            quantity,
-            obj,
-            a.years,
-            a.order,
-            done["greedy"],
-            done["optimised"],
-            got,
-            unspent_g,
-        )
+    comparison = {
+        "stopped_at_greedy": bool(stopped and use_greedy),
+        "ids": list(a.ids),
+        "cost": a.cost,
+        "quantity": quantity,
+        "objective": obj.key,
+        "years": a.years,
+        "priority": a.order,
+        "greedy": done["greedy"],
+        "optimised": done["optimised"],
+        "value": got,
+        "unspent_greedy": unspent_g,
+    }
     plan = Plan(
         greedy=frames["greedy"],
         optimised=frames["optimised"],
@@ -320,7 +319,7 @@ def build_plan(
         objective=objective,
         objective_value={k: float(got[k]) for k in PLANS},
         gap=float(gap),
-        differences=differences,
+        comparison=comparison,
         coverage=None,
         year_one_share=None,
         warnings=warnings,

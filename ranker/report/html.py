@@ -264,8 +264,8 @@ def _plan_context(result) -> dict | None:
         "objective": plan.objective,
         "gap": plan.gap,
         "values": plan.objective_value,
-        "differences": plan.differences,
-        "coverage": (plan.coverage or {}).get("sentence", ""),
+        "differences": narrative.plan_differences(result),
+        "coverage": narrative.coverage_sentence(result),
         "first_year": first_year,
         "first": [
             {

@@ -26,6 +26,7 @@ from ..geo.geodesic import M_PER_MI, line_length_mi
 from ..geo.projection import laea, network_centre
 from ..geo.tiers import corridor_tiers
 from .charts import AXIS, WIDTH
+from .narrative import coverage_sentence
 from .svg import FONT_PX, Canvas, fit_text, text_width
 
 #: Colours of tiers 1, 2, 3, ... (Okabe-Ito, without yellow and black).
@@ -473,9 +474,7 @@ def map_context(result) -> dict | None:
     return {
         "svg": svg,
         "coverage": coverage_maps(result),
-        "coverage_sentence": (result.plan.coverage or {}).get("sentence", "")
-        if result.plan is not None
-        else "",
+        "coverage_sentence": coverage_sentence(result) if result.plan is not None else "",
         "drawn": len(network.lines),
         "total": len(result.inputs.corridors),
         "from_geometry": n_geo,

@@ -454,6 +454,22 @@ def tipping_sentences(result) -> list[str]:
     return [tipping_sentence(t, namer) for t in rob.tipping_points]
 
 
+def plan_differences(result) -> list[str]:
+    """How the optimised plan differs from the greedy one, in words ([] without a plan)."""
+    from .words.plan import plan_differences as words
+
+    if result.plan is None:
+        return []
+    return words(result.plan.comparison, result.inputs.corridors["name"].astype(str).to_dict())
+
+
+def coverage_sentence(result) -> str:
+    """When each plan first joins the coverage view's places ("" without a view)."""
+    from .words.plan import coverage_sentence as words
+
+    return "" if result.plan is None else words(result.plan.coverage)
+
+
 def funded_by_year(result) -> list[str]:
     """One line per budget year of the optimised plan: ``2027: A, B`` ([] without a plan)."""
     plan = result.plan

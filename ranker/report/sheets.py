@@ -15,7 +15,9 @@ from .live_sheet import live_sheet
 from .narrative import (
     assumptions_used,
     consistency_text,
+    coverage_sentence,
     futures,
+    plan_differences,
     rank_intervals,
     reversal_sentences,
     stakeholders,
@@ -380,9 +382,9 @@ def plan_sheet(writer, result) -> None:
     put(ws, bottom + 2, 1, "Spend by year and corridor").font = HEADER_FONT
     _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
     lines = [budget_sentence(plan), f"Optimality gap of the optimised plan: {plan.gap:.2%}."]
-    lines += list(plan.differences)
-    if plan.coverage and plan.coverage.get("sentence"):
-        lines.append(plan.coverage["sentence"])
+    lines += plan_differences(result)
+    if coverage_sentence(result):
+        lines.append(coverage_sentence(result))
     lines += [f"warning: {w}" for w in plan.warnings]
     for i, sentence in enumerate(lines, start=bottom + 2):
         put(ws, i, 1, sentence)

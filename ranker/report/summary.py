@@ -38,6 +38,22 @@ def _with_sentence(record: dict, sentence: str) -> dict:
     return out
 
 
+def _plan_json(result) -> dict | None:
+    """The plan's JSON with its differences in words after ``budget``."""
+    from .narrative import coverage_sentence, plan_differences
+
+    if result.plan is None:
+        return None
+    out = {}
+    for key, value in result.plan.to_json().items():
+        out[key] = value
+        if key == "budget":
+            out["differences"] = plan_differences(result)
+    if out.get("coverage"):
+        out["coverage"] = {**out["coverage"], "sentence": coverage_sentence(result)}
+    return out
+
+
 def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
     from ..changes import json_changes
@@ -135,7 +151,7 @@ def summary_json(result) -> dict:
         "excluded": result.excluded,
         "ties": s.ties,
         "futures": futures(result),
-        "plan": result.plan.to_json() if result.plan is not None else None,
+        "plan": _plan_json(result),
         "warnings": list(result.warnings),
         "started": result.started,
         "changes_since_last_run": list(result.changes),

@@ -12,6 +12,7 @@ from scipy.sparse.csgraph import connected_components
 
 from ranker.plan import PlanInputError, build_plan, parse_connects
 from ranker.plan.coverage import first_joined
+from ranker.report.words.plan import coverage_sentence
 
 
 @pytest.mark.parametrize(
@@ -73,7 +74,7 @@ def test_hand_graph_named_endpoints():
     assert cov["endpoints"] == ["Northport", "Eastvale"]
     assert cov["connected_year"] == {"greedy": 2028, "optimised": 2028}
     assert cov["funded_set"]["greedy"] == ["C1", "C2"]
-    assert cov["sentence"].startswith(
+    assert coverage_sentence(cov).startswith(
         "Northport and Eastvale are first joined by electrified "
         "corridors in 2028 under the optimised plan"
     )
@@ -84,7 +85,7 @@ def test_hand_graph_all_places_by_default():
     cov = _hand_plan().coverage
     assert cov["rule"] == "all places"
     assert cov["connected_year"]["greedy"] == 2029
-    assert cov["sentence"].startswith(
+    assert coverage_sentence(cov).startswith(
         "The places named in connects (Northport, Lakeside, Eastvale and Ridgeton)"
     )
 
@@ -96,7 +97,7 @@ def test_never_joined():
     )
     assert p.coverage["possible"] is False
     assert p.coverage["connected_year"] == {"greedy": None, "optimised": None}
-    assert "cannot be joined" in p.coverage["sentence"]
+    assert "cannot be joined" in coverage_sentence(p.coverage)
 
 
 def test_unknown_endpoint_is_an_input_error():

@@ -8,6 +8,7 @@ from openpyxl.utils.cell import column_index_from_string, coordinate_from_string
 
 import ranker
 from ranker.demo import write_demo
+from ranker.report import narrative
 from ranker.report.workbook import SHEETS_PROPERTY
 
 
@@ -95,4 +96,4 @@ def test_the_demo_budget_binds_and_the_sheet_explains_the_plans(demo_results):
     assert plan.objective_value["optimised"] > plan.objective_value["greedy"] * 1.005
     text = [str(c.value) for row in wb["Phasing"].iter_rows() for c in row if c.value]
     assert any(t.startswith("The first year's 7.5 million USD pays for") for t in text)
-    assert all(d in text for d in plan.differences)
+    assert all(d in text for d in narrative.plan_differences(result))

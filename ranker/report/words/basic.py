@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+
 
 class Namer:
     """Say corridors and criteria the way the planner named them.
@@ -68,3 +70,27 @@ def listing(items: list[str]) -> str:
     if len(items) <= 1:
         return "".join(items)
     return ", ".join(items[:-1]) + " and " + items[-1]
+
+
+def money(usd: float) -> str:
+    """Write an amount of money for a sentence ("4.2 million USD") [USD].
+
+    Examples
+    --------
+    >>> money(4_200_000), money(350_000)
+    ('4.2 million USD', '350,000 USD')
+    """
+    if abs(usd) >= 1e6:
+        return (
+            f"{usd / 1e6:,.3g} million USD" if abs(usd) < 1e9 else f"{usd / 1e9:,.3g} billion USD"
+        )
+    return f"{usd:,.0f} USD"
+
+
+def number(x: float) -> str:
+    """Write a number with three significant figures for a sentence."""
+    if not np.isfinite(x):
+        return "no limit"
+    if x != 0 and (abs(x) >= 1e5 or abs(x) < 1e-3):
+        return f"{x:.3g}"
+    return f"{x:,.3g}" if abs(x) < 1000 else f"{x:,.0f}"

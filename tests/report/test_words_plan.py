@@ -1,11 +1,12 @@
-"""The plain-word comparison of the two plans."""
+"""The plain-word comparison of the two plans (ranker.report.words.plan)."""
 
 from __future__ import annotations
 
 import pandas as pd
 
 from ranker.plan import build_plan
-from ranker.plan.explain import money, number
+from ranker.report.words.basic import money, number
+from ranker.report.words.plan import plan_differences
 
 
 def _plan(cost, score, budget, **kw):
@@ -32,7 +33,7 @@ def test_earlier_and_later_sentences():
         discount_rate=0.1,
         names={"A": "Ridge Pass", "B": "B"},
     )
-    d = p.differences
+    d = plan_differences(p.comparison, {"A": "Ridge Pass", "B": "B"})
     assert d[0].startswith("The optimised plan delivers 2.46 discounted score against 2.41")
     assert "3 corridors change" in d[0]
     assert d[1] == (
@@ -59,7 +60,7 @@ def test_dropped_and_added_sentences():
         pd.Series([2, 1, 3, 4], index=ids),
         pd.DataFrame({"year": [2027], "capital_usd": [14e6]}),
     )
-    text = "\n".join(p.differences)
+    text = "\n".join(plan_differences(p.comparison))
     assert (
         "I1 is not funded in the optimised plan (the greedy plan funds it in 2027) because "
         "its 5 million USD goes by 2027 to I3 and I4 instead"
@@ -72,7 +73,7 @@ def test_dropped_and_added_sentences():
 def test_no_difference_sentence():
     budget = pd.DataFrame({"year": [2027], "capital_usd": [10e6]})
     p = _plan({"A": 4e6, "B": 4e6}, {"A": 0.9, "B": 0.1}, budget)
-    assert p.differences == [
+    assert plan_differences(p.comparison) == [
         "The optimised plan funds the same corridors in the same years as the greedy plan: "
         "funding in rank order is already the best use of this budget for the discounted score."
     ]

@@ -24,31 +24,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .objectives import Objective
-
-
-def money(usd: float) -> str:
-    """Write an amount of money for a sentence ("4.2 million USD") [USD].
-
-    Examples
-    --------
-    >>> money(4_200_000), money(350_000)
-    ('4.2 million USD', '350,000 USD')
-    """
-    if abs(usd) >= 1e6:
-        return (
-            f"{usd / 1e6:,.3g} million USD" if abs(usd) < 1e9 else f"{usd / 1e9:,.3g} billion USD"
-        )
-    return f"{usd:,.0f} USD"
-
-
-def number(x: float) -> str:
-    """Write a number with three significant figures for a sentence."""
-    if not np.isfinite(x):
-        return "no limit"
-    if x != 0 and (abs(x) >= 1e5 or abs(x) < 1e-3):
-        return f"{x:.3g}"
-    return f"{x:,.3g}" if abs(x) < 1000 else f"{x:,.0f}"
+from ...plan.objectives import OBJECTIVES, Objective
+from .basic import listing, money, number
 
 
 def _names(labels: list[str]) -> str:
@@ -205,3 +182,68 @@ def describe_differences(
                     "that deliver more, and the total is higher this way."
                 )
     return out
+
+
+def plan_differences(comparison: dict, names: dict | None = None) -> list[str]:
+    """The sentences comparing the two plans, from :attr:`ranker.plan.phasing.Plan.comparison`.
+
+    When the optimiser stopped without a plan better than the greedy one, one
+    sentence says so (the optimised plan shown is then the greedy plan).
+    """
+    if comparison.get("stopped_at_greedy"):
+        return [
+            "The optimiser found no plan better than the greedy plan before it stopped, so "
+            "the optimised plan shown is the greedy plan."
+        ]
+    c = comparison
+    return describe_differences(
+        c["ids"],
+        names,
+        c["cost"],
+        c["quantity"],
+        OBJECTIVES[c["objective"]],
+        c["years"],
+        c["priority"],
+        c["greedy"],
+        c["optimised"],
+        c["value"],
+        c["unspent_greedy"],
+    )
+
+
+def coverage_sentence(view: dict | None) -> str:
+    """Say when each plan first joins the coverage view's places ("" without a view).
+
+    ``view`` is :attr:`ranker.plan.phasing.Plan.coverage` (from
+    :func:`ranker.plan.coverage.coverage_view`).
+    """
+    if not view:
+        return ""
+    names, rule, year_of = view["endpoints"], view["rule"], view["connected_year"]
+    funded, possible = view["funded_set"], view["possible"]
+    who = (
+        f"All {len(names)} places named in connects"
+        if rule == "all places" and len(names) > 6
+        else (
+            "The places named in connects (" + listing(names) + ")"
+            if rule == "all places"
+            else listing(names)
+        )
+    )
+    if not possible:
+        return (
+            f"{who} cannot be joined by electrified corridors: even all the corridors together "
+            "do not link them (check connects)."
+        )
+    parts = []
+    for plan in ("optimised", "greedy"):
+        if plan not in year_of:
+            continue
+        y = year_of[plan]
+        if y is None:
+            parts.append(f"not within the plan under the {plan} plan")
+        else:
+            parts.append(
+                f"in {y} under the {plan} plan (funded by then: {', '.join(funded[plan])})"
+            )
+    return f"{who} are first joined by electrified corridors " + " and ".join(parts) + "."
