@@ -70,7 +70,7 @@ class Plan:
         ``stopped_at_greedy`` (the optimiser stopped with the greedy plan).
     coverage : dict or None
         ``endpoints``, ``rule``, ``connected_year`` ({plan: year or None}),
-        ``funded_set``, ``possible``, ``sentence``; None without ``connects``.
+        ``funded_set``, ``possible``; None without ``connects``.
     year_one_share : Series or None
         Share of score samples in which the greedy plan funds each corridor
         in the first plan year [-]; None without samples.

@@ -29,10 +29,8 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
-from ranker.errors import InputError, Problems
 from ranker.plain import plain
 
-from ..report.words.basic import listing
 from .acceptability import WEIGHT_SAMPLERS, rank_acceptability
 from .batch import Scorer, rank_batch
 from .closeness import COLUMNS as CLOSENESS_COLUMNS
@@ -99,7 +97,8 @@ class Robustness:
         :func:`ranker.report.words.checks.check_sentence`).
     tipping_points : list of dict
         ``{"criterion", "current_weight", "kind", "corridor_id", "other_id",
-        "weight_at", "direction", "sentence", ...}`` per crossing.
+        "weight_at", "direction", ...}`` per crossing (the words are
+        :func:`ranker.report.narrative.tipping_sentence`).
     rank_intervals : DataFrame
         One row per criterion and corridor: the weight interval over which
         its rank holds (columns :data:`ranker.stress.tipping.INTERVAL_COLUMNS`).
@@ -182,26 +181,20 @@ class Robustness:
         )
 
 
-def _vector(mapping, keys, what, where, problems, *, allow_missing=False):
-    """Read {criterion: number} into an array in column order, noting problems."""
+def _vector(mapping, keys, what, *, allow_missing=False) -> np.ndarray:
+    """Read {criterion: number} into an array in column order (finite, 0 or more)."""
     out = np.zeros(len(keys))
     for i, key in enumerate(keys):
         if key not in mapping:
             if not allow_missing:
-                problems.add(
-                    where, f"no {what} for criterion '{key}'", f"give criterion '{key}' a {what}"
-                )
+                raise ValueError(f"no {what} for criterion '{key}'")
             continue
         try:
             value = float(mapping[key])
         except (TypeError, ValueError):
-            problems.add(
-                where, f"{what} of '{key}' is {mapping[key]!r}, not a number", "type a number"
-            )
-            continue
+            raise ValueError(f"{what} of '{key}' is {mapping[key]!r}, not a number") from None
         if not math.isfinite(value) or value < 0:
-            problems.add(where, f"{what} of '{key}' is {value}", f"use a {what} of zero or more")
-            continue
+            raise ValueError(f"{what} of '{key}' is {value}; use 0 or more")
         out[i] = value
     return out
 
@@ -217,85 +210,44 @@ def _validate(
     uncertainty_pct,
     weight_sets,
 ):
-    problems = Problems()
+    """Guard a library caller's arguments (the workbook reader has checked a run's input
+    and names its cells); raises ValueError."""
     if not isinstance(matrix, pd.DataFrame) or matrix.shape[0] == 0 or matrix.shape[1] == 0:
-        raise InputError.one(
-            "Corridors",
-            "no corridors or no criteria to stress-test",
-            "list at least one corridor and include at least one criterion",
-        )
+        raise ValueError("no corridors or no criteria to stress-test")
     keys = [str(c) for c in matrix.columns]
     ids = [str(i) for i in matrix.index]
-    dup = sorted({i for i in ids if ids.count(i) > 1})
-    if dup:
-        problems.add(
-            "Corridors",
-            f"corridor_id {listing(dup)} appears more than once",
-            "give every corridor its own corridor_id",
-        )
+    if len(set(ids)) < len(ids):
+        raise ValueError("a corridor_id appears more than once")
     values = matrix.apply(pd.to_numeric, errors="coerce").to_numpy(dtype=float)
-    bad = ~np.isfinite(values)
-    for r, c in zip(*np.nonzero(bad), strict=True):
-        problems.add(
-            "Corridors",
-            f"corridor {ids[r]} has no usable value for '{keys[c]}' ({matrix.iat[r, c]!r})",
-            "type a number in that cell",
-        )
-        if len(problems.items) > 20:
-            break
-    w = _vector(weights, keys, "weight", "Criteria", problems)
-    missing_dir = [k for k in keys if k not in is_benefit]
-    if missing_dir:
-        problems.add(
-            "Criteria",
-            f"no direction for {listing(missing_dir)}",
-            "set direction to benefit or cost",
-        )
+    bad = np.argwhere(~np.isfinite(values))
+    if len(bad):
+        r, c = bad[0]
+        raise ValueError(f"corridor {ids[r]} has no usable value for '{keys[c]}'")
+    w = _vector(weights, keys, "weight")
+    missing = [k for k in keys if k not in is_benefit]
+    if missing:
+        raise ValueError(f"no direction for {', '.join(missing)}")
     if not isinstance(samples, int | np.integer) or samples < 0:
-        problems.add("--samples", f"samples is {samples!r}", "use a whole number, 0 or more")
+        raise ValueError(f"samples is {samples!r}; use a whole number, 0 or more")
     if not isinstance(seed, int | np.integer) or seed < 0:
-        problems.add("--seed", f"seed is {seed!r}", "use a whole number, 0 or more")
+        raise ValueError(f"seed is {seed!r}; use a whole number, 0 or more")
     if sampling not in WEIGHT_SAMPLERS:
-        problems.add(
-            "Assumptions",
-            f"weight_sampling is {sampling!r}",
-            f"use one of {listing(sorted(WEIGHT_SAMPLERS))}",
-        )
+        raise ValueError(f"weight_sampling is {sampling!r}; use one of {sorted(WEIGHT_SAMPLERS)}")
     if not (
         isinstance(concentration, int | float)
         and math.isfinite(concentration)
         and concentration > 0
     ):
-        problems.add(
-            "Assumptions",
-            f"weight_concentration is {concentration!r}",
-            "use a number above 0 (50 is the default)",
-        )
-    spread = (
-        _vector(
-            uncertainty_pct or {},
-            keys,
-            "uncertainty_pct",
-            "Criteria",
-            problems,
-            allow_missing=True,
-        )
-        / 100.0
-    )
+        raise ValueError(f"weight_concentration is {concentration!r}; use a number above 0")
+    spread = _vector(uncertainty_pct or {}, keys, "uncertainty_pct", allow_missing=True) / 100.0
     sets = {}
     for name, ws in (weight_sets or {}).items():
-        v = _vector(ws, keys, f"weight (set '{name}')", "Criteria", problems, allow_missing=True)
+        v = _vector(ws, keys, f"weight (set '{name}')", allow_missing=True)
         if v.sum() <= 0:
-            problems.add(
-                "Criteria",
-                f"weight set '{name}' has no positive weight",
-                "give at least one criterion a weight above 0",
-            )
-        else:
-            sets[str(name)] = v / v.sum()
-    if not problems and w.sum() <= 0:
-        problems.add("Criteria", "every weight is zero", "give at least one criterion a weight")
-    problems.raise_if_any()
+            raise ValueError(f"weight set '{name}' has no positive weight")
+        sets[str(name)] = v / v.sum()
+    if w.sum() <= 0:
+        raise ValueError("every weight is zero")
     benefit = np.array([bool(is_benefit[k]) for k in keys])
     return ids, keys, values, w, benefit, spread, sets
 
@@ -405,10 +357,10 @@ def stress_test(
 
     Raises
     ------
-    ranker.errors.InputError
+    ValueError
         For a missing or negative weight, a non-numeric value, an unknown
-        sampling, a bad concentration or a negative uncertainty, naming the
-        sheet.
+        sampling, a bad concentration or a negative uncertainty (a run's
+        input was checked, with its cells named, by :mod:`ranker.workbook`).
 
     References
     ----------
@@ -461,7 +413,7 @@ def stress_test(
     g0 = scorer.weights(x, w)[0]
     if not np.all(np.isfinite(g0)):
         bad = [ids[i] for i in np.nonzero(~np.isfinite(g0))[0][:5]]
-        raise ValueError(f"the scoring kernel returned no finite score for {listing(bad)}")
+        raise ValueError(f"the scoring kernel returned no finite score for {', '.join(bad)}")
     r0 = rank_batch(g0)
     pairs = adjacent_pairs(g0)
     order = np.lexsort((np.arange(n), r0))  # the order of the ranking table

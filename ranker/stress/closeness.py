@@ -47,7 +47,7 @@ COLUMNS = [
 
 #: What ``practically_tied`` rests on, per pair (column ``basis``): identical
 #: values, equal scores, the Monte Carlo swap share, or (without samples) the
-#: gap rule. :func:`ranker.report.words.closeness.closeness_reasons` says it.
+#: gap rule. :func:`ranker.report.words.closeness.with_reasons` says it.
 BASES = ("identical", "equal_scores", "samples", "gap", "tiers")
 
 

@@ -466,7 +466,7 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str]) -> tup
         crossing that ends the intervals of both corridors is listed once.
     intervals : list of list
         Rows for :data:`INTERVAL_COLUMNS` (numbers only; the words are
-        :func:`ranker.report.words.tipping.interval_sentences`).
+        :func:`ranker.report.words.tipping.with_interval_sentences`).
     """
     records, rows = [], []
     for sw in sweeps:
