@@ -8,6 +8,7 @@ stress results -> plan. Reports are written from the :class:`Result` by
 from __future__ import annotations
 
 import datetime as _dt
+import numbers
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
@@ -97,6 +98,8 @@ def rank_inputs(
             f"{samples:,} is over the limit of {MAX_SAMPLES:,}",
             f"give at most {MAX_SAMPLES:,} samples",
         )
+    if not isinstance(seed, numbers.Integral) or seed < 0:
+        raise InputError.one("--seed", f"seed is {seed!r}", "use a whole number, 0 or more")
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
     stage(progress, "deriving the criteria")
     p = prepare(inputs)
