@@ -13,6 +13,7 @@ from pathlib import Path
 import pytest
 
 from ranker.assumptions import ASSUMPTIONS, parse_default
+from ranker.report.sheets import DETAIL_CORRIDORS, LARGE_NETWORK
 from ranker.result import DEFAULT_SAMPLES, DEFAULT_SEED
 from ranker.score.ahp import CR_LIMIT
 from ranker.score.ranks import TIE_RTOL
@@ -45,6 +46,9 @@ def _doc(name: str) -> str:
         (GRID_POINTS, 201, "robustness.md", "201 weights plus the current one"),
         # The seed: docs/robustness.md "default 20261201".
         (DEFAULT_SEED, 20261201, "robustness.md", "default 20261201"),
+        # Results workbook: detail tables summarised above 2,000 scored corridors.
+        (LARGE_NETWORK, 2000, "performance.md", "more than 2,000 scored corridors"),
+        (DETAIL_CORRIDORS, 500, "performance.md", "the first 500 corridors by rank"),
     ],
 )
 def test_documented_threshold_is_pinned(value, literal, doc, words):

@@ -404,11 +404,13 @@ def card_tips(result, cid) -> list[str]:
     return out
 
 
-def rank_intervals(result) -> pd.DataFrame:
-    """The rank-interval table of the run with each row in words (``sentence``)."""
+def rank_intervals(result, table: pd.DataFrame | None = None) -> pd.DataFrame:
+    """The rank-interval table of the run (or those of its rows in ``table``) with each
+    row in words (``sentence``)."""
     from .words.tipping import with_interval_sentences
 
-    return with_interval_sentences(result.robustness.rank_intervals, _namer(result))
+    rows = result.robustness.rank_intervals if table is None else table
+    return with_interval_sentences(rows, _namer(result))
 
 
 def closeness(result) -> pd.DataFrame:

@@ -26,6 +26,64 @@ from .narrative import (
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
 
+#: Scored corridors above which the detail tables keep only the first corridors by rank:
+#: the tables of one row per corridor and criterion (tipping points, weight ranges) and
+#: the wide per-corridor detail (normalised matrices, sizing, acceptability, central
+#: weights). Up to this many, every table holds every corridor [-].
+LARGE_NETWORK = 2000
+#: Corridors, the first by rank, that those tables keep above :data:`LARGE_NETWORK` [-].
+DETAIL_CORRIDORS = 500
+#: Where each summarised table's full data is, for the sheet's note.
+JSON_HAS_ALL = "the JSON summary of ranker run --json lists every corridor"
+
+
+def detail_corridors(result) -> set | None:
+    """Return the corridors the detail tables keep (None: every corridor).
+
+    Above :data:`LARGE_NETWORK` scored corridors a table of one row per
+    corridor and criterion says nothing a planner reads row by row (at 10,000
+    corridors and 8 criteria, 80,000 rows), and writing those tables was most
+    of the results workbook's time; they keep the first
+    :data:`DETAIL_CORRIDORS` corridors by rank, and the sheet says so.
+    """
+    ids = result.ranking.index
+    if len(ids) <= LARGE_NETWORK:
+        return None
+    return set(ids[:DETAIL_CORRIDORS])
+
+
+def summary_note(result, tables: str, full: str) -> str:
+    """Say which tables of a sheet were cut to the first corridors by rank, and where all are."""
+    return (
+        f"With {len(result.ranking):,} scored corridors (more than {LARGE_NETWORK:,}), "
+        f"{tables} list only the first {DETAIL_CORRIDORS:,} corridors by rank; {full}."
+    )
+
+
+def _kept(frame, keep: set | None, column: str | None = None):
+    """Rows of ``frame`` for the corridors in ``keep`` (all rows when None), order kept."""
+    if keep is None:
+        return frame
+    ids = frame.index if column is None else frame[column]
+    return frame[ids.isin(keep)]
+
+
+def _tips_of(result, keep: set):
+    """Return a shallow copy of ``result`` holding only the tipping points of ``keep``.
+
+    :func:`tipping_sentences` words each record of it as it does for the
+    whole run; wording only the rows written was most of the Robustness
+    sheet's time at 10,000 corridors.
+    """
+    import copy
+
+    view = copy.copy(result)
+    view.robustness = copy.copy(result.robustness)
+    view.robustness.tipping_points = [
+        t for t in result.robustness.tipping_points if t.get("corridor_id") in keep
+    ]
+    return view
+
 
 def chart_height(bars: int) -> float:
     """Height of a bar chart in cm for ``bars`` bars [cm]."""
@@ -109,12 +167,25 @@ def criteria_sheet(writer, result) -> None:
 
 def normalised_sheet(writer, result) -> None:
     """Normalised and weighted matrices of the primary method, and contributions."""
-    ws = writer.sheet("Normalised", f"Normalised and weighted matrices ({result.primary_method})")
+    keep = detail_corridors(result)
+    note = ""
+    if keep is not None:
+        note = summary_note(
+            result,
+            "the three tables",
+            "every corridor's criteria are on the Criteria matrix sheet and its scores on "
+            "Ranking and Methods",
+        )
+    ws = writer.sheet(
+        "Normalised", f"Normalised and weighted matrices ({result.primary_method})", note
+    )
     s = result.scores
-    _, _, bottom, _ = writer.table(ws, s.normalized, index_label="corridor_id", name="normalised")
+    _, _, bottom, _ = writer.table(
+        ws, _kept(s.normalized, keep), index_label="corridor_id", name="normalised"
+    )
     put(ws, bottom + 2, 1, "Weighted (normalised x weight)").font = HEADER_FONT
     _, _, bottom, _ = writer.table(
-        ws, s.weighted, top=bottom + 3, index_label="corridor_id", name="weighted"
+        ws, _kept(s.weighted, keep), top=bottom + 3, index_label="corridor_id", name="weighted"
     )
     put(
         ws,
@@ -122,7 +193,7 @@ def normalised_sheet(writer, result) -> None:
         1,
         "Weighted-sum contribution of each criterion (adds up to the weighted-sum score)",
     ).font = HEADER_FONT
-    contrib = s.contributions.loc[result.ranking.index]
+    contrib = _kept(s.contributions.loc[result.ranking.index], keep)
     top, left, bottom2, right = writer.table(
         ws, contrib, top=bottom + 3, index_label="corridor_id", name="contributions"
     )
@@ -234,8 +305,18 @@ def sizing_sheet(writer, result) -> None:
     d = result.derivation
     if d is None:
         return
-    ws = writer.sheet("Sizing", "How the derived criteria were computed, corridor by corridor")
-    sizing = d.sizing.copy()
+    keep = detail_corridors(result)
+    note = ""
+    if keep is not None:
+        note = summary_note(
+            result,
+            "the sizing rows",
+            "the Criteria matrix sheet lists every corridor's derived criteria",
+        )
+    ws = writer.sheet(
+        "Sizing", "How the derived criteria were computed, corridor by corridor", note
+    )
+    sizing = _kept(d.sizing, keep).copy()
     sizing.insert(0, "name", result.inputs.corridors.loc[sizing.index, "name"])
     writer.table(
         ws, sizing, units=d.units, notes=d.notes, index_label="corridor_id", name="sizing"
@@ -257,12 +338,17 @@ def robustness_sheet(writer, result) -> None:
     rob = result.robustness
     if rob is None:
         return
+    keep = detail_corridors(result)
     ws = writer.sheet(
-        "Robustness", f"How sure is the order? ({rob.samples} weight samples, seed {rob.seed})"
+        "Robustness",
+        f"How sure is the order? ({rob.samples} weight samples, seed {rob.seed})",
+        ""
+        if keep is None
+        else summary_note(result, "the acceptability and tipping-point tables", JSON_HAS_ALL),
     )
     row = 4
     if has_samples(rob):
-        acc = folded_acceptability(rob.acceptability.loc[result.ranking.index])
+        acc = folded_acceptability(_kept(rob.acceptability.loc[result.ranking.index], keep))
         top, left, bottom, right = writer.table(
             ws,
             acc,
@@ -278,9 +364,10 @@ def robustness_sheet(writer, result) -> None:
         put(ws, row, 1, "Monte Carlo turned off (--samples 0).")
         row += 2
     put(ws, row, 1, "Weight tipping points").font = HEADER_FONT
-    tips = pd.DataFrame(rob.tipping_points)
+    view = result if keep is None else _tips_of(result, keep)
+    tips = pd.DataFrame(view.robustness.tipping_points)
     if len(tips):
-        tips["sentence"] = tipping_sentences(result)
+        tips["sentence"] = tipping_sentences(view)
     if len(tips):
         _, _, row, _ = writer.table(ws, tips, top=row + 1, name="tipping")
     else:
@@ -307,10 +394,22 @@ def more_robustness_sheet(writer, result) -> None:
     rob = result.robustness
     if rob is None:
         return
-    ws = writer.sheet("Weight ranges", "Over which weights does each corridor keep its rank?")
+    keep = detail_corridors(result)
+    ws = writer.sheet(
+        "Weight ranges",
+        "Over which weights does each corridor keep its rank?",
+        ""
+        if keep is None
+        else summary_note(result, "the weight-range and central-weight tables", JSON_HAS_ALL),
+    )
     bottom = 2
-    if len(rob.rank_intervals):
-        _, _, bottom, _ = writer.table(ws, rank_intervals(result), name="rank_intervals")
+    intervals = rob.rank_intervals
+    if len(intervals) and keep is not None:
+        intervals = _kept(intervals, keep, "corridor_id")
+    if len(intervals):
+        _, _, bottom, _ = writer.table(
+            ws, rank_intervals(result, intervals), name="rank_intervals"
+        )
     if has_samples(rob):
         put(
             ws,
@@ -322,6 +421,7 @@ def more_robustness_sheet(writer, result) -> None:
         central = rob.central_weights.copy()
         central["confidence_factor"] = rob.confidence.reindex(central.index)
         central = central.loc[[c for c in result.ranking.index if c in central.index]]
+        central = _kept(central, keep)
         _, _, bottom, _ = writer.table(
             ws, central, top=bottom + 3, index_label="corridor_id", name="central_weights"
         )
@@ -513,4 +613,11 @@ WRITERS = [
     run_info_sheet,
 ]
 
-__all__ = ["WRITERS", "contents_sheet", "criterion_unit"]
+__all__ = [
+    "DETAIL_CORRIDORS",
+    "LARGE_NETWORK",
+    "WRITERS",
+    "contents_sheet",
+    "criterion_unit",
+    "detail_corridors",
+]
