@@ -47,8 +47,7 @@ SHEET_CELLS = 1_000_000
 CELL_CHARS = 32_767
 CUT_NOTE = " [cut at 32,767 characters]"
 
-_CELL = re.compile(rb"<(?:\w+:)?c[\s/>]")
-_FORMULA = re.compile(rb"<(?:\w+:)?f[\s/>]")
+_CELL = re.compile(rb"<(?:\w++:)?+c[\s/>]")
 _SHEET_PART = re.compile(r"^xl/worksheets/[^/]+\.xml$")
 
 
@@ -65,7 +64,7 @@ def count_parts(snapshot: bytes) -> dict[str, tuple[int, int, int | None]]:
     Each part is read a chunk at a time (the last row as
     :func:`ranker.workbook.preflight.last_value_row` finds it).
     """
-    from ranker.workbook.preflight import last_value_row
+    from ranker.workbook.preflight import _FORMULA, last_value_row
 
     out: dict[str, tuple[int, int, int | None]] = {}
     with zipfile.ZipFile(io.BytesIO(snapshot)) as zf:
@@ -135,7 +134,7 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
             f"{total:,} cells, over the {FULL_COPY_CELLS:,} that are copied with formatting"
         )
     if wb is None:
-        wb = _value_copy(snapshot, drop, notes)
+        wb = _value_copy(snapshot, drop, notes, counts)
     from .workbook import STATE_SHEET
 
     if STATE_SHEET in wb.sheetnames:  # the reader refused any sheet of that name but ours
@@ -248,11 +247,13 @@ def _plain_formats(ws) -> int:
     return gone
 
 
-def _value_copy(snapshot: bytes, drop: set[str], notes: list[str]) -> Workbook:
-    """Stream every worksheet's values and number formats into a new workbook."""
+def _value_copy(snapshot: bytes, drop: set[str], notes: list[str], counts: dict) -> Workbook:
+    """Stream every worksheet's values and number formats into a new workbook.
+
+    ``counts`` is :func:`count_parts` of the snapshot (counted once per run).
+    """
     from ranker.workbook.schema import SHEETS, normalize_sheet_name
 
-    counts = count_parts(snapshot)
     src = _load(snapshot, read_only=True)
     out = Workbook()
     out.remove(out.active)

@@ -89,10 +89,10 @@ LIMITS = Limits()
 
 _OLE = bytes.fromhex("D0CF11E0A1B11AE1")
 _XML_PARTS = (".xml", ".rels", ".vml")
-_FORMULA = re.compile(rb"<(?:\w+:)?f[\s>/]")
-_MERGE = re.compile(rb'<(?:\w+:)?mergeCell\s[^>]*?ref="([A-Za-z]+\d+(?::[A-Za-z]+\d+)?)"')
-_HIDDEN_ROW_TAG = re.compile(rb'<(?:\w+:)?row\s[^>]*\bhidden="[^>]*>')
-_COL_TAG = re.compile(rb"<(?:\w+:)?col\s[^>]*>")
+_FORMULA = re.compile(rb"<(?:\w++:)?+f[\s>/]")
+_MERGE = re.compile(rb'<(?:\w++:)?+mergeCell\s[^>]*?ref="([A-Za-z]+\d+(?::[A-Za-z]+\d+)?)"')
+_HIDDEN_ROW_TAG = re.compile(rb'<(?:\w++:)?+row\s[^>]*\bhidden="[^>]*>')
+_COL_TAG = re.compile(rb"<(?:\w++:)?+col\s[^>]*>")
 _ATTR = re.compile(rb'(\w+)="([^"]*)"')
 _NS_MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 _NS_REL = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
@@ -549,9 +549,9 @@ def _join(folder: str, target: str) -> str:
 #: A formula cell with no value, or an empty one, that is not a text result (t="str"
 #: with an empty value is a saved empty text): an unsaved formula.
 _UNSAVED = re.compile(
-    rb'<(?:\w+:)?c\b(?P<a>(?:(?!t="str")[^>/])*)>\s*'
-    rb"<(?:\w+:)?f\b[^>]*?(?:/>|>(?P<f>[^<]*)</(?:\w+:)?f>)\s*"
-    rb"(?:<(?:\w+:)?v\s*/>|<(?:\w+:)?v>\s*</(?:\w+:)?v>)?\s*</(?:\w+:)?c>"
+    rb'<(?:\w++:)?+c\b(?P<a>(?:(?!t="str")[^>/])*)>\s*'
+    rb"<(?:\w++:)?+f\b[^>]*?(?:/>|>(?P<f>[^<]*)</(?:\w++:)?+f>)\s*"
+    rb"(?:<(?:\w++:)?+v\s*/>|<(?:\w++:)?+v>\s*</(?:\w++:)?+v>)?\s*</(?:\w++:)?+c>"
 )
 _CELL_REF = re.compile(rb'\sr="([A-Za-z]{1,3})(\d+)"')
 
@@ -579,8 +579,8 @@ def _unsaved_formulas(xml: bytes) -> dict[tuple[int, int], str]:
 
 
 #: A row's start tag, and a stored value (a ``<v>`` with content, or an inline string).
-_ROW_START = re.compile(rb"<(?:\w+:)?row\b([^>]*)>")
-_VALUE_TAG = re.compile(rb"<(?:\w+:)?v(?:\s[^>]*)?>[^<]|<(?:\w+:)?is>")
+_ROW_START = re.compile(rb"<(?:\w++:)?+row\b([^>]*)>")
+_VALUE_TAG = re.compile(rb"<(?:\w++:)?+v(?:\s[^>]*)?>[^<]|<(?:\w++:)?+is>")
 _ROW_NUMBER = re.compile(rb'\sr="(\d+)"')
 
 
