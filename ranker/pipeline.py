@@ -486,7 +486,7 @@ def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
         )
     connects = inputs.corridors["connects"] if "connects" in inputs.corridors.columns else None
     endpoints = assumptions.get("coverage_endpoints") or None
-    sample_scores = _sample_scores(matrix, inputs.included, scores, robustness, assumptions)
+    sample_scores = None if robustness is None else robustness.weight_sample_scores()
     return build_plan(
         capital,
         score,
@@ -502,30 +502,6 @@ def _plan(inputs, assumptions, matrix, scores, derivation, robustness):
         sample_scores=sample_scores,
         names=inputs.corridors["name"].astype(str).to_dict(),
     )
-
-
-def _sample_scores(matrix, included, scores, robustness, assumptions):
-    """Primary-method scores under the Monte Carlo's weight draws, higher is better.
-
-    Shape (samples, corridors) in ``matrix``'s row order; None without draws.
-    The draws are in the criterion order the stress test was given
-    (``scores.weights``), so the plan sees the same samples as the acceptability.
-    """
-    from .score import METHODS
-
-    draws = getattr(robustness, "weight_draws", None)
-    if draws is None:
-        return None
-    method = METHODS[str(assumptions["primary_method"])]
-    keep = [c.key for c in included if c.key in scores.weights]  # as in _stress
-    direction = {c.key: c.is_benefit for c in included}
-    out = method.kernel(
-        matrix[keep].to_numpy(dtype=float),
-        draws,
-        [direction[k] for k in keep],
-        **method.kernel_options(assumptions),
-    )
-    return out if method.higher_is_better else -out
 
 
 def _unique(items: list[str]) -> list[str]:

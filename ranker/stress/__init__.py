@@ -143,6 +143,22 @@ class Robustness:
     #: ``criterion`` (key), ``current``, ``weight_at``, ``distance`` [-],
     #: ``direction``, ``entering``, ``leaving`` (corridor ids); None if none in [0, 1].
     first_tier_change: dict | None = None
+    #: The method kernel and the matrix the samples were scored on (for
+    #: :meth:`weight_sample_scores`); not part of the JSON.
+    scorer: Scorer | None = field(default=None, repr=False)
+    values: np.ndarray | None = field(default=None, repr=False)
+
+    def weight_sample_scores(self) -> np.ndarray | None:
+        """Score the matrix under each weight draw, higher is better; (samples, n) [-].
+
+        The same weight draws as the rank acceptability, on the values as
+        given (the build plan's year-one robustness uses them); rows follow
+        the matrix's corridor order. None when Monte Carlo was off. Computed on
+        demand: at 10,000 corridors x 10,000 samples the table is 800 MB.
+        """
+        if self.weight_draws is None or self.scorer is None:
+            return None
+        return self.scorer.weights(self.values, self.weight_draws)
 
     def to_json(self) -> dict:
         """Return a JSON-ready summary (plain types; NaN as null)."""
@@ -511,4 +527,6 @@ def stress_test(
         pairwise_ids=[ids[i] for i in order[: tiers.pairwise_wins.shape[0]]],
         tiers=tiers,
         first_tier_change=change,
+        scorer=scorer,
+        values=x,
     )

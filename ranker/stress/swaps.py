@@ -240,10 +240,3 @@ def passes(count, rows, k):
     step = chunk_size(rows, k)
     per = step * max(1, VARIANT_BUDGET // max(1, rows * step))
     return [(s, min(count, s + per)) for s in range(0, count, per)]
-
-
-def collect(ids, changed_list, r0, g0, ranks, goods, kept, best, limit):
-    """Swap records of every variant at once (see :class:`Collector`)."""
-    col = Collector(ids, changed_list, r0, g0, best, limit)
-    col.add(0, ranks, goods, kept)
-    return col.result()

@@ -75,7 +75,9 @@ def test_collect_equals_reference(n, v, levels, seed, cap):
     best = set(np.nonzero(r0 == 1)[0].tolist())
     ids = [f"C{i}" for i in range(n)]
     changed = rng.integers(0, n, size=v).tolist()
-    new = swaps.collect(ids, changed, r0, g0, ranks, goods, kept, best, cap)
+    col = swaps.Collector(ids, changed, r0, g0, best, cap)  # every variant in one pass
+    col.add(0, ranks, goods, kept)
+    new = col.result()
     with pytest.MonkeyPatch.context() as mp:
         mp.setattr(ref, "MAX_DETAILS", cap)
         old = ref._collect(ids, changed, r0, g0, ranks, goods, kept, best)

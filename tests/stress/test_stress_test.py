@@ -202,3 +202,32 @@ def test_bad_arguments_are_refused(change, match):
     matrix, weights, benefit = args.pop("matrix"), args.pop("weights"), args.pop("is_benefit")
     with pytest.raises(ValueError, match=match):
         stress_test(matrix, weights, benefit, **args)
+
+
+@pytest.mark.parametrize("key", ["topsis", "vikor"])
+def test_weight_sample_scores_are_the_kernel_under_the_draws(key):
+    """The plan's sample scores: the method's own kernel under the Monte Carlo's weight
+    draws, turned so higher is better (VIKOR's Q is lower-is-better)."""
+    from ranker.assumptions import resolve
+
+    method = METHODS[key]
+    opts = method.kernel_options(resolve({}))
+    rng = np.random.default_rng(5)
+    m = frame(rng.uniform(1, 10, size=(7, 3)))
+    benefit = {"k0": True, "k1": False, "k2": True}
+    r = stress_test(
+        m,
+        {"k0": 0.5, "k1": 0.3, "k2": 0.2},
+        benefit,
+        kernel=method.kernel,
+        higher_is_better=method.higher_is_better,
+        kernel_options=opts,
+        samples=300,
+    )
+    got = r.weight_sample_scores()
+    raw = method.kernel(m.to_numpy(), r.weight_draws, [True, False, True], **opts)
+    expected = raw if method.higher_is_better else -raw
+    assert got.shape == (300, 7)
+    assert np.array_equal(got, expected)
+    off = stress_test(m, {"k0": 1.0, "k1": 1.0, "k2": 1.0}, benefit, kernel=topsis, samples=0)
+    assert off.weight_sample_scores() is None
