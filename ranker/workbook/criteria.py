@@ -325,12 +325,15 @@ def _judgment(cell) -> float:
     return x
 
 
-def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
-    """Type the Pairwise matrix; None when no judgment is typed off the diagonal."""
+def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict, bool]:
+    """Read the criterion keys heading the columns (row 1) and rows (column A).
+
+    Returns ({key: column}, {key: row}, whether a problem was found).
+    """
     sheet = grid.sheet
+    bad = False
     cols: dict[str, int] = {}
     rows: dict[str, int] = {}
-    bad = False
     for c, cell in sorted(grid.header.items()):
         try:
             key = S.normalize_key(U.parse_text(raw(cell)))
@@ -374,25 +377,14 @@ def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFr
             bad = True
         else:
             rows[key] = r
-    col_key = {c: k for k, c in cols.items()}
-    row_key = {r: k for k, r in rows.items()}
-    judged = [
-        (r, c)
-        for r, cells in grid.rows.items()
-        for c in cells
-        if c > 1 and (row_key.get(r) is None or row_key.get(r) != col_key.get(c))
-    ]
-    if not judged:
-        return None
-    for r, c in judged:
-        if r not in row_key or c not in col_key:
-            problems.add(
-                ref(sheet, c, r),
-                "holds a judgment outside the matrix",
-                "put criterion keys in row 1 (from B1) and column A (from A2) for "
-                "every row and column you fill",
-            )
-            bad = True
+    return cols, rows, bad
+
+
+def _pairwise_labels(
+    sheet: str, cols: dict, rows: dict, problems: Problems, inputs: T.Inputs
+) -> bool:
+    """Check that every heading is a criterion with both a row and a column; True if not."""
+    bad = False
     known = {s.key for s in inputs.criteria}
     for key, c in cols.items():
         if key not in known:
@@ -432,7 +424,18 @@ def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFr
                 f"add a row and a column headed {s.key}",
             )
             bad = True
-    keys = [k for k in cols if k in rows]
+    return bad
+
+
+def _pairwise_values(
+    grid: Grid, keys: list, cols: dict, rows: dict, problems: Problems
+) -> tuple[dict, bool]:
+    """Read each typed judgment (1/9 to 9, 1 on the diagonal).
+
+    Returns ({(row key, column key): judgment}, whether a problem was found).
+    """
+    sheet = grid.sheet
+    bad = False
     values: dict[tuple[str, str], float] = {}
     for i in keys:
         for j in keys:
@@ -453,6 +456,15 @@ def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFr
                 )
                 bad = True
             values[(i, j)] = x
+    return values, bad
+
+
+def _pairwise_reciprocals(
+    grid: Grid, keys: list, cols: dict, rows: dict, values: dict, problems: Problems
+) -> bool:
+    """Check every pair has a judgment and typed pairs are reciprocal; True if not."""
+    sheet = grid.sheet
+    bad = False
     for n, i in enumerate(keys):
         for j in keys[n + 1 :]:
             a, b = values.get((i, j)), values.get((j, i))
@@ -472,6 +484,37 @@ def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFr
                     f"fill only one of the two, or make {there} equal 1/{a:.4g}",
                 )
                 bad = True
+    return bad
+
+
+def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+    """Type the Pairwise matrix; None when no judgment is typed off the diagonal."""
+    sheet = grid.sheet
+    cols, rows, bad = _pairwise_axes(grid, problems)
+    col_key = {c: k for k, c in cols.items()}
+    row_key = {r: k for k, r in rows.items()}
+    judged = [
+        (r, c)
+        for r, cells in grid.rows.items()
+        for c in cells
+        if c > 1 and (row_key.get(r) is None or row_key.get(r) != col_key.get(c))
+    ]
+    if not judged:
+        return None
+    for r, c in judged:
+        if r not in row_key or c not in col_key:
+            problems.add(
+                ref(sheet, c, r),
+                "holds a judgment outside the matrix",
+                "put criterion keys in row 1 (from B1) and column A (from A2) for "
+                "every row and column you fill",
+            )
+            bad = True
+    bad |= _pairwise_labels(sheet, cols, rows, problems, inputs)
+    keys = [k for k in cols if k in rows]
+    values, bad_value = _pairwise_values(grid, keys, cols, rows, problems)
+    bad |= bad_value
+    bad |= _pairwise_reciprocals(grid, keys, cols, rows, values, problems)
     inputs.rows[T.PAIRWISE] = dict(rows)
     inputs.columns[T.PAIRWISE] = {k: get_column_letter(c) for k, c in cols.items()}
     if bad:
