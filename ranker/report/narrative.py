@@ -629,7 +629,8 @@ def terminal_lines(result, rows: int = PRINTED_ROWS) -> list[str]:
     of samples in which it ranks first (``<1%`` for a share that rounds to 0,
     ``none`` when it never does). The decision summary (:func:`recommendation`)
     and the tier rule follow, so the terminal says what the justification sheet
-    says, including "not tested against uncertainty" without samples.
+    says, including "not tested against uncertainty" without samples, and the
+    caution every output carries ends it.
     """
     from .summary import has_samples
 
@@ -670,4 +671,7 @@ def terminal_lines(result, rows: int = PRINTED_ROWS) -> list[str]:
         t = getattr(result.robustness, "tiers", None)
         if t is not None and t.samples:  # without samples the summary already says so
             out.append(f"  {tier_rule(result)}")
+    from .workbook import CAUTION
+
+    out.append(f"  {CAUTION}")
     return out

@@ -10,6 +10,7 @@ from ranker import rank_workbook
 from ranker.cli import main
 from ranker.report.narrative import terminal_lines
 from ranker.report.words import share_text
+from ranker.report.workbook import CAUTION
 
 LINE = re.compile(r"^\s+(\d+)\. .* \((\w+)\)  tier (\d+)  score ")
 
@@ -30,6 +31,7 @@ def test_every_corridor_line_gives_the_tier_of_the_ranking(direct_workbook, tmp_
     assert "Fund first" in text
     assert "Tiers: every corridor of a higher tier" in text
     assert "2,000 samples" in text
+    assert lines[-1].strip() == CAUTION  # planning-level only, as every output says
 
 
 def test_without_samples_the_terminal_says_the_order_was_not_tested(direct_workbook, capsys):
