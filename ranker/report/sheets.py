@@ -455,10 +455,17 @@ def budget_sentence(plan) -> str:
     years = sorted({int(y) for y in funded})
     span = f"{years[0]} to {years[-1]}" if years else "no year"
     left = int(greedy["year_funded"].isna().sum())
+    who = (
+        "none of the corridors"
+        if fits == 0
+        else "the first corridor"
+        if fits == 1
+        else f"the first {fits} corridors"
+    )
     return (
-        f"The first year's {first / 1e6:,.1f} million USD pays for the first {fits} of "
-        f"{len(greedy)} corridors by rank (together "
-        f"{float(greedy['capital_usd'].sum()) / 1e6:,.1f} million USD); the greedy plan funds "
+        f"The first year's {first / 1e6:,.1f} million USD pays for {who} by rank; all "
+        f"{len(greedy)} corridors together cost "
+        f"{float(greedy['capital_usd'].sum()) / 1e6:,.1f} million USD. The greedy plan funds "
         f"corridors from {span}"
         + (
             f", and {left} {'stays' if left == 1 else 'stay'} unfunded within the budget."
