@@ -325,13 +325,12 @@ def _judgment(cell) -> float:
     return x
 
 
-def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict, bool]:
+def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict]:
     """Read the criterion keys heading the columns (row 1) and rows (column A).
 
-    Returns ({key: column}, {key: row}, whether a problem was found).
+    Returns ({key: column}, {key: row}); problems go to ``problems``.
     """
     sheet = grid.sheet
-    bad = False
     cols: dict[str, int] = {}
     rows: dict[str, int] = {}
     for c, cell in sorted(grid.header.items()):
@@ -339,7 +338,6 @@ def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict, bool]:
             key = S.normalize_key(U.parse_text(raw(cell)))
         except CellValueError as exc:
             problems.add(ref(sheet, c, 1), exc.what, exc.fix)
-            bad = True
             continue
         if c == 1:
             if key not in ("criterion", "criteria"):
@@ -349,14 +347,12 @@ def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict, bool]:
                     "leave A1 blank or type criterion; criterion keys go in row 1 from "
                     "column B and in column A from row 2",
                 )
-                bad = True
         elif key in cols:
             problems.add(
                 ref(sheet, c, 1),
                 f"{key} heads two columns (also {ref(sheet, cols[key], 1)})",
                 "keep one column per criterion",
             )
-            bad = True
         else:
             cols[key] = c
     for r, cells in sorted(grid.rows.items()):
@@ -366,7 +362,6 @@ def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict, bool]:
             key = S.normalize_key(U.parse_text(raw(cells[1])))
         except CellValueError as exc:
             problems.add(ref(sheet, 1, r), exc.what, exc.fix)
-            bad = True
             continue
         if key in rows:
             problems.add(
@@ -374,17 +369,15 @@ def _pairwise_axes(grid: Grid, problems: Problems) -> tuple[dict, dict, bool]:
                 f"{key} heads two rows (also {ref(sheet, 1, rows[key])})",
                 "keep one row per criterion",
             )
-            bad = True
         else:
             rows[key] = r
-    return cols, rows, bad
+    return cols, rows
 
 
 def _pairwise_labels(
     sheet: str, cols: dict, rows: dict, problems: Problems, inputs: T.Inputs
-) -> bool:
-    """Check that every heading is a criterion with both a row and a column; True if not."""
-    bad = False
+) -> None:
+    """Check that every heading is a criterion with both a row and a column."""
     known = {s.key for s in inputs.criteria}
     for key, c in cols.items():
         if key not in known:
@@ -393,14 +386,12 @@ def _pairwise_labels(
                 f"{key!r} is not a criterion on the Criteria sheet",
                 "use the criterion keys of the Criteria sheet",
             )
-            bad = True
         elif key not in rows:
             problems.add(
                 ref(sheet, c, 1),
                 f"{key} has a column but no row",
                 f"add a row headed {key} in column A",
             )
-            bad = True
     for key, r in rows.items():
         if key not in known:
             problems.add(
@@ -408,14 +399,12 @@ def _pairwise_labels(
                 f"{key!r} is not a criterion on the Criteria sheet",
                 "use the criterion keys of the Criteria sheet",
             )
-            bad = True
         elif key not in cols:
             problems.add(
                 ref(sheet, 1, r),
                 f"{key} has a row but no column",
                 f"add a column headed {key} in row 1",
             )
-            bad = True
     for s in inputs.included:
         if s.key not in cols and s.key not in rows:
             problems.add(
@@ -423,19 +412,14 @@ def _pairwise_labels(
                 f"included criterion {s.key} is missing",
                 f"add a row and a column headed {s.key}",
             )
-            bad = True
-    return bad
 
 
-def _pairwise_values(
-    grid: Grid, keys: list, cols: dict, rows: dict, problems: Problems
-) -> tuple[dict, bool]:
+def _pairwise_values(grid: Grid, keys: list, cols: dict, rows: dict, problems: Problems) -> dict:
     """Read each typed judgment (1/9 to 9, 1 on the diagonal).
 
-    Returns ({(row key, column key): judgment}, whether a problem was found).
+    Returns {(row key, column key): judgment}; problems go to ``problems``.
     """
     sheet = grid.sheet
-    bad = False
     values: dict[tuple[str, str], float] = {}
     for i in keys:
         for j in keys:
@@ -446,7 +430,6 @@ def _pairwise_values(
                 x = _judgment(cell)
             except CellValueError as exc:
                 problems.add(ref(sheet, cols[j], rows[i]), exc.what, exc.fix)
-                bad = True
                 continue
             if i == j and not math.isclose(x, 1.0):
                 problems.add(
@@ -454,17 +437,15 @@ def _pairwise_values(
                     f"the diagonal holds {x:,.4g}",
                     "a criterion compared with itself is 1; type 1 or leave it blank",
                 )
-                bad = True
             values[(i, j)] = x
-    return values, bad
+    return values
 
 
 def _pairwise_reciprocals(
     grid: Grid, keys: list, cols: dict, rows: dict, values: dict, problems: Problems
-) -> bool:
-    """Check every pair has a judgment and typed pairs are reciprocal; True if not."""
+) -> None:
+    """Check every pair has a judgment and typed pairs are reciprocal."""
     sheet = grid.sheet
-    bad = False
     for n, i in enumerate(keys):
         for j in keys[n + 1 :]:
             a, b = values.get((i, j)), values.get((j, i))
@@ -476,21 +457,19 @@ def _pairwise_reciprocals(
                         f"no judgment of {i} against {j}",
                         f"type it here or its reciprocal in {there}",
                     )
-                    bad = True
             elif a is not None and b is not None and abs(a * b - 1) > RECIPROCAL_TOLERANCE:
                 problems.add(
                     here,
                     f"{a:.4g} here and {b:.4g} in {there} are not reciprocal",
                     f"fill only one of the two, or make {there} equal 1/{a:.4g}",
                 )
-                bad = True
-    return bad
 
 
 def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
     """Type the Pairwise matrix; None when no judgment is typed off the diagonal."""
     sheet = grid.sheet
-    cols, rows, bad = _pairwise_axes(grid, problems)
+    before = len(problems.items)  # any problem added below leaves the matrix unread
+    cols, rows = _pairwise_axes(grid, problems)
     col_key = {c: k for k, c in cols.items()}
     row_key = {r: k for k, r in rows.items()}
     judged = [
@@ -509,15 +488,13 @@ def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFr
                 "put criterion keys in row 1 (from B1) and column A (from A2) for "
                 "every row and column you fill",
             )
-            bad = True
-    bad |= _pairwise_labels(sheet, cols, rows, problems, inputs)
+    _pairwise_labels(sheet, cols, rows, problems, inputs)
     keys = [k for k in cols if k in rows]
-    values, bad_value = _pairwise_values(grid, keys, cols, rows, problems)
-    bad |= bad_value
-    bad |= _pairwise_reciprocals(grid, keys, cols, rows, values, problems)
+    values = _pairwise_values(grid, keys, cols, rows, problems)
+    _pairwise_reciprocals(grid, keys, cols, rows, values, problems)
     inputs.rows[T.PAIRWISE] = dict(rows)
     inputs.columns[T.PAIRWISE] = {k: get_column_letter(c) for k, c in cols.items()}
-    if bad:
+    if len(problems.items) > before:
         return None
     return pd.DataFrame(
         [[values.get((i, j), math.nan) for j in keys] for i in keys],
