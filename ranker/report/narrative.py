@@ -447,13 +447,15 @@ def stress_warnings(result) -> list[str]:
     return [] if rob is None else words(rob.warnings, _namer(result))
 
 
-def tipping_sentences(result) -> list[str]:
-    """Every tipping point of the run in words, in the order of the records."""
+def tipping_sentences(result, records: list[dict] | None = None) -> list[str]:
+    """Every tipping point of the run (or the ``records`` given) in words, in their order."""
     rob = result.robustness
     if rob is None:
         return []
     namer = _namer(result)
-    return [tipping_sentence(t, namer) for t in rob.tipping_points]
+    return [
+        tipping_sentence(t, namer) for t in (rob.tipping_points if records is None else records)
+    ]
 
 
 def plan_differences(result) -> list[str]:
@@ -627,7 +629,7 @@ def terminal_lines(result, rows: int = PRINTED_ROWS) -> list[str]:
 
     Each corridor line gives its rank, tier, score and, with samples, the share
     of samples in which it ranks first (``<1%`` for a share that rounds to 0,
-    ``none`` when it never does). The decision summary (:func:`recommendation`)
+    ``never first in the samples`` when it never does). The decision summary (:func:`recommendation`)
     and the tier rule follow, so the terminal says what the justification sheet
     says, including "not tested against uncertainty" without samples, and the
     caution every output carries ends it.
@@ -653,7 +655,7 @@ def terminal_lines(result, rows: int = PRINTED_ROWS) -> list[str]:
             sure = (
                 "  never first in the samples"
                 if share == 0
-                else (f"  first in {share_text(share)} of samples")
+                else f"  first in {share_text(share)} of samples"
             )
         out.append(
             f"  {row['rank']:>3}. {row['name']} ({cid}){tier}  "

@@ -68,23 +68,6 @@ def _kept(frame, keep: set | None, column: str | None = None):
     return frame[ids.isin(keep)]
 
 
-def _tips_of(result, keep: set):
-    """Return a shallow copy of ``result`` holding only the tipping points of ``keep``.
-
-    :func:`tipping_sentences` words each record of it as it does for the
-    whole run; wording only the rows written was most of the Robustness
-    sheet's time at 10,000 corridors.
-    """
-    import copy
-
-    view = copy.copy(result)
-    view.robustness = copy.copy(result.robustness)
-    view.robustness.tipping_points = [
-        t for t in result.robustness.tipping_points if t.get("corridor_id") in keep
-    ]
-    return view
-
-
 def chart_height(bars: int) -> float:
     """Height of a bar chart in cm for ``bars`` bars [cm]."""
     return min(24.0, 3.0 + 0.55 * bars)
@@ -364,10 +347,14 @@ def robustness_sheet(writer, result) -> None:
         put(ws, row, 1, "Monte Carlo turned off (--samples 0).")
         row += 2
     put(ws, row, 1, "Weight tipping points").font = HEADER_FONT
-    view = result if keep is None else _tips_of(result, keep)
-    tips = pd.DataFrame(view.robustness.tipping_points)
+    # Only the rows written are worded (at 10,000 corridors wording them all was
+    # most of this sheet's time).
+    records = rob.tipping_points
+    if keep is not None:
+        records = [t for t in records if t.get("corridor_id") in keep]
+    tips = pd.DataFrame(records)
     if len(tips):
-        tips["sentence"] = tipping_sentences(view)
+        tips["sentence"] = tipping_sentences(result, records)
     if len(tips):
         _, _, row, _ = writer.table(ws, tips, top=row + 1, name="tipping")
     else:
@@ -403,9 +390,7 @@ def more_robustness_sheet(writer, result) -> None:
         else summary_note(result, "the weight-range and central-weight tables", JSON_HAS_ALL),
     )
     bottom = 2
-    intervals = rob.rank_intervals
-    if len(intervals) and keep is not None:
-        intervals = _kept(intervals, keep, "corridor_id")
+    intervals = _kept(rob.rank_intervals, keep, "corridor_id")
     if len(intervals):
         _, _, bottom, _ = writer.table(
             ws, rank_intervals(result, intervals), name="rank_intervals"
@@ -490,8 +475,9 @@ def plan_sheet(writer, result) -> None:
     _, _, bottom, _ = writer.table(ws, plan.schedule, top=bottom + 3, name="plan_schedule")
     lines = [budget_sentence(plan), f"Optimality gap of the optimised plan: {plan.gap:.2%}."]
     lines += plan_differences(result)
-    if coverage_sentence(result):
-        lines.append(coverage_sentence(result))
+    coverage = coverage_sentence(result)
+    if coverage:
+        lines.append(coverage)
     lines += [f"warning: {w}" for w in plan.warnings]
     for i, sentence in enumerate(lines, start=bottom + 2):
         put(ws, i, 1, sentence)

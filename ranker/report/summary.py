@@ -86,7 +86,7 @@ def summary_json(result) -> dict:
             tipping_sentences,
         )
 
-        robustness.update(rob.to_json())
+        robustness.update(rob.to_json(worded_later=("rank_intervals", "closeness")))
         robustness["samples"] = result.samples
         for record, sentence in zip(
             robustness["tipping_points"], tipping_sentences(result), strict=True

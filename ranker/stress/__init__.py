@@ -160,11 +160,17 @@ class Robustness:
             return None
         return self.scorer.weights(self.values, self.weight_draws)
 
-    def to_json(self) -> dict:
-        """Return a JSON-ready summary (plain types; NaN as null)."""
+    def to_json(self, *, worded_later: tuple[str, ...] = ()) -> dict:
+        """Return a JSON-ready summary (plain types; NaN as null).
 
-        def records(frame):
-            return [plain(r) for r in frame.to_dict(orient="records")]
+        The tables named in ``worded_later`` (``rank_intervals``,
+        ``closeness``) are left as None in their place, for a caller that
+        writes them with their words (:func:`ranker.report.summary.summary_json`)
+        instead of converting every row twice.
+        """
+
+        def records(frame, key):
+            return None if key in worded_later else [plain(r) for r in frame.to_dict("records")]
 
         return plain(
             {
@@ -181,9 +187,9 @@ class Robustness:
                     for i, row in self.central_weights.iterrows()
                 },
                 "confidence": {str(k): float(v) for k, v in self.confidence.items()},
-                "rank_intervals": records(self.rank_intervals),
+                "rank_intervals": records(self.rank_intervals, "rank_intervals"),
                 "stakeholders": self.stakeholders,
-                "closeness": records(self.closeness),
+                "closeness": records(self.closeness, "closeness"),
                 "warnings": list(self.warnings),
                 "pairwise_wins": (
                     None

@@ -29,11 +29,10 @@ from .basic import listing, money, number
 
 
 def _names(labels: list[str]) -> str:
+    """:func:`listing`, with more than four corridors said as three and "N more"."""
     if len(labels) > 4:
         labels = labels[:3] + [f"{len(labels) - 3} more"]
-    if len(labels) <= 1:
-        return "".join(labels)
-    return ", ".join(labels[:-1]) + " and " + labels[-1]
+    return listing(labels)
 
 
 def describe_differences(
