@@ -12,6 +12,7 @@ from . import charts, narrative
 from .map import map_context
 from .sheets import criterion_unit
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
+from .words import share_text
 from .workbook import CAUTION
 
 
@@ -30,7 +31,10 @@ def template_folder():
 def _environment() -> jinja2.Environment:
     folder = template_folder()
     loader = jinja2.FunctionLoader(lambda name: (folder / name).read_text(encoding="utf-8"))
-    return jinja2.Environment(loader=loader, autoescape=True, undefined=jinja2.StrictUndefined)
+    env = jinja2.Environment(loader=loader, autoescape=True, undefined=jinja2.StrictUndefined)
+    # Shares of samples as every output says them (<1% and >99%, never a rounded 0% or 100%).
+    env.filters["share"] = share_text
+    return env
 
 
 def _cards(result, shown) -> list[dict]:
