@@ -55,7 +55,7 @@ from ranker.score.stack import empty_stack
 
 from .batch import chunk_size, rank_batch, score_variants
 from .pairs import cycles_from_rows, pair_relation, signs_row
-from .swaps import RankedCollector, passes
+from .swaps import Collector, passes
 from .variants import topsis_variants
 
 #: Most swaps listed per check (all are counted) [-].
@@ -186,16 +186,18 @@ def replace_worse(
         mats[np.arange(stop - start), target_idx[start:stop]] = target_rows[start:stop]
         return mats
 
-    col = RankedCollector(ids, targets, r0, g0, best, MAX_DETAILS)
-    closed = topsis_variants(scorer, x, weights)
+    col = Collector(ids, targets, r0, g0, best, MAX_DETAILS)
+    at = col.inv[target_idx]  # each replaced corridor's layout column
+    closed = topsis_variants(scorer, x, weights, col.perm)
     for s, e in passes(len(targets), n, k):
         if closed is not None:
             goods = closed.with_replaced(target_idx[s:e], target_rows[s:e])
         else:
             goods = score_variants(scorer, weights, e - s, n, k, partial(build, offset=s))
-        kept = np.ones((e - s, n), dtype=bool)
-        kept[np.arange(e - s), target_idx[s:e]] = False
-        col.add(s, rank_batch(goods), goods, kept)
+            goods = goods[:, col.perm]
+        compared = np.ones((e - s, n), dtype=bool)
+        compared[np.arange(e - s), at[s:e]] = False
+        col.add_scores(s, goods, compared, goods[np.arange(e - s), at[s:e]][:, None])
     details, count, lost, moved, top_count = col.result()
     passed = not lost
     facts = {
@@ -222,17 +224,16 @@ def clone(scorer, matrix, weights, ids) -> Check:
         mats[:, n] = x[start + offset : stop + offset]
         return mats
 
-    r0x, g0x = np.append(r0, 0), np.append(g0, 0.0)
-    col = RankedCollector(ids + ["(copy)"], range(n), r0x, g0x, best, MAX_DETAILS)
-    closed = topsis_variants(scorer, x, weights)
+    col = Collector(ids, range(n), r0, g0, best, MAX_DETAILS)
+    closed = topsis_variants(scorer, x, weights, col.perm)
     for s, e in passes(n, n + 1, k):
         if closed is not None:
             goods = closed.with_copy(np.arange(s, e))
         else:
             goods = score_variants(scorer, weights, e - s, n + 1, k, partial(build, offset=s))
-        kept = np.ones((e - s, n + 1), dtype=bool)
-        kept[:, n] = False  # the copy takes no part in the comparison
-        col.add(s, rank_batch(goods), goods, kept)
+            goods = np.concatenate([goods[:, col.perm], goods[:, n:]], axis=1)
+        # The copy (last column) ranks but takes no part in the comparison.
+        col.add_scores(s, goods[:, :n], np.ones((e - s, n), dtype=bool), goods[:, n:])
     details, count, lost, changed, _ = col.result()
     return Check("clone", count == 0, details, {"corridors": n}, count, changed, lost)
 
@@ -265,26 +266,24 @@ def leave_one_out(scorer, matrix, weights, ids) -> Check:
         # Row r of variant i is corridor r, or r + 1 from the removed one on.
         return rest + (rest >= np.arange(start, stop)[:, None])  # corridor indices
 
-    col = RankedCollector(ids, range(n), r0, g0, best, MAX_DETAILS)
-    closed = topsis_variants(scorer, x, weights)
+    col = Collector(ids, range(n), r0, g0, best, MAX_DETAILS)
+    closed = topsis_variants(scorer, x, weights, col.perm)
     for s, e in passes(n, n - 1, k):
         variant, kept = np.arange(e - s)[:, None], kept_rows(s, e)
+        compared = np.ones((e - s, n), dtype=bool)
+        compared[np.arange(e - s), col.inv[s:e]] = False
         if closed is None:
             short = score_variants(scorer, weights, e - s, n - 1, k, partial(build, offset=s))
+            goods = np.zeros((e - s, n))
+            goods[variant, col.inv[kept]] = short
         else:
-            short = np.take_along_axis(closed.without(np.arange(s, e)), kept, axis=1)
+            goods = closed.without(np.arange(s, e))
             moves = np.nonzero(closed.removal_moves_ideal[s:e])[0]
             for start in range(0, moves.size, chunk_size(n - 1, k)):
                 m = moves[start : start + chunk_size(n - 1, k)]
-                short[m] = scorer.stack(empty_stack_of(x[kept[m]]), weights)
-        # Put the results back in full index space; the removed corridor gets 0.
-        ranks = np.zeros((e - s, n), dtype=int)
-        goods = np.zeros((e - s, n))
-        ranks[variant, kept] = rank_batch(short)
-        goods[variant, kept] = short
-        present = np.ones((e - s, n), dtype=bool)
-        present[np.arange(e - s), np.arange(s, e)] = False
-        col.add(s, ranks, goods, present)
+                short = scorer.stack(empty_stack_of(x[kept[m]]), weights)
+                goods[m[:, None], col.inv[kept[m]]] = short
+        col.add_scores(s, goods, compared)
     details, count, lost, removed, _ = col.result()
     return Check("leave_one_out", count == 0, details, {"corridors": n}, count, removed, lost)
 

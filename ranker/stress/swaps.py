@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .batch import chunk_size
+from .batch import beat_thresholds, chunk_size
 
 #: Variant problems scored and compared per pass of the swap counter: about
 #: this many corridor entries per pass, so the (variants x corridors) arrays
@@ -71,12 +71,27 @@ def _pair_rows(o, w, rows):
 class _Swaps:
     """The swaps of a pass of variants: counts for all, pairs on demand.
 
-    Sorting each variant's kept corridors by their old rank (then new rank),
-    a swap is a later corridor with a better new rank: the swaps are the
-    strict inversions of the new ranks in that order. Only corridors with a
-    worse new rank somewhere before them, or a better one after them, can be
-    part of a swap; inversions are counted, and pairs listed when asked for,
-    among those alone.
+    Works on the corridors laid out best first (by old rank, ties by index).
+    A corridor can be part of a swap only if some compared corridor before
+    it ends lower (its ``key`` below the corridor's own) or one after it
+    ends higher; those are the members, and only their new ranks are
+    needed. Sorted by (old rank, new rank), a swap is a later member with a
+    better new rank, so the swaps are the strict inversions of the members'
+    new ranks in that order.
+
+    Parameters
+    ----------
+    old : ndarray of int, shape (n,)
+        Old ranks in layout order, non-decreasing [-].
+    key : ndarray, shape (v, n)
+        Per variant, a value a higher new rank never has more of: the
+        oriented score, or minus the new rank [-].
+    compared : ndarray of bool, shape (v, n)
+        The corridors each variant's order is compared on.
+    is_best : ndarray of bool, shape (n,)
+        Corridors first before.
+    new_ranks : callable (variant, members) -> ndarray of int
+        The new ranks of the given layout positions of one variant [-].
 
     Attributes
     ----------
@@ -86,95 +101,158 @@ class _Swaps:
         Swaps per variant whose upper corridor was first before [-].
     """
 
-    def __init__(self, r0, ranks, kept, is_best):
-        v, size = ranks.shape
-        big = size + 1
-        self.old = np.where(kept, r0[None, :], big).astype(np.int64)
-        self.new = np.where(kept, ranks, big).astype(np.int64)
+    def __init__(self, old, key, compared, is_best, new_ranks):
+        v, n = key.shape
         self.counts = np.zeros(v, dtype=np.int64)
         self.top = np.zeros(v, dtype=np.int64)
-        self._members: dict[int, np.ndarray] = {}
-        if not v:
+        self._members: dict[int, tuple[np.ndarray, np.ndarray, np.ndarray]] = {}
+        if not v or n < 2:
             return
-        order = np.argsort(self.old * (size + 2) + self.new, axis=1, kind="stable")
-        after = np.take_along_axis(self.new, order, axis=1)
-        moved = np.nonzero((np.diff(after, axis=1) < 0).any(axis=1))[0]
-        if not moved.size:
-            return
-        after, order = after[moved], order[moved]
-        before_max = np.maximum.accumulate(
-            np.concatenate([after[:, :1], after[:, :-1]], axis=1), axis=1
-        )
-        after_min = np.minimum.accumulate(
-            np.concatenate([after[:, 1:], after[:, -1:]], axis=1)[:, ::-1], axis=1
-        )[:, ::-1]
-        flagged = (before_max > after) | (after_min < after)
-        for row, var in enumerate(moved):
-            self._members[int(var)] = order[row, flagged[row]]
-            self.counts[var] = inversions(after[row, flagged[row]])
-        for a in np.nonzero(is_best)[0]:
-            oa, wa = self.old[:, a : a + 1], self.new[:, a : a + 1]
-            self.top += ((self.old > oa) & (self.new < wa)).sum(axis=1)
+        flagged = np.zeros((v, n), dtype=bool)
+        low = np.where(compared, key, np.inf)
+        high = np.where(compared, key, -np.inf)
+        flagged[:, 1:] = np.minimum.accumulate(low[:, :-1], axis=1) < key[:, 1:]
+        flagged[:, :-1] |= np.maximum.accumulate(high[:, :0:-1], axis=1)[:, ::-1] > key[:, :-1]
+        flagged &= compared
+        big = int(old.max(initial=0)) + n + 2
+        for var in np.nonzero(flagged.any(axis=1))[0]:
+            m = np.nonzero(flagged[var])[0]
+            new = np.asarray(new_ranks(var, m), dtype=np.int64)
+            o = old[m].astype(np.int64)
+            order = np.argsort(o * big + new, kind="stable")
+            m, o, new = m[order], o[order], new[order]
+            count = inversions(new)
+            if not count:
+                continue
+            self.counts[var] = count
+            self._members[int(var)] = (m, o, new)
+            for a in np.nonzero(is_best[m])[0]:
+                self.top[var] += int(np.count_nonzero((o > o[a]) & (new < new[a])))
 
-    def pairs(self, var: int, upper=None, limit=None) -> tuple[np.ndarray, np.ndarray]:
-        """Swapped pairs (a above b before, below it after) of one variant, in sorted order.
+    def pairs(self, var: int, upper=None, limit=None):
+        """Swapped pairs of one variant, in sorted order: ``(a, b, new_a, new_b)``.
 
-        ``upper`` (bool per corridor) keeps the pairs whose upper corridor
-        it marks; ``limit`` stops after that many pairs.
+        ``a`` was above ``b`` before and is below it after (layout
+        positions); ``new_a``, ``new_b`` are their new ranks. ``upper``
+        (bool per corridor) keeps the pairs whose upper corridor it marks;
+        ``limit`` stops after that many pairs.
         """
-        m = self._members.get(int(var))
-        if m is None:
-            return np.zeros(0, dtype=int), np.zeros(0, dtype=int)
-        o, w = self.old[var, m], self.new[var, m]
+        none = np.zeros(0, dtype=np.int64)
+        if int(var) not in self._members:
+            return none, none, none, none
+        m, o, w = self._members[int(var)]
         rows = np.arange(m.size) if upper is None else np.nonzero(upper[m])[0]
         got_a, got_b, total = [], [], 0
         for ia, ib in _pair_rows(o, w, rows):
-            got_a.append(m[ia])
-            got_b.append(m[ib])
+            got_a.append(ia)
+            got_b.append(ib)
             total += ia.size
             if limit is not None and total >= limit:
                 break
         if not got_a:
-            return np.zeros(0, dtype=int), np.zeros(0, dtype=int)
-        a, b = np.concatenate(got_a), np.concatenate(got_b)
-        return (a, b) if limit is None else (a[:limit], b[:limit])
+            return none, none, none, none
+        ia, ib = np.concatenate(got_a)[:limit], np.concatenate(got_b)[:limit]
+        return m[ia], m[ib], w[ia], w[ib]
+
+
+def _score_ranks(goods, compared, extra):
+    """``new_ranks`` for :class:`_Swaps` from oriented scores (the tie rule of
+    :func:`~ranker.stress.batch.rank_batch`).
+
+    A member's rank is 1 + the number of present scores that beat it: the
+    compared corridors and, per variant, the ``extra`` scores (a copy, or
+    the replaced corridor's new row) that take part in the ranking but not
+    in the comparison. The compared corridors that are not members are
+    already in order (non-increasing along the layout), so they are counted
+    by a sorted search without sorting them.
+    """
+
+    def new_ranks(var, members):
+        g = goods[var]
+        vals = g[members]
+        thresholds = beat_thresholds(vals)
+        rest = np.ones(g.size, dtype=bool)
+        rest[members] = False
+        rest &= compared[var]
+        ordered = g[rest][::-1]  # ascending
+        beaten = ordered.size - np.searchsorted(ordered, thresholds, side="right")
+        own = np.sort(vals)
+        beaten += own.size - np.searchsorted(own, thresholds, side="right")
+        if extra is not None:
+            beaten += (extra[var][:, None] > thresholds[None, :]).sum(axis=0)
+        return 1 + beaten
+
+    return new_ranks
 
 
 class Collector:
     """Swap records of a check's variants, fed a pass of variants at a time.
 
-    Variant ``v`` changed corridor ``changed_list[v]``; ``kept`` (variants x
-    corridors, bool) marks the corridors each variant's order is compared
-    on. :meth:`result` gives the records (at most ``limit``, those costing
-    first place first), the number of swaps, the corridors whose change cost
-    first place, the corridors whose change reordered anything, and the
-    number of swaps that cost first place.
+    The corridors are laid out best first (old rank, ties by index; the
+    permutation is :attr:`perm`), so every variant is nearly in order and
+    only the few corridors that move are sorted. Variant ``v`` changed
+    corridor ``changed_list[v]``. :meth:`result` gives the records (at most
+    ``limit``, those costing first place first), the number of swaps, the
+    corridors whose change cost first place, the corridors whose change
+    reordered anything, and the number of swaps that cost first place.
     """
 
     def __init__(self, ids, changed_list, r0, g0, best, limit):
-        self.ids, self.changed, self.limit = ids, list(changed_list), limit
-        self.r0, self.g0 = np.asarray(r0), np.asarray(g0)
+        r0 = np.asarray(r0)
+        self.perm = np.argsort(np.where(r0 > 0, r0, len(r0) + 1), kind="stable")
+        inv = np.empty_like(self.perm)
+        inv[self.perm] = np.arange(self.perm.size)
+        self.inv = inv
+        self.ids = [ids[p] for p in self.perm]
+        self.changed = inv[np.asarray(list(changed_list), dtype=np.int64)]
+        self.r0 = r0[self.perm]
+        self.g0 = np.asarray(g0, dtype=float)[self.perm]
+        self.limit = limit
         self.is_best = np.zeros(len(self.r0), dtype=bool)
-        self.is_best[sorted(best)] = True
+        self.is_best[[int(inv[b]) for b in best]] = True
         self.count = self.top_count = 0
         self.moved, self.lost = [], []
         self.top_found, self.other_found = [], []
 
-    def _record(self, v, a, b, ranks, goods):
+    def _record(self, v, a, b, new_a, new_b, goods):
         return {
             "changed": self.ids[self.changed[v]],
             "corridor_id": self.ids[a],
             "other_id": self.ids[b],
             "ranks_before": [int(self.r0[a]), int(self.r0[b])],
-            "ranks_after": [int(ranks[a]), int(ranks[b])],
+            "ranks_after": [int(new_a), int(new_b)],
             "score_gap_before": float(self.g0[a] - self.g0[b]),
             "score_gap_after": float(goods[a] - goods[b]),
             "affects_first": bool(self.is_best[a]),
         }
 
     def add(self, start, ranks, goods, kept):
-        """Take variants ``start, start + 1, ...`` (their ranks, scores and kept masks)."""
-        sw = _Swaps(self.r0, ranks, kept, self.is_best)
+        """Take variants ``start, start + 1, ...`` by their new ranks, scores and kept masks.
+
+        All three are (variants x corridors) in the corridors' given order.
+        """
+        p = self.perm
+        ranks, goods, kept = np.asarray(ranks)[:, p], np.asarray(goods)[:, p], kept[:, p]
+        sw = _Swaps(self.r0, -ranks.astype(float), kept, self.is_best, lambda v, m: ranks[v, m])
+        self._take(start, sw, goods)
+
+    def add_scores(self, start, goods, compared, extra=None):
+        """Take variants ``start, ...`` by their oriented scores, in layout order.
+
+        Parameters
+        ----------
+        goods : ndarray, shape (v, n)
+            Scores of the corridors, columns in layout order (``perm``) [-].
+        compared : ndarray of bool, shape (v, n)
+            The corridors each variant's order is compared on; the others
+            take no part in its ranking unless repeated in ``extra``.
+        extra : ndarray, shape (v, e), optional
+            Scores that rank but are not compared (a copy, a replaced row) [-].
+        """
+        sw = _Swaps(self.r0, goods, compared, self.is_best, _score_ranks(goods, compared, extra))
+        self._take(start, sw, goods)
+
+    def _take(self, start, sw, goods):
         self.count += int(sw.counts.sum())
         self.top_count += int(sw.top.sum())
         self.moved.extend(self.ids[self.changed[start + v]] for v in np.nonzero(sw.counts)[0])
@@ -183,19 +261,17 @@ class Collector:
         for v in np.nonzero(sw.top)[0]:
             if len(self.top_found) >= self.limit:
                 break
-            a, b = sw.pairs(v, upper=self.is_best)
             self.top_found.extend(
-                self._record(start + v, int(p), int(q), ranks[v], goods[v])
-                for p, q in zip(a, b, strict=True)
+                self._record(start + v, *pair, goods[v])
+                for pair in zip(*sw.pairs(v, upper=self.is_best), strict=True)
             )
         for v in np.nonzero(sw.counts - sw.top)[0]:
             room = self.limit - len(self.other_found)
             if room <= 0:
                 break
-            a, b = sw.pairs(v, upper=~self.is_best, limit=room)
             self.other_found.extend(
-                self._record(start + v, int(p), int(q), ranks[v], goods[v])
-                for p, q in zip(a, b, strict=True)
+                self._record(start + v, *pair, goods[v])
+                for pair in zip(*sw.pairs(v, upper=~self.is_best, limit=room), strict=True)
             )
 
     def result(self):
@@ -203,36 +279,6 @@ class Collector:
         records = (self.top_found + self.other_found)[: self.limit]
         records.sort(key=lambda r: (not r["affects_first"], r["ranks_before"]))
         return records, self.count, self.lost, self.moved, self.top_count
-
-
-class RankedCollector(Collector):
-    """A :class:`Collector` that works with the corridors in their original order.
-
-    Laid out best first (ties by index), every variant's (old rank, new
-    rank) keys are nearly sorted already, and the stable sort of the swap
-    counter runs in close to linear time instead of sorting at random. The
-    records, counts and lists are those of :class:`Collector` on the
-    corridors as given: the layout keeps equal keys in index order.
-    """
-
-    def __init__(self, ids, changed_list, r0, g0, best, limit):
-        r0 = np.asarray(r0)
-        self.perm = np.argsort(np.where(r0 > 0, r0, len(r0) + 1), kind="stable")
-        inv = np.empty_like(self.perm)
-        inv[self.perm] = np.arange(self.perm.size)
-        super().__init__(
-            [ids[p] for p in self.perm],
-            inv[np.asarray(list(changed_list), dtype=np.int64)],
-            r0[self.perm],
-            np.asarray(g0)[self.perm],
-            {int(inv[b]) for b in best},
-            limit,
-        )
-
-    def add(self, start, ranks, goods, kept):
-        """Take variants ``start, ...`` with corridors in the order given to the constructor."""
-        p = self.perm
-        super().add(start, ranks[:, p], goods[:, p], kept[:, p])
 
 
 def passes(count, rows, k):

@@ -33,8 +33,21 @@ import numpy as np
 
 from ranker.score.topsis import topsis
 
-#: Elements (variants x corridors x criteria) per block of directly computed distances [-].
-MOVED_BUDGET = 4_000_000
+
+def _closeness(dp2: np.ndarray, dm2: np.ndarray) -> np.ndarray:
+    """Closeness ``d- / (d+ + d-)`` from squared distances, 0.5 where both are 0 [-].
+
+    Works in place on the two arrays (they are the products just computed),
+    so a pass of variants allocates no further (variants x corridors) array.
+    """
+    d_plus = np.sqrt(np.maximum(dp2, 0.0, out=dp2), out=dp2)
+    d_minus = np.sqrt(np.maximum(dm2, 0.0, out=dm2), out=dm2)
+    total = np.add(d_plus, d_minus, out=d_plus)
+    with np.errstate(invalid="ignore"):
+        out = np.divide(d_minus, total, out=d_minus)
+    if not total.all():
+        out[total == 0] = 0.5
+    return out
 
 
 class TopsisVariants:
@@ -48,17 +61,25 @@ class TopsisVariants:
         Weights [-].
     is_benefit : ndarray of bool, shape (k,)
         True where more is better.
+    layout : ndarray of int, shape (n,), optional
+        Corridor indices in the order the score columns come out in (the
+        swap counter's best-first layout); default the input order. Variants
+        are always named by corridor index.
     """
 
-    def __init__(self, x, weights, is_benefit):
+    def __init__(self, x, weights, is_benefit, layout=None):
         self.x = x
         self.x2 = x * x
         self.norm2 = self.x2.sum(axis=0)
         r = x / np.sqrt(np.where(self.norm2 == 0, 1.0, self.norm2))
         hi, lo = r.max(axis=0), r.min(axis=0)
         benefit = np.asarray(is_benefit, dtype=bool)
-        self.to_ideal = ((r - np.where(benefit, hi, lo)) ** 2).T.copy()  # (k, n)
-        self.to_anti = ((r - np.where(benefit, lo, hi)) ** 2).T.copy()
+        layout = np.arange(len(x)) if layout is None else np.asarray(layout, dtype=np.int64)
+        self.layout = layout
+        self.column = np.empty_like(layout)  # corridor index -> output column
+        self.column[layout] = np.arange(layout.size)
+        self.to_ideal = ((r[layout] - np.where(benefit, hi, lo)) ** 2).T.copy()  # (k, n)
+        self.to_anti = ((r[layout] - np.where(benefit, lo, hi)) ** 2).T.copy()
         self.w2 = np.asarray(weights, dtype=float) ** 2
         weighted = self.w2 > 0
         # Removing a corridor moves a column's best or worst value when it holds
@@ -72,7 +93,7 @@ class TopsisVariants:
         alone |= ((self.norm2 - self.x2 <= 0) & weighted).any(axis=1)
         self.removal_moves_ideal = alone
         # For replacements: each column's best and worst value without corridor v.
-        self.r, self.benefit = r, benefit
+        self.r, self.r_out, self.benefit = r, r[layout], benefit
         self.ideal, self.anti = np.where(benefit, hi, lo), np.where(benefit, lo, hi)
         order = np.sort(r, axis=0)
         # With one corridor there is no other: the new row alone sets both.
@@ -86,15 +107,12 @@ class TopsisVariants:
             norm2_variant > 0, self.norm2 / np.where(norm2_variant > 0, norm2_variant, 1.0), 1.0
         )
         a = self.w2 * f2  # w_c^2 f_c^2, one row per variant
-        d_plus = np.sqrt(np.maximum(a @ self.to_ideal, 0.0))
-        d_minus = np.sqrt(np.maximum(a @ self.to_anti, 0.0))
-        total = d_plus + d_minus
-        return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+        return _closeness(a @ self.to_ideal, a @ self.to_anti)
 
     def with_copy(self, v: np.ndarray) -> np.ndarray:
         """Scores (len(v), n + 1) of the base corridors and, last, the copy of corridor v [-]."""
         g = self._scores(self.norm2[None, :] + self.x2[v])
-        return np.concatenate([g, g[np.arange(len(v)), v][:, None]], axis=1)
+        return np.concatenate([g, g[np.arange(len(v)), self.column[v]][:, None]], axis=1)
 
     def without(self, v: np.ndarray) -> np.ndarray:
         """Scores (len(v), n) of the base corridors with corridor v removed (its own entry unused) [-].
@@ -120,35 +138,35 @@ class TopsisVariants:
         lo = np.minimum(self.lo_without[v], new)
         ideal = np.where(self.benefit, hi, lo)
         anti = np.where(self.benefit, lo, hi)
-        dp2, dm2 = a @ self.to_ideal, a @ self.to_anti
-        # Where the new row moves an ideal or anti-ideal, the distances to the
-        # moved point are taken directly (expanding the square would cancel
-        # digits exactly where a distance is near 0).
-        moved = (((ideal != self.ideal) | (anti != self.anti)) & (self.w2 > 0)).any(axis=1)
-        moved = np.nonzero(moved)[0]
-        step = max(1, MOVED_BUDGET // max(1, self.r.size))
-        for start in range(0, moved.size, step):
-            m = moved[start : start + step]
-            dp2[m] = np.einsum("mk,mnk->mn", a[m], (self.r[None] - ideal[m][:, None, :]) ** 2)
-            dm2[m] = np.einsum("mk,mnk->mn", a[m], (self.r[None] - anti[m][:, None, :]) ** 2)
-        rows_m = np.arange(len(v))
-        dp2[rows_m, v] = (a * (new - ideal) ** 2).sum(axis=1)
-        dm2[rows_m, v] = (a * (new - anti) ** 2).sum(axis=1)
-        d_plus, d_minus = np.sqrt(np.maximum(dp2, 0.0)), np.sqrt(np.maximum(dm2, 0.0))
-        total = d_plus + d_minus
-        out = np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+        # Where the new row moves an ideal or anti-ideal value, that column's
+        # terms are left out of the matrix product and added directly as
+        # ``a_c (r_lc - p_c)^2`` with the moved point p (expanding the square
+        # would cancel digits exactly where a distance is near 0).
+        weighted = self.w2 > 0
+        moved_ideal = (ideal != self.ideal) & weighted
+        moved_anti = (anti != self.anti) & weighted
+        dp2 = np.where(moved_ideal, 0.0, a) @ self.to_ideal
+        dm2 = np.where(moved_anti, 0.0, a) @ self.to_anti
+        for out, moved, point in ((dp2, moved_ideal, ideal), (dm2, moved_anti, anti)):
+            for c in np.nonzero(moved.any(axis=0))[0]:
+                m = np.nonzero(moved[:, c])[0]
+                out[m] += a[m, c, None] * (self.r_out[None, :, c] - point[m, c, None]) ** 2
+        rows_m, at = np.arange(len(v)), self.column[v]
+        dp2[rows_m, at] = (a * (new - ideal) ** 2).sum(axis=1)
+        dm2[rows_m, at] = (a * (new - anti) ** 2).sum(axis=1)
+        out = _closeness(dp2, dm2)
         # A column of zeros that the new row fills has no base scale: score those
         # variants as they are (the worsening rule never does this).
         empty = ((self.norm2 == 0) & (nv > 0) & (self.w2 > 0)).any(axis=1)
         for m in np.nonzero(empty)[0]:
             y = self.x.copy()
             y[v[m]] = rows[m]
-            out[m] = topsis(y, np.sqrt(self.w2), self.benefit)
+            out[m] = topsis(y, np.sqrt(self.w2), self.benefit)[self.layout]
         return out
 
 
-def topsis_variants(scorer, x, weights):
+def topsis_variants(scorer, x, weights, layout=None):
     """A :class:`TopsisVariants` for a TOPSIS scorer on vector-normalised values, else None."""
     if scorer.kernel is not topsis or scorer.options.get("normalization", "vector") != "vector":
         return None
-    return TopsisVariants(np.asarray(x, dtype=float), weights, scorer.is_benefit)
+    return TopsisVariants(np.asarray(x, dtype=float), weights, scorer.is_benefit, layout)
