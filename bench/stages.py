@@ -90,6 +90,109 @@ def floor_pairs(x, w, is_benefit):
     return wins, cycles, disagree
 
 
+def _closeness(dp2, dm2):
+    dp, dm = np.sqrt(np.maximum(dp2, 0.0)), np.sqrt(np.maximum(dm2, 0.0))
+    return dm / (dp + dm)
+
+
+def _inversions(s):
+    """Pairs i < j with s[i] > s[j]: compared with near neighbours only when
+    every element is within d places of its sorted place (a pair i < j that
+    is inverted has j - i < 2 d), else by halves and a sorted search."""
+    d = int(np.abs(np.argsort(s, kind="stable") - np.arange(s.size)).max(initial=0))
+    if d <= 48:
+        return sum(int(np.count_nonzero(s[:-t] > s[t:])) for t in range(1, 2 * d))
+    if s.size < 64:
+        return int(np.count_nonzero(np.triu(s[:, None] > s[None, :], 1)))
+    h = s.size // 2
+    cross = h * (s.size - h) - int(np.searchsorted(np.sort(s[:h]), s[h:], side="right").sum())
+    return _inversions(s[:h]) + _inversions(s[h:]) + cross
+
+
+def floor_swaps(g):
+    """Swaps per row of scores laid out best first before (no ties): pairs i < j, g_j > g_i.
+
+    Entries set to NaN take no part. Only entries with a lower score before
+    them or a higher one after them can be in a swap; those are counted.
+    """
+    member = np.zeros(g.shape, dtype=bool)
+    member[:, 1:] = np.fmin.accumulate(g[:, :-1], axis=1) < g[:, 1:]
+    member[:, :-1] |= np.fmax.accumulate(g[:, :0:-1], axis=1)[:, ::-1] > g[:, :-1]
+    counts = np.zeros(len(g), dtype=np.int64)
+    for v in np.nonzero(member.any(axis=1))[0]:
+        counts[v] = _inversions(-g[v, member[v]])
+    return counts
+
+
+def floor_variant_swaps(x, w, is_benefit, kind, *, block=256, fraction=0.05):
+    """Swaps per changed corridor of test 1 (``worse``), ``clone`` or ``loo`` (no ties).
+
+    TOPSIS on vector-normalised values (Hwang & Yoon 1981, pp. 128-134): a
+    variant changes the column norms, and sometimes the ideal or
+    anti-ideal, so its scores are two matrix products of the base
+    distances with the re-weighted ``w_c^2 N_c^2 / N'_c^2``, plus, where a
+    worse copy moves the ideal or anti-ideal of a column, that column's
+    terms taken to the moved point. A corridor removed or replaced takes no
+    part in the comparison (without ties it cannot change the order of the
+    others); test 1 keeps the first corridor as it is. Returns the swaps
+    and those whose upper corridor is the first one, (n,) each in input
+    order (0 for the first corridor in test 1).
+    """
+    n = x.shape[0]
+    g0 = floor_topsis(x, w, is_benefit)[0]
+    order = np.argsort(-g0, kind="stable")
+    xs = x[order]
+    norm2 = (x * x).sum(axis=0)
+    r = xs / np.sqrt(norm2)
+    hi, lo = r.max(axis=0), r.min(axis=0)
+    ideal, anti = np.where(is_benefit, hi, lo), np.where(is_benefit, lo, hi)
+    to_i, to_a = ((r - ideal) ** 2).T, ((r - anti) ** 2).T
+    w2 = w * w
+    if kind == "worse":
+        step = fraction * (x.max(axis=0) - x.min(axis=0))
+        moved = np.where(is_benefit, xs - step, xs + step)
+        worse = np.where(
+            (xs >= 0) & (moved < 0), 0.0, np.where((xs <= 0) & (moved > 0), 0.0, moved)
+        )
+        srt = np.sort(r, axis=0)
+        hi_wo = np.where(r == hi, srt[-2], hi)  # no ties: one corridor holds each extreme
+        lo_wo = np.where(r == lo, srt[1], lo)
+    counts, top = np.zeros(n, dtype=np.int64), np.zeros(n, dtype=np.int64)
+    for s in range(1 if kind == "worse" else 0, n, block):
+        v = np.arange(s, min(n, s + block))
+        rows = np.arange(v.size)
+        if kind == "clone":
+            nv = norm2 + xs[v] ** 2
+        elif kind == "loo":
+            nv = norm2 - xs[v] ** 2
+        else:
+            nv = norm2 - xs[v] ** 2 + worse[v] ** 2
+        a = w2 * norm2 / nv
+        if kind != "worse":
+            g = _closeness(a @ to_i, a @ to_a)
+        else:
+            new = worse[v] / np.sqrt(norm2)
+            vi = np.where(is_benefit, np.maximum(hi_wo[v], new), np.minimum(lo_wo[v], new))
+            va = np.where(is_benefit, np.minimum(lo_wo[v], new), np.maximum(hi_wo[v], new))
+            mi, ma = vi != ideal, va != anti
+            dp2, dm2 = np.where(mi, 0.0, a) @ to_i, np.where(ma, 0.0, a) @ to_a
+            for out, m, point in ((dp2, mi, vi), (dm2, ma, va)):
+                for c in np.nonzero(m.any(axis=0))[0]:
+                    at = np.nonzero(m[:, c])[0]
+                    out[at] += a[at, c, None] * (r[None, :, c] - point[at, c, None]) ** 2
+            g = _closeness(dp2, dm2)
+        if kind == "loo":
+            # A removal that takes a column's best or worst value: score directly.
+            for j in np.nonzero(np.isin(r[v], (hi, lo)).any(axis=1))[0]:
+                keep = np.arange(n) != v[j]
+                g[j, keep] = floor_topsis(xs[keep], w, is_benefit)[0]
+        if kind != "clone":
+            g[rows, v] = np.nan
+        counts[order[v]] = floor_swaps(g)
+        top[order[v]] = (g[:, 1:] > g[:, :1]).sum(axis=1)
+    return counts, top
+
+
 def _matrix(path: Path):
     """The criteria matrix, weights and directions the stress test would get."""
     from ranker.pipeline import apply_overrides, choose_weight_set, prepare
@@ -106,6 +209,16 @@ def _matrix(path: Path):
     w = np.array([scores.weights[k] for k in keep])
     benefit = np.array([c.is_benefit for c in inputs.included if c.key in keep])
     return x, w / w.sum(), benefit
+
+
+def _same_swaps(check, counts, top):
+    """Does a check agree with a floor's swaps (all, and those below the first corridor)?"""
+    if check.check == "replace_worse":
+        return (check.facts["lower_swaps"], check.count) == (
+            int(counts.sum() - top.sum()),
+            int(np.count_nonzero(top)),
+        )
+    return (check.count, len(check.changed)) == (int(counts.sum()), int(np.count_nonzero(counts)))
 
 
 def _time(fn, repeats):
@@ -160,14 +273,16 @@ def one_size(n: int, tmp: Path, samples: int, repeats: int, skip: set) -> list[t
         floor, (_, cycles, disagree) = _time(lambda: floor_pairs(x, w, benefit), repeats)
         same = "yes" if (trans.count, agree.count) == (cycles, disagree) else "NO"
         rows.append(("tests 2 and 3 (pairs)", stage, floor, same))
-    for key, name, check in (
-        ("test1", "test 1 (worse copies)", replace_worse),
-        ("clone", "clones", clone),
-        ("loo", "leave one out", leave_one_out),
+    for key, name, check, kind in (
+        ("test1", "test 1 (worse copies)", replace_worse, "worse"),
+        ("clone", "clones", clone, "clone"),
+        ("loo", "leave one out", leave_one_out, "loo"),
     ):
         if key not in skip:
-            stage, _ = _time(lambda c=check: c(sc, x, w, ids), repeats)
-            rows.append((name, stage, None, None))
+            stage, got = _time(lambda c=check: c(sc, x, w, ids), repeats)
+            floor, ref = _time(lambda kd=kind: floor_variant_swaps(x, w, benefit, kd), repeats)
+            same = "yes" if _same_swaps(got, *ref) else "NO"
+            rows.append((name, stage, floor, same))
     if "tipping" not in skip:
         stage, _ = _time(
             lambda: [sweep_criterion(sc, x, w, c) for c in range(x.shape[1])], repeats

@@ -119,8 +119,11 @@ class _Swaps:
             m = np.nonzero(flagged[var])[0]
             new = np.asarray(new_ranks(var, m), dtype=np.int64)
             o = old[m].astype(np.int64)
-            order = np.argsort(o * big + new, kind="stable")
-            m, o, new = m[order], o[order], new[order]
+            if not (o[1:] > o[:-1]).all():  # tied old ranks: order those by new rank
+                order = np.argsort(o * big + new, kind="stable")
+                m, o, new = m[order], o[order], new[order]
+            if (new[1:] >= new[:-1]).all():
+                continue  # in order: no swap
             count = inversions(new)
             if not count:
                 continue
@@ -170,17 +173,20 @@ def _score_ranks(goods, compared, extra):
     def new_ranks(var, members):
         g = goods[var]
         vals = g[members]
-        thresholds = beat_thresholds(vals)
+        up = np.argsort(vals, kind="stable")
+        own = vals[up]
+        thresholds = beat_thresholds(own)  # ascending, as own is (the map is monotone)
         rest = np.ones(g.size, dtype=bool)
         rest[members] = False
         rest &= compared[var]
         ordered = g[rest][::-1]  # ascending
         beaten = ordered.size - np.searchsorted(ordered, thresholds, side="right")
-        own = np.sort(vals)
         beaten += own.size - np.searchsorted(own, thresholds, side="right")
         if extra is not None:
             beaten += (extra[var][:, None] > thresholds[None, :]).sum(axis=0)
-        return 1 + beaten
+        ranks = np.empty_like(beaten)
+        ranks[up] = 1 + beaten
+        return ranks
 
     return new_ranks
 

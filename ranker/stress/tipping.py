@@ -232,6 +232,9 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
         hit = changed[rows]
         first = rows[np.argmax(hit, axis=0)]
         who = np.nonzero(hit.any(axis=0))[0]
+        # Corridors bracketed in the same grid cell share a partner window (its
+        # width follows the largest move in the cells of a block).
+        who = who[np.argsort(first[who], kind="stable")]
         step = max(1, NARROW_BUDGET // n)
         for start in range(0, who.size, step):
             i = who[start : start + step]
