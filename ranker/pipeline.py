@@ -88,6 +88,8 @@ def rank_inputs(
     started: str | None = None,
 ) -> Result:
     """Rank already-read inputs; see :func:`rank_workbook`."""
+    from .input_warnings import warning
+    from .report.narrative import input_warnings
     from .score import score_matrix
 
     if samples < 0:
@@ -112,20 +114,17 @@ def rank_inputs(
     if overrides:
         from .score.override import small_share_warnings
 
-        warnings.extend(small_share_warnings(overrides))
+        warnings.extend(input_warnings(small_share_warnings(overrides)))
 
     stage(progress, "scoring")
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
-    warnings.extend(scores.warnings)
+    warnings.extend(input_warnings(scores.warnings))
     diagnostics = _diagnostics(matrix.loc[kept], scores)
     warnings.extend(_diagnostic_warnings(diagnostics, included))
 
     robustness = None
     if len(kept) >= 2 and not any(w > 0 for w in scores.weights.values()):
-        warnings.append(
-            "No criterion with a weight above 0 separates the corridors; "
-            "robustness analysis skipped."
-        )
+        warnings.extend(input_warnings([warning("robustness_skipped_no_weight")]))
     elif len(kept) >= 2:
         stage(progress, "robustness: samples, rank-reversal checks, tipping points")
         robustness = _stress(
@@ -142,7 +141,7 @@ def rank_inputs(
         )
         warnings.extend(_stress_warnings(robustness, inputs, included))
     else:
-        warnings.append("Only one corridor remains after screening; robustness analysis skipped.")
+        warnings.extend(input_warnings([warning("robustness_skipped_one_corridor")]))
 
     futures = None
     if inputs.scenarios is not None and len(inputs.scenarios):
@@ -211,7 +210,12 @@ def prepare(inputs: Inputs) -> Prepared:
 
     Shared by ``ranker check`` (which stops here) and ``ranker run``.
     """
-    from .report.narrative import energy_cap_warnings, saturation_warnings
+    from .report.narrative import (
+        energy_cap_warnings,
+        input_warnings,
+        saturation_warnings,
+        word_consistency,
+    )
     from .score.saturation import full_credit_levels, saturate, saturated_counts
     from .score.screen import screen
     from .score.weights import resolve_weight_sets
@@ -235,11 +239,12 @@ def prepare(inputs: Inputs) -> Prepared:
     scored = saturate(matrix, inputs.included, levels)
     # Objective (entropy, CRITIC) sets describe the corridors actually scored.
     sets = resolve_weight_sets(inputs, scored.loc[kept], assumptions)
+    word_consistency(sets)
     warnings = list(inputs.warnings)
     if derivation is not None:
-        warnings.extend(derivation.warnings)
+        warnings.extend(input_warnings(derivation.warnings))
     for s in sets:
-        warnings.extend(s.warnings)
+        warnings.extend(input_warnings(s.warnings))
     if derivation is not None:
         warnings.extend(energy_cap_warnings(derivation.sizing, inputs.corridors["name"]))
     warnings.extend(

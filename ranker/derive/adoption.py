@@ -27,6 +27,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
+from ..input_warnings import warning
 from .choice import (
     annual_cost_ownership,
     ev_price_annual_decline,
@@ -144,11 +145,13 @@ def _path_table(years: np.ndarray, a: dict, table: pd.DataFrame | None):
     )
     warnings = []
     if outside.any():
-        lo, hi = int(t["year"].min()), int(t["year"].max())
-        held = ", ".join(str(int(y)) for y in years[outside])
         warnings.append(
-            f"Adoption: the table covers {lo}-{hi}; electric_share is held flat "
-            f"at its end values for {held}"
+            warning(
+                "adoption_held_flat",
+                first_year=int(t["year"].min()),
+                last_year=int(t["year"].max()),
+                years=[int(y) for y in years[outside]],
+            )
         )
     return {"electric_share": share, "extrapolated": outside}, warnings
 
@@ -259,13 +262,14 @@ class AdoptionPath:
         the road) always; ``new_sales_share``, ``fleet_index`` and the sales
         indices for ``bass`` and ``cost_logit``; prices and yearly costs for
         ``cost_logit``; ``extrapolated`` for ``table``.
-    warnings : list of str
-        Doubtful but legal choices met on the way.
+    warnings : list of dict
+        Doubtful but legal choices met on the way, as records ``{"kind", ...}``
+        of :data:`ranker.input_warnings.WARNING_KINDS`.
     """
 
     model: str
     frame: pd.DataFrame
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
 
 def adoption_path(

@@ -16,6 +16,7 @@ import pandas as pd
 from ..assumptions import ASSUMPTIONS, parse_default
 from ..builtin import BUILTIN_CRITERIA
 from ..errors import Problems
+from ..input_warnings import warning
 from ..workbook.tables import (
     ADOPTION,
     CORRIDOR_MILES,
@@ -67,13 +68,14 @@ class Checked:
     fields : dict of str to ndarray
         Corridors fields as float arrays, defaults applied (``climb_ft``
         0 where empty, ``descent_ft`` = climb where empty).
-    warnings : list of str
-        Doubtful but legal input.
+    warnings : list of dict
+        Doubtful but legal input, as records ``{"kind", ...}`` of
+        :data:`ranker.input_warnings.WARNING_KINDS`.
     """
 
     adoption_model: str | None = None
     fields: dict[str, np.ndarray] = field(default_factory=dict)
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
 
 def show_value(value: object) -> str:
@@ -197,15 +199,18 @@ def _check_adoption_table(inputs: Inputs, problems: Problems) -> None:
 
 
 def _adoption_model(
-    inputs: Inputs, a: dict, keys: Sequence[str], problems: Problems, warnings: list[str]
+    inputs: Inputs, a: dict, keys: Sequence[str], problems: Problems, warnings: list[dict]
 ) -> str:
     sized = ", ".join(k for k in keys if k in SIZED)
     if inputs.adoption is not None and len(inputs.adoption):
         _check_adoption_table(inputs, problems)
         if a["adoption_model"] != "table" and _was_set(inputs, a, "adoption_model"):
             warnings.append(
-                f"{_assumption_cell(inputs, 'adoption_model')}: the Adoption sheet is "
-                f"used; adoption_model = {a['adoption_model']} is ignored"
+                warning(
+                    "adoption_sheet_used",
+                    cell=_assumption_cell(inputs, "adoption_model"),
+                    model=str(a["adoption_model"]),
+                )
             )
         return "table"
     if a["adoption_model"] == "table":
@@ -224,7 +229,7 @@ def _check_assumptions(
     keys: Sequence[str],
     model: str | None,
     problems: Problems,
-    warnings: list[str],
+    warnings: list[dict],
 ) -> None:
     if model is not None:
         if a["target_year"] < a["analysis_year"]:
@@ -235,9 +240,12 @@ def _check_assumptions(
             )
         if model == "bass" and a["bass_start_year"] > a["target_year"]:
             warnings.append(
-                f"{_assumption_cell(inputs, 'bass_start_year')}: bass_start_year "
-                f"{a['bass_start_year']} is after target_year {a['target_year']}; "
-                "no electric trucks are sold before the sizing year"
+                warning(
+                    "bass_start_late",
+                    cell=_assumption_cell(inputs, "bass_start_year"),
+                    bass_start_year=int(a["bass_start_year"]),
+                    target_year=int(a["target_year"]),
+                )
             )
         if model == "cost_logit" and a["ev_price_floor_usd"] > a["ev_truck_price_usd"]:
             problems.add(

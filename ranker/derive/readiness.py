@@ -8,6 +8,7 @@ import numpy as np
 import pandas as pd
 
 from ..errors import Problems
+from ..input_warnings import warning
 from ..workbook.tables import CORRIDOR_MILES, CORRIDORS, JURISDICTIONS, Inputs
 from .needs import show_value
 
@@ -65,12 +66,13 @@ class Readiness:
         ``policy_readiness`` [0-100], ``jurisdiction_miles`` [mi],
         ``jurisdictions`` [-] and ``miles_gap`` [-] (relative to
         ``length_mi``; NaN where the length is not given).
-    warnings : list of str
-        Corridors whose miles are off by more than the warning tolerance.
+    warnings : list of dict
+        Corridors whose miles are off by more than the warning tolerance, as
+        ``miles_gap`` records (:data:`ranker.input_warnings.WARNING_KINDS`).
     """
 
     columns: dict[str, np.ndarray]
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
 
 def policy_readiness(
@@ -181,7 +183,7 @@ def policy_readiness(
             "type the miles of each jurisdiction it crosses",
         )
 
-    warnings: list[str] = []
+    warnings: list[dict] = []
     gap = np.full(n, np.nan)
     if "length_mi" in inputs.corridors:
         length = pd.to_numeric(inputs.corridors["length_mi"], errors="coerce").to_numpy(float)
@@ -192,25 +194,31 @@ def policy_readiness(
             row_code = np.where(counted, code, -1)
             for i in flagged:
                 cid = corridors[i]
-                cells = ", ".join(
-                    at(CORRIDOR_MILES, "miles", r) for r in rows.index[row_code == i]
-                )
-                what = (
-                    f"the miles of corridor {cid!r} add up to {total[i]:g} but its length_mi "
-                    f"({at(CORRIDORS, 'length_mi', cid)}) is {length[i]:g} "
-                    f"(gap {gap[i]:.1%})"
-                )
+                cells = [at(CORRIDOR_MILES, "miles", r) for r in rows.index[row_code == i]]
                 if gap[i] > miles_error_tolerance:
+                    what = (
+                        f"the miles of corridor {cid!r} add up to {total[i]:g} but its "
+                        f"length_mi ({at(CORRIDORS, 'length_mi', cid)}) is {length[i]:g} "
+                        f"(gap {gap[i]:.1%})"
+                    )
                     problems.add(
-                        cells,
+                        ", ".join(cells),
                         what + f", more than miles_error_tolerance {miles_error_tolerance:.1%}",
                         "correct the miles or the length so that they agree",
                     )
                     mean[i] = np.nan
                 else:
                     warnings.append(
-                        f"{cells}: {what}, more than miles_warn_tolerance "
-                        f"{miles_warn_tolerance:.1%}"
+                        warning(
+                            "miles_gap",
+                            cells=cells,
+                            corridor=str(cid),
+                            miles=float(total[i]),
+                            length_mi=float(length[i]),
+                            length_cell=at(CORRIDORS, "length_mi", cid),
+                            gap=float(gap[i]),
+                            tolerance=float(miles_warn_tolerance),
+                        )
                     )
     return Readiness(
         columns={

@@ -226,8 +226,10 @@ def consistency_text(c: dict | None) -> str:
         text += " - above 0.10, so the judgments are not consistent enough (Saaty 1980)"
     else:
         text += " - at most 0.10, acceptable (Saaty 1980)"
-    if c.get("suggestion"):
-        text += f"; {c['suggestion']}"
+    if c.get("revisit"):
+        from .words.inputs import revisit_text
+
+        text += f"; {revisit_text(c['revisit'], c['worst_triple'])}"
     return text
 
 
@@ -445,6 +447,28 @@ def stress_warnings(result) -> list[str]:
 
     rob = result.robustness
     return [] if rob is None else words(rob.warnings, _namer(result))
+
+
+def input_warnings(records: list[dict]) -> list[str]:
+    """The derive and score stages' warning records in words, in order
+    (:data:`ranker.input_warnings.WARNING_KINDS`)."""
+    from .words.inputs import input_warnings as words
+
+    return words(records)
+
+
+def word_consistency(weight_sets) -> None:
+    """Write each pairwise set's judgment to revisit into its ``consistency["suggestion"]``.
+
+    The score stage returns the numbers (``revisit``, ``worst_triple``) and
+    leaves ``suggestion`` None; the outputs quote these words.
+    """
+    from .words.inputs import revisit_text
+
+    for w in weight_sets:
+        c = w.consistency
+        if c and c.get("revisit"):
+            c["suggestion"] = revisit_text(c["revisit"], c["worst_triple"])
 
 
 def tipping_sentences(result, records: list[dict] | None = None) -> list[str]:

@@ -11,6 +11,7 @@ import math
 from collections.abc import Mapping, Sequence
 
 from ..errors import InputError, Problems
+from ..input_warnings import warning
 
 WHERE = "--weight"
 
@@ -71,11 +72,20 @@ def parse_shares(pairs: Sequence[str]) -> dict[str, float]:
     return out
 
 
-def small_share_warnings(shares: Mapping[str, float]) -> list[str]:
-    """Warn where a share of 1 or less may have been meant as a fraction."""
+def small_share_warnings(shares: Mapping[str, float]) -> list[dict]:
+    """Warn where a share of 1 or less may have been meant as a fraction.
+
+    Returns one ``small_share`` record (:data:`ranker.input_warnings.WARNING_KINDS`)
+    per such share [%], in the order given; the words are
+    :func:`ranker.report.narrative.input_warnings`.
+
+    Examples
+    --------
+    >>> small_share_warnings({"risk": 0.4, "cost": 30.0})
+    [{'kind': 'small_share', 'criterion': 'risk', 'share': 0.4}]
+    """
     return [
-        f"--weight {k}={v:g} is read as {v:g} % of the weight (not {v * 100:g} %); "
-        f"write {k}={v * 100:g} for {v * 100:g} %"
+        warning("small_share", criterion=k, share=float(v))
         for k, v in shares.items()
         if 0 < v <= 1
     ]

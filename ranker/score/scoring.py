@@ -7,6 +7,7 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
+from ..input_warnings import warning
 from ..workbook.tables import CriterionSpec
 from .agreement import agreement as method_agreement
 from .methods import METHODS
@@ -61,8 +62,10 @@ class Scores:
         ``kendall`` and ``spearman`` (method x method DataFrames [-]) and
         ``movers``: ``{corridor_id, method, rank, primary_rank, shift}`` for
         every corridor another method places more than one rank away.
-    warnings : list of str
-        Doubtful-but-legal findings for the outputs.
+    warnings : list of dict
+        Doubtful-but-legal findings for the outputs, as records ``{"kind", ...}``
+        of :data:`ranker.input_warnings.WARNING_KINDS`; the words are
+        :func:`ranker.report.narrative.input_warnings`.
     """
 
     scores: pd.DataFrame
@@ -76,7 +79,7 @@ class Scores:
     ties: list[list[str]]
     vikor: dict | None
     agreement: dict
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
 
 def method_order(assumptions: dict) -> list[str]:
@@ -178,7 +181,7 @@ def score_matrix(
 ) -> Scores:
     """Score and rank corridors with every requested method.
 
-    Constant criteria are kept out first (with a warning naming each) and
+    Constant criteria are kept out first (with a warning record naming each) and
     the remaining weights rescaled to sum 1; if nothing is left to separate
     the corridors, they all tie. Each method in :func:`method_order` then
     scores the corridors with its kernel from :data:`METHODS`, and ranks
@@ -230,27 +233,25 @@ def score_matrix(
     x = matrix.to_numpy(dtype=float)
     w_in = np.array([float(weights[k]) for k in keys])
     benefit = np.array([spec[k].is_benefit for k in keys], dtype=bool)
-    warns: list[str] = []
+    warns: list[dict] = []
 
     lo, hi = x.min(axis=0), x.max(axis=0)
     const = (hi - lo) <= TIE_RTOL * np.maximum(np.abs(hi), np.abs(lo))
     dropped = [k for k, c in zip(keys, const, strict=True) if c]
     for j in np.flatnonzero(const):
         warns.append(
-            f"Criterion '{keys[j]}' has the same value ({lo[j]:g}) for every corridor; it "
-            f"cannot separate them and is left out of scoring (its weight {w_in[j]:.3g} is "
-            "shared among the others)."
+            warning(
+                "criterion_left_out", criterion=keys[j], value=float(lo[j]), weight=float(w_in[j])
+            )
         )
     live = ~const
     used = [k for k, keep in zip(keys, live, strict=True) if keep]
     x_live, b_live, w_live = x[:, live], benefit[live], w_in[live]
     total = w_live.sum()
     if not live.any():
-        warns.append("Every criterion has the same value for every corridor; all corridors tie.")
+        warns.append(warning("all_criteria_constant"))
     elif total <= 0:
-        warns.append(
-            "Every criterion that differs between corridors has weight 0; all corridors tie."
-        )
+        warns.append(warning("differing_criteria_weigh_nothing"))
     w_used = w_live / total if total > 0 else np.zeros_like(w_live)
     # With nothing to separate corridors each kernel gives its neutral score.
     x_run, b_run, w_run = (
@@ -262,21 +263,20 @@ def score_matrix(
     for key in methods:
         norm = assumptions.get(METHODS[key].normalization_key or "", None)
         if norm in _NON_NEGATIVE and live.any() and (x_live < 0).any():
-            names = ", ".join(
-                k for k, neg in zip(used, (x_live < 0).any(axis=0), strict=True) if neg
-            )
+            names = [k for k, neg in zip(used, (x_live < 0).any(axis=0), strict=True) if neg]
             warns.append(
-                f"{METHODS[key].label} uses '{norm}' normalisation, which assumes values of 0 "
-                f"or more, but {names} has negative values; minmax or vector would suit better."
+                warning(
+                    "normalisation_needs_non_negative",
+                    method=key,
+                    normalisation=str(norm),
+                    criteria=names,
+                )
             )
     if "weighted_product" in methods and live.any():
         shifted = positive_shift(x_live)[1]
         if shifted.any():
-            names = ", ".join(k for k, s in zip(used, shifted, strict=True) if s)
-            warns.append(
-                f"Weighted product: {names} has values of 0 or below; shifted so its worst "
-                "value is half its best on the ratio scale."
-            )
+            names = [k for k, s in zip(used, shifted, strict=True) if s]
+            warns.append(warning("weighted_product_shifted", criteria=names))
 
     index = matrix.index
     score_cols, rank_cols = {}, {}

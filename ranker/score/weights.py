@@ -31,8 +31,16 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
+from ..input_warnings import warning
 from ..workbook.tables import PAIRWISE, Inputs, WeightSet
-from .ahp import CR_LIMIT, DEFAULT_RI_TABLE, ahp_weights, revise_triple, triple_inconsistency
+from .ahp import (
+    CR_LIMIT,
+    DEFAULT_RI_TABLE,
+    RANDOM_INDEX,
+    ahp_weights,
+    revise_triple,
+    triple_inconsistency,
+)
 from .objective_weights import critic_weights, entropy_weights
 from .rank_weights import RANK_WEIGHTS, weights_from_ranks
 
@@ -62,9 +70,12 @@ class ResolvedWeights:
         ``consistent`` (bool or None), ``worst_triple`` (three criterion keys),
         ``worst_triple_index`` (Koczkodaj) [-], ``revisit`` (the judgment to
         look at again: ``cell``, ``row``, ``column``, ``current``,
-        ``suggested``, ``cr_after``) and ``suggestion`` (one sentence).
-    warnings : list of str
-        Doubtful but legal input met while resolving the set.
+        ``suggested``, ``cr_after``) and ``suggestion`` (None here: the
+        revisit in words, filled in for the outputs by
+        :func:`ranker.report.narrative.word_consistency`).
+    warnings : list of dict
+        Doubtful but legal input met while resolving the set, as records
+        ``{"kind", ...}`` of :data:`ranker.input_warnings.WARNING_KINDS`.
     """
 
     name: str
@@ -73,7 +84,7 @@ class ResolvedWeights:
     how: str
     reference_only: bool = False
     consistency: dict | None = None
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
 
 def _points_set(ws: WeightSet, keys: list[str]) -> ResolvedWeights:
@@ -94,13 +105,6 @@ def _rank_set(ws: WeightSet, keys: list[str], method: str) -> ResolvedWeights:
     return ResolvedWeights(ws.name, dict(zip(keys, w.tolist(), strict=True)), given, fn_label)
 
 
-def _fmt_judgment(x: float) -> str:
-    if x >= 1 or x <= 0:
-        return f"{x:g}"
-    inv = 1 / x
-    return f"1/{round(inv):d}" if abs(inv - round(inv)) < 1e-6 else f"{x:.3g}"
-
-
 def _pairwise_ref(inputs: Inputs, row_key: str, col_key: str) -> str:
     """``Pairwise!<col><row>`` from the reader's coordinates; the keys where none were kept."""
     col = inputs.columns.get(PAIRWISE, {}).get(col_key)
@@ -118,9 +122,7 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
         raise ValueError(f"the pairwise matrix has no row or column for {absent}")
     known = {c.key for c in inputs.criteria}
     warns = [
-        f"{PAIRWISE}: '{k}' is not scored in this run; its judgments are left out."
-        for k in rows
-        if k not in keys and k in known
+        warning("pairwise_not_scored", criterion=k) for k in rows if k not in keys and k in known
     ]
     ri = {k: rows.index(k) for k in keys}
     ci = {k: cols.index(k) for k in keys}
@@ -165,10 +167,12 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
         "revisit": None,
         "suggestion": None,
     }
-    if n > 10:
+    largest = max(RANDOM_INDEX[DEFAULT_RI_TABLE])
+    if n > largest:
         warns.append(
-            f"{PAIRWISE}: the {DEFAULT_RI_TABLE} random-index table stops at 10 criteria; "
-            f"no consistency ratio for {n}."
+            warning(
+                "pairwise_no_random_index", ri_table=DEFAULT_RI_TABLE, largest=largest, criteria=n
+            )
         )
     index, i, j, k = triple_inconsistency(a)[0] if n >= 3 else (0.0, 0, 0, 0)
     fix = revise_triple(a, (i, j, k)) if index > 1e-9 else None
@@ -196,19 +200,17 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
                 "suggested": suggested,
                 "cr_after": fix["cr_after"],
             },
-            suggestion=(
-                f"revisit {where} ('{r_key}' against '{c_key}'): it holds "
-                f"{_fmt_judgment(current)}, the other two judgments of the triple "
-                f"{keys[i]}, {keys[j]}, {keys[k]} imply about {_fmt_judgment(suggested)} "
-                f"(the consistency ratio would then be {fix['cr_after']:.3f})"
-            ),
         )
     if res["cr"] is not None and res["cr"] > CR_LIMIT:
         warns.append(
-            f"{PAIRWISE}: consistency ratio {res['cr']:.3f} is above {CR_LIMIT:.2f} "
-            f"({DEFAULT_RI_TABLE}); the most inconsistent triple is {keys[i]}, {keys[j]}, "
-            f"{keys[k]}"
-            + (f"; {consistency['suggestion']}." if consistency["suggestion"] else ".")
+            warning(
+                "pairwise_inconsistent",
+                cr=float(res["cr"]),
+                cr_limit=CR_LIMIT,
+                ri_table=DEFAULT_RI_TABLE,
+                triple=[keys[i], keys[j], keys[k]],
+                revisit=None if consistency["revisit"] is None else dict(consistency["revisit"]),
+            )
         )
     return ResolvedWeights(
         "pairwise",
@@ -227,11 +229,8 @@ def _objective_sets(matrix: pd.DataFrame, keys: list[str], inputs: Inputs, taken
     warns = []
     negative = x.min(axis=0) < 0
     if negative.any():
-        names = ", ".join(k for k, neg in zip(keys, negative, strict=True) if neg)
-        warns.append(
-            f"Entropy weights: {names} has values below 0; shifted to start at 0 for "
-            "the entropy reference set only."
-        )
+        names = [k for k, neg in zip(keys, negative, strict=True) if neg]
+        warns.append(warning("entropy_shifted", criteria=names))
         x_e = np.where(negative, x - x.min(axis=0), x)
     else:
         x_e = x
@@ -317,7 +316,5 @@ def resolve_weight_sets(
     if len(matrix) >= 2 and keys:
         out.extend(_objective_sets(matrix, keys, inputs, {r.name for r in out}))
     elif out:
-        out[0].warnings.append(
-            "Entropy and CRITIC reference weights need at least two corridors; left out."
-        )
+        out[0].warnings.append(warning("objective_sets_need_two"))
     return out

@@ -68,7 +68,14 @@ def test_table_path_warns_about_every_year_held_flat():
     table = pd.DataFrame({"year": [2028, 2029], "electric_share": [0.1, 0.2]})
     path = adoption_path(model="table", assumptions=a, end_year=2030, table=table)
     assert path.frame["electric_share"].tolist() == pytest.approx([0.1, 0.1, 0.2, 0.2])
-    assert len(path.warnings) == 1 and "2027, 2030" in path.warnings[0]
+    assert path.warnings == [
+        {
+            "kind": "adoption_held_flat",
+            "first_year": 2028,
+            "last_year": 2029,
+            "years": [2027, 2030],
+        }
+    ]
 
 
 def test_learning_path_prices_follow_their_own_sales():

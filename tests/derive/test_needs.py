@@ -133,7 +133,20 @@ def test_adoption_sheet_is_used_instead_of_the_model_and_says_so():
     assert d.sizing["electric_share_target"].iloc[0] == pytest.approx(0.4)
     assert d.adoption["electric_share"].iloc[4] == pytest.approx(0.2)
     assert d.warnings == [
-        "Assumptions!B2: the Adoption sheet is used; adoption_model = bass is ignored"
+        {"kind": "adoption_sheet_used", "cell": "Assumptions!B2", "model": "bass"}
+    ]
+
+
+def test_bass_start_after_the_target_year_is_a_record_naming_its_cell():
+    inp = make_inputs(three_corridors(), assumptions={"bass_start_year": 2040})
+    d = _derive(inp, ["capital_cost"])
+    assert d.warnings == [
+        {
+            "kind": "bass_start_late",
+            "cell": "Assumptions!B2",
+            "bass_start_year": 2040,
+            "target_year": 2035,
+        }
     ]
 
 

@@ -99,9 +99,18 @@ def test_miles_beyond_the_warning_tolerance_warn_naming_the_cells():
         "miles": [70.0, 35.0, 50.0],
     }
     d = _derive(_inputs(miles))
-    assert len(d.warnings) == 1
-    assert d.warnings[0].startswith("Corridor miles!C2, Corridor miles!C3: ")
-    assert "add up to 105 but its length_mi (Corridors!C2) is 100 (gap 5.0%)" in d.warnings[0]
+    assert d.warnings == [
+        {
+            "kind": "miles_gap",
+            "cells": ["Corridor miles!C2", "Corridor miles!C3"],
+            "corridor": "K1",
+            "miles": 105.0,
+            "length_mi": 100.0,
+            "length_cell": "Corridors!C2",
+            "gap": pytest.approx(0.05),
+            "tolerance": 0.02,
+        }
+    ]
     assert d.sizing.loc["K1", "miles_gap"] == pytest.approx(0.05)
 
 
@@ -123,7 +132,7 @@ def test_tolerances_come_from_the_assumptions():
     d = _derive(
         _inputs(miles, assumptions={"miles_warn_tolerance": 0.1, "miles_error_tolerance": 0.3})
     )
-    assert len(d.warnings) == 1 and "miles_warn_tolerance 10.0%" in d.warnings[0]
+    assert [(w["kind"], w["tolerance"]) for w in d.warnings] == [("miles_gap", 0.1)]
 
 
 def test_error_tolerance_below_warning_tolerance_names_the_assumption():

@@ -12,6 +12,7 @@ MODULES = [
     "ahp",
     "normalize",
     "objective_weights",
+    "override",
     "rank_weights",
     "ranks",
     "scoring",

@@ -10,7 +10,7 @@ from hypothesis import strategies as st
 
 from ranker.cli import main
 from ranker.errors import InputError
-from ranker.score.override import apply_shares, parse_shares
+from ranker.score.override import apply_shares, parse_shares, small_share_warnings
 from tests.conftest import DIRECT_CRITERIA, make_workbook
 
 KEYS = ["cost_musd", "freight_share", "risk"]
@@ -93,7 +93,18 @@ def test_bad_shares_exit_2(three_kinds, capsys, flags, message):
 def test_small_share_warns_that_it_is_percent(three_kinds, capsys):
     summary = _run(three_kinds, capsys, "--weight", "risk=0.4")
     assert summary["weights"]["risk"] == pytest.approx(0.004, abs=1e-12)
-    assert any("read as 0.4 %" in w for w in summary["warnings"])
+    assert (
+        "--weight risk=0.4 is read as 0.4 % of the weight (not 40 %); write risk=40 for 40 %"
+        in (summary["warnings"])
+    )
+
+
+def test_small_shares_are_records_of_the_shares_at_or_below_one():
+    """Shares of 0 and above 1 are meant as percent; 0 < share <= 1 may be a fraction."""
+    assert small_share_warnings({"a": 0.0, "b": 0.5, "c": 1.0, "d": 1.5, "e": 40.0}) == [
+        {"kind": "small_share", "criterion": "b", "share": 0.5},
+        {"kind": "small_share", "criterion": "c", "share": 1.0},
+    ]
 
 
 def test_percent_sign_is_the_same_share():

@@ -82,9 +82,9 @@ def test_constant_criterion_is_dropped_with_a_warning_and_weights_rescaled():
     s = score_matrix(m, CRIT, W, _a(methods=ALL))
     assert s.dropped == ["readiness"]
     assert s.weights == pytest.approx({"capital_cost": 0.625, "trucks": 0.375})
-    assert (
-        len(s.warnings) == 1 and "'readiness'" in s.warnings[0] and "same value" in s.warnings[0]
-    )
+    assert s.warnings == [
+        {"kind": "criterion_left_out", "criterion": "readiness", "value": 50.0, "weight": 0.2}
+    ]
     assert list(s.normalized.columns) == ["capital_cost", "trucks"]
     assert np.isfinite(s.scores.to_numpy()).all()
     x = m[["capital_cost", "trucks"]].to_numpy()
@@ -98,8 +98,21 @@ def test_all_constant_criteria_tie_every_corridor():
     s = score_matrix(m, CRIT, W, _a(methods=ALL))
     assert (s.ranks == 1).all().all()
     assert s.ties == [list(MATRIX.index)]
-    assert any("all corridors tie" in w for w in s.warnings)
+    assert s.warnings[-1] == {"kind": "all_criteria_constant"}
+    assert [w["kind"] for w in s.warnings].count("criterion_left_out") == 3
     assert s.weights == {} and s.normalized.shape == (5, 0)
+
+
+def test_criteria_that_differ_but_weigh_nothing_tie_every_corridor():
+    m = MATRIX.assign(capital_cost=10.0, trucks=100.0)
+    s = score_matrix(m, CRIT, {"capital_cost": 0.6, "trucks": 0.4, "readiness": 0.0}, _a())
+    assert (s.ranks == 1).all().all()
+    assert [w["kind"] for w in s.warnings] == [
+        "criterion_left_out",
+        "criterion_left_out",
+        "differing_criteria_weigh_nothing",
+    ]
+    assert [w.get("weight") for w in s.warnings[:2]] == [0.6, 0.4]
 
 
 def test_equal_scores_share_a_rank_and_ties_are_listed():
@@ -133,14 +146,38 @@ def test_agreement_between_methods():
 def test_weighted_product_zero_values_warn():
     m = MATRIX.assign(readiness=[0.0, 75.0, 40.0, 90.0, 65.0])
     s = score_matrix(m, CRIT, W, _a(methods=("topsis", "weighted_product")))
-    assert any("Weighted product" in w and "readiness" in w for w in s.warnings)
+    assert s.warnings == [{"kind": "weighted_product_shifted", "criteria": ["readiness"]}]
     assert np.isfinite(s.scores["weighted_product"]).all()
 
 
 def test_negative_values_under_sum_normalisation_warn():
     m = MATRIX.assign(readiness=[-5.0, 75.0, 40.0, 90.0, 65.0])
     s = score_matrix(m, CRIT, W, _a(topsis_normalization="sum"))
-    assert any("'sum' normalisation" in w and "readiness" in w for w in s.warnings)
+    assert s.warnings == [
+        {
+            "kind": "normalisation_needs_non_negative",
+            "method": "topsis",
+            "normalisation": "sum",
+            "criteria": ["readiness"],
+        }
+    ]
+
+
+def test_warning_records_are_json_ready():
+    import json
+
+    m = MATRIX.assign(readiness=[-5.0, 75.0, 40.0, 90.0, 65.0], trucks=100.0)
+    s = score_matrix(
+        m, CRIT, W, _a(methods=ALL, weighted_sum_normalization="max", topsis_normalization="sum")
+    )
+    kinds = [w["kind"] for w in s.warnings]
+    assert kinds == [
+        "criterion_left_out",
+        "normalisation_needs_non_negative",
+        "normalisation_needs_non_negative",
+        "weighted_product_shifted",
+    ]
+    assert json.loads(json.dumps(s.warnings)) == s.warnings
 
 
 @pytest.mark.parametrize(

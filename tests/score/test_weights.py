@@ -145,10 +145,14 @@ def test_inconsistent_pairwise_warns_with_triple_and_judgment_to_revisit():
     revisit = ahp.consistency["revisit"]
     assert revisit["cell"] == "Pairwise!D2" and revisit["suggested"] == 9.0
     assert revisit["current"] == pytest.approx(0.2)
-    assert len(ahp.warnings) == 1
-    warning = ahp.warnings[0]
-    assert "above 0.10" in warning and "capital_cost, trucks, readiness" in warning
-    assert "revisit Pairwise!D2" in warning and "imply about 9" in warning
+    (warning,) = ahp.warnings
+    assert warning["kind"] == "pairwise_inconsistent"
+    assert warning["cr"] == ahp.consistency["cr"] and warning["cr_limit"] == 0.10
+    assert warning["ri_table"] == "Saaty (1980)"
+    assert warning["triple"] == ["capital_cost", "trucks", "readiness"]
+    assert warning["revisit"] == revisit and warning["revisit"] is not revisit
+    # The score stage leaves the sentence to the report (ranker.report.words.inputs).
+    assert ahp.consistency["suggestion"] is None
 
 
 def test_pairwise_revisit_names_the_cell_the_planner_typed():
@@ -159,6 +163,49 @@ def test_pairwise_revisit_names_the_cell_the_planner_typed():
     assert (revisit["row"], revisit["column"]) == ("readiness", "capital_cost")
     assert revisit["current"] == pytest.approx(5.0)
     assert revisit["suggested"] == pytest.approx(1 / 9)
+
+
+def test_pairwise_criterion_not_scored_is_a_record():
+    """A known criterion of the Pairwise sheet that the matrix leaves out: its judgments go."""
+    keys = ["capital_cost", "trucks", "readiness"]
+    pw = pd.DataFrame(
+        [[1, 3, 5], [NAN, 1, 2], [NAN, NAN, 1]], index=keys, columns=keys, dtype=float
+    )
+    inputs = make_inputs(CRIT, [], columns=COLUMNS, pairwise=pw)
+    out = resolve_weight_sets(inputs, MATRIX[["capital_cost", "trucks"]], ASSUME)
+    assert out[0].warnings == [{"kind": "pairwise_not_scored", "criterion": "readiness"}]
+
+
+def test_pairwise_beyond_the_random_index_table_is_a_record():
+    """The random-index table used (Saaty 1980, as ranker.score.ahp.RANDOM_INDEX holds it)
+    stops at n = 10: 11 criteria get no consistency ratio and a record saying so."""
+    keys = [f"k{i}" for i in range(11)]
+    crit = [CriterionSpec(k, k, "benefit", row=i + 2) for i, k in enumerate(keys)]
+    pw = pd.DataFrame(np.ones((11, 11)), index=keys, columns=keys)
+    inputs = make_inputs(crit, [], pairwise=pw)
+    matrix = pd.DataFrame(np.arange(33.0).reshape(3, 11) % 7 + 1, columns=keys)
+    out = resolve_weight_sets(inputs, matrix, ASSUME)
+    assert out[0].consistency["cr"] is None
+    assert out[0].warnings == [
+        {
+            "kind": "pairwise_no_random_index",
+            "ri_table": "Saaty (1980)",
+            "largest": 10,
+            "criteria": 11,
+        }
+    ]
+
+
+def test_entropy_shift_and_too_few_corridors_are_records():
+    ws = [WeightSet("default", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "H")]
+    inputs = make_inputs(CRIT, ws, columns=COLUMNS)
+    shifted = resolve_weight_sets(inputs, MATRIX.assign(trucks=[-1.0, 2.0, 3.0, 4.0]), ASSUME)
+    entropy = next(s for s in shifted if s.name == "entropy")
+    assert entropy.warnings == [{"kind": "entropy_shifted", "criteria": ["trucks"]}]
+    assert shifted[0].warnings == []
+    alone = resolve_weight_sets(inputs, MATRIX.iloc[:1], ASSUME)
+    assert [s.name for s in alone] == ["default"]
+    assert alone[0].warnings == [{"kind": "objective_sets_need_two"}]
 
 
 def test_objective_reference_sets_follow_and_are_reference_only():
