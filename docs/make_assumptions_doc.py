@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from ranker.assumptions import ASSUMPTIONS
+from ranker.assumptions import ALIASES, ASSUMPTIONS
 from ranker.derive.glossary import assumptions_markdown
 
 PAGE = Path(__file__).resolve().parent / "assumptions.md"
@@ -24,6 +24,16 @@ hand.
 
 """
 
+FORMER = """## Former names
+
+A workbook written before a key was renamed still reads: the former name sets
+the key that replaced it, to the same value. Giving both names with different
+values is an error that names both cells.
+
+| former name | now |
+| --- | --- |
+"""
+
 
 def render() -> str:
     """Return the page's text."""
@@ -31,6 +41,8 @@ def render() -> str:
     parts = [HEAD]
     for group in groups:
         parts.append(f"## {group}\n\n{assumptions_markdown([group])}\n")
+    parts.append(FORMER)
+    parts.extend(f"| `{old}` | `{new}` |\n" for old, new in ALIASES.items())
     return "".join(parts).rstrip() + "\n"
 
 

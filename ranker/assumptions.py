@@ -402,7 +402,7 @@ _TABLE = [
         low_open=True,
     ),
     _a(
-        "station_spacing_mi",
+        "site_spacing_mi",
         50.0,
         "[mi]",
         "float",
@@ -412,7 +412,7 @@ _TABLE = [
         low_open=True,
     ),
     _a(
-        "min_ports_per_station",
+        "min_ports_per_site",
         1,
         "[-]",
         "int",
@@ -716,6 +716,24 @@ _TABLE = [
 #: Key to :class:`Assumption`, in table order.
 ASSUMPTIONS: dict[str, Assumption] = {a.key: a for a in _TABLE}
 
+#: Former key to the key that replaced it. A workbook written before a key was
+#: renamed still reads: the former name gives the same value to the new key.
+ALIASES: dict[str, str] = {
+    "station_spacing_mi": "site_spacing_mi",
+    "min_ports_per_station": "min_ports_per_site",
+}
+
+
+def current_key(key: str) -> str:
+    """Return the key that ``key`` now goes by (``key`` itself unless renamed).
+
+    Examples
+    --------
+    >>> current_key("station_spacing_mi"), current_key("site_cost_usd")
+    ('site_spacing_mi', 'site_cost_usd')
+    """
+    return ALIASES.get(key, key)
+
 
 def suggest(key: str) -> str | None:
     """Return the known key nearest to ``key``, or None if nothing is close."""
@@ -723,16 +741,38 @@ def suggest(key: str) -> str | None:
     return near[0] if near else None
 
 
+def _current(values: dict[str, object]) -> dict[str, object]:
+    """Return ``values`` under the current keys; a former and a current name must agree."""
+    out: dict[str, object] = {}
+    named: dict[str, str] = {}
+    for key, value in values.items():
+        new = current_key(key)
+        if new in out and out[new] != value:
+            raise ValueError(
+                f"{named[new]} and {key} name the same assumption ({new}) with different "
+                f"values ({out[new]!r} and {value!r}); give it once"
+            )
+        out[new], named[new] = value, key
+    return out
+
+
 def resolve(given: dict[str, object], overrides: dict[str, object] | None = None) -> dict:
     """Return every key's value: defaults, then ``given``, then ``overrides``.
 
     Values in ``given`` and ``overrides`` are already typed by the reader;
-    ``list`` values are tuples of words and ``bool`` values are bools.
+    ``list`` values are tuples of words and ``bool`` values are bools. A
+    former key name (:data:`ALIASES`) sets the key that replaced it.
+
+    Raises
+    ------
+    ValueError
+        Where ``given`` (or ``overrides``) names a key under its former and
+        its current name with different values.
     """
     values = {k: parse_default(a) for k, a in ASSUMPTIONS.items()}
-    values.update(given)
+    values.update(_current(given))
     if overrides:
-        values.update(overrides)
+        values.update(_current(overrides))
     return values
 
 

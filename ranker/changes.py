@@ -242,6 +242,7 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
         ``old_rank``, ``new_rank``, ``old_tier``, ``new_tier``); all empty
         when ``previous`` is None.
     """
+    from .assumptions import current_key
     from .report.sheets import criterion_unit
 
     out: dict = {"inputs": [], "criteria": [], "moved": []}
@@ -250,7 +251,12 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
     labels = {}
     if result is not None:
         labels = {c.key: c.label or c.key for c in result.criteria}
-    old_in, new_in = previous.get("inputs") or {}, current.get("inputs") or {}
+    # A previous state may name an assumption by its former key (``current_key``).
+    old_in = {
+        (f"a:{current_key(k[2:])}" if k.startswith("a:") else k): v
+        for k, v in (previous.get("inputs") or {}).items()
+    }
+    new_in = current.get("inputs") or {}
     before = {r["corridor_id"]: r for r in previous.get("ranking", [])}
     now = {r["corridor_id"]: r for r in current.get("ranking", [])}
     old_ids = {k.split(":")[1] for k in old_in if k.startswith("r:") and k.endswith(":name")}

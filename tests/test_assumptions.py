@@ -6,7 +6,7 @@ import math
 
 import pytest
 
-from ranker.assumptions import ASSUMPTIONS, parse_default, resolve, suggest
+from ranker.assumptions import ALIASES, ASSUMPTIONS, current_key, parse_default, resolve, suggest
 
 KINDS = {"float", "int", "choice", "list", "names", "bool"}
 
@@ -47,3 +47,24 @@ def test_list_defaults_are_tuples_of_words():
 def test_suggest_the_nearest_key():
     assert suggest("discount_rat") == "discount_rate"
     assert suggest("zzzzzzzz") is None
+
+
+def test_the_former_names_are_pinned():
+    """One word for a charging location: "site". A key renamed stays readable under its
+    former name; this table is the contract with workbooks written before the rename."""
+    assert ALIASES == {
+        "station_spacing_mi": "site_spacing_mi",
+        "min_ports_per_station": "min_ports_per_site",
+    }
+    for old, new in ALIASES.items():
+        assert new in ASSUMPTIONS and old not in ASSUMPTIONS and current_key(old) == new
+    assert not [k for k in ASSUMPTIONS if "station" in k]
+
+
+def test_resolve_reads_a_former_name_as_the_new_key():
+    a = resolve({"station_spacing_mi": 40.0}, {"min_ports_per_station": 3})
+    assert a["site_spacing_mi"] == 40.0 and a["min_ports_per_site"] == 3
+    assert "station_spacing_mi" not in a and "min_ports_per_station" not in a
+    assert resolve({"station_spacing_mi": 40.0, "site_spacing_mi": 40.0})["site_spacing_mi"] == 40
+    with pytest.raises(ValueError, match="name the same assumption .site_spacing_mi."):
+        resolve({"site_spacing_mi": 40.0, "station_spacing_mi": 45.0})

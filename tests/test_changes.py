@@ -106,3 +106,13 @@ def test_ordinals():
         "101st",
         "111th",
     ]
+
+
+def test_former_assumption_key_in_previous_state():
+    """A state written before the rename (station -> site) compares on the new key."""
+    a = _state({}, {"A": 1}, {"A": {}}, inputs={"a:station_spacing_mi": 50.0, "r:A:name": "a"})
+    same = _state({}, {"A": 1}, {"A": {}}, inputs={"a:site_spacing_mi": 50.0, "r:A:name": "a"})
+    moved = _state({}, {"A": 1}, {"A": {}}, inputs={"a:site_spacing_mi": 40.0, "r:A:name": "a"})
+    assert compare(a, same)["inputs"] == []
+    (change,) = compare(a, moved)["inputs"]
+    assert (change["cell"], change["old"], change["new"]) == ("a:site_spacing_mi", 50.0, 40.0)

@@ -18,7 +18,7 @@ class CapitalCost(NamedTuple):
 
 def capital_cost_unit_rates(
     ports: np.ndarray,
-    stations: np.ndarray,
+    sites: np.ndarray,
     grid_upgrade_mw: np.ndarray,
     *,
     port_cost_usd: float,
@@ -31,7 +31,7 @@ def capital_cost_unit_rates(
     ----------
     ports : array_like
         Ports along the corridor [-].
-    stations : array_like
+    sites : array_like
         Charging sites along the corridor [-].
     grid_upgrade_mw : array_like
         New load above headroom [MW].
@@ -45,7 +45,7 @@ def capital_cost_unit_rates(
     Returns
     -------
     CapitalCost
-        ``ports * port_cost``, ``stations * site_cost``,
+        ``ports * port_cost``, ``sites * site_cost``,
         ``upgrade_mw * usd_per_mw`` and their total [USD].
 
     References
@@ -63,6 +63,6 @@ def capital_cost_unit_rates(
     array([3228000.])
     """
     p = np.asarray(ports, float) * port_cost_usd
-    s = np.asarray(stations, float) * site_cost_usd
+    s = np.asarray(sites, float) * site_cost_usd
     u = np.asarray(grid_upgrade_mw, float) * grid_upgrade_usd_per_mw
     return CapitalCost(p, s, u, p + s + u)

@@ -64,27 +64,27 @@ COLUMNS: dict[str, tuple[str, str]] = {
         "electric_trucks_per_day x energy_per_pass_kwh x en_route_share.",
     ),
     "sessions_per_day": ("[sessions/day]", "en_route_kwh_per_day / session_kwh."),
-    "stations": ("[-]", "Charging sites: max(1, ceil(length_mi / station_spacing_mi))."),
+    "sites": ("[-]", "Charging sites: max(1, ceil(length_mi / site_spacing_mi))."),
     "ports_energy": (
         "[-]",
         "Ports by energy balance: ceil(en_route_kwh_per_day / "
         "(charger_power_kw x operating_hours_per_day x target_utilization)).",
     ),
-    "peak_arrivals_per_station_h": (
+    "peak_arrivals_per_site_h": (
         "[1/h]",
-        "Busiest-hour arrivals per site: sessions_per_day x peak_hour_share / stations.",
+        "Busiest-hour arrivals per site: sessions_per_day x peak_hour_share / sites.",
     ),
     "session_hours": ("[h]", "Mean charging session: session_kwh / charger_power_kw."),
     "offered_load_erlang": (
         "[Erlang]",
-        "Peak-hour load per site: peak_arrivals_per_station_h x session_hours.",
+        "Peak-hour load per site: peak_arrivals_per_site_h x session_hours.",
     ),
-    "ports_per_station_queue": (
+    "ports_per_site_queue": (
         "[-]",
         "Fewest ports per site meeting the queue target (Erlang C, M/M/c; queue_metric).",
     ),
-    "ports_queue": ("[-]", "Ports by queueing: stations x ports_per_station_queue."),
-    "ports_minimum": ("[-]", "Coverage minimum: stations x min_ports_per_station."),
+    "ports_queue": ("[-]", "Ports by queueing: sites x ports_per_site_queue."),
+    "ports_minimum": ("[-]", "Coverage minimum: sites x min_ports_per_site."),
     "ports": ("[-]", "Ports built: max(ports_energy, ports_queue, ports_minimum)."),
     "governing_rule": ("[-]", "Rule that set ports: energy, queue or minimum."),
     "wait_probability": (
@@ -105,7 +105,7 @@ COLUMNS: dict[str, tuple[str, str]] = {
     ),
     "grid_upgrade_mw": ("[MW]", "Load above headroom: max(0, peak_load_mw - grid_headroom_mw)."),
     "ports_cost_usd": ("[USD]", "ports x port_cost_usd."),
-    "sites_cost_usd": ("[USD]", "stations x site_cost_usd."),
+    "sites_cost_usd": ("[USD]", "sites x site_cost_usd."),
     "grid_upgrade_cost_usd": ("[USD]", "grid_upgrade_mw x grid_upgrade_usd_per_mw."),
     "grid_headroom_mw": ("[MW]", "Spare grid capacity for new load, as given on Corridors."),
     "capital_cost_usd": ("[USD]", "ports_cost_usd + sites_cost_usd + grid_upgrade_cost_usd."),

@@ -6,7 +6,7 @@ Data flow, one module per model::
     adoption  electric share of the trucks on the road, year by year
               (stock: vintage turnover; choice: prices and logit; finance: NPV, CRF)
     energy    battery energy of one truck pass: flat road + terrain
-    sizing    stations and ports for target_year (energy balance, Erlang C)
+    sizing    sites and ports for target_year (energy balance, Erlang C)
     grid      new peak load, upgrade above headroom, headroom ratio
     costs     capital cost: ports, sites, grid upgrade
     revenue   NPV of the charging margin along the adoption path
@@ -165,7 +165,7 @@ def _grid_and_cost(plan: Checked, a: dict, sized: dict) -> dict[str, np.ndarray]
     upgrade = grid_upgrade_excess(out["peak_load_mw"], headroom) if given else np.nan
     cost = capital_cost_unit_rates(
         sized["ports"],
-        sized["stations"],
+        sized["sites"],
         upgrade,
         port_cost_usd=a["port_cost_usd"],
         site_cost_usd=a["site_cost_usd"],

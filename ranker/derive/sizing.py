@@ -1,13 +1,13 @@
 """Charger sizing for the target year: ports by energy balance and by peak-hour queueing.
 
 Every corridor is sized as a coverage network: it gets
-``ceil(length / spacing)`` stations (at least one) whatever its traffic, and
-every station gets at least ``min_ports_per_station`` ports. Demand can only
+``ceil(length / spacing)`` sites (at least one) whatever its traffic, and
+every site gets at least ``min_ports_per_site`` ports. Demand can only
 add ports, by the larger of two rules:
 
 * **energy balance** over the day: enough ports that the day's en-route
   energy fits in the open hours at the planned utilisation;
-* **peak-hour queueing**: at each station, the smallest number of ports
+* **peak-hour queueing**: at each site, the smallest number of ports
   for which an M/M/c (Erlang C) queue in the busiest hour meets the waiting
   target (probability of waiting, or mean wait).
 
@@ -23,7 +23,7 @@ import numpy as np
 
 
 def _ceil(x: np.ndarray) -> np.ndarray:
-    # Round away binary noise first, so that 100 / 50 * (1 + 1e-16) is not 3 stations.
+    # Round away binary noise first, so that 100 / 50 * (1 + 1e-16) is not 3 sites.
     return np.ceil(np.round(np.asarray(x, dtype=float), 9))
 
 
@@ -110,14 +110,14 @@ def ports_energy_balance(
     return _ceil(np.asarray(energy_kwh_per_day, float) / per_port)
 
 
-def stations_spacing(length_mi: np.ndarray, *, station_spacing_mi: float) -> np.ndarray:
+def sites_spacing(length_mi: np.ndarray, *, site_spacing_mi: float) -> np.ndarray:
     """Compute the charging sites along a corridor at a maximum spacing [-].
 
     Parameters
     ----------
     length_mi : array_like
         Corridor length [mi].
-    station_spacing_mi : float
+    site_spacing_mi : float
         Largest distance between sites [mi].
 
     Returns
@@ -133,10 +133,10 @@ def stations_spacing(length_mi: np.ndarray, *, station_spacing_mi: float) -> np.
 
     Examples
     --------
-    >>> stations_spacing([10.0, 100.0, 120.0], station_spacing_mi=50.0)
+    >>> sites_spacing([10.0, 100.0, 120.0], site_spacing_mi=50.0)
     array([1., 2., 3.])
     """
-    return np.maximum(1.0, _ceil(np.asarray(length_mi, float) / station_spacing_mi))
+    return np.maximum(1.0, _ceil(np.asarray(length_mi, float) / site_spacing_mi))
 
 
 def blocking_probability_erlang_b(
@@ -147,7 +147,7 @@ def blocking_probability_erlang_b(
     ``B(c, A) = (A^c / c!) / sum_{k=0}^{c} A^k / k!``. Up to
     :data:`RECURSION_MAX_SERVERS` servers it is evaluated by the recursion
     ``B(0) = 1``, ``B(k) = A B(k-1) / (k + A B(k-1))`` [3], which never
-    overflows (one array step per server, each over only the stations with at
+    overflows (one array step per server, each over only the sites with at
     least that many servers), so a run need not import scipy. Beyond that,
     where the recursion would take too many steps: for ``c > A`` the Poisson
     ratio ``pmf(c; A) / cdf(c; A)`` with scipy's regularised incomplete gamma
@@ -208,7 +208,7 @@ def _erlang_b_recursion(c: np.ndarray, a: np.ndarray, finite: np.ndarray) -> np.
     load = np.where(finite, a, 0.0).ravel()[order]
     b = np.ones(cs.size)
     top = int(cs[0]) if cs.size else 0
-    # active[k - 1]: how many stations have at least k servers (a prefix of the order)
+    # active[k - 1]: how many sites have at least k servers (a prefix of the order)
     active = np.searchsorted(-cs, -np.arange(1.0, top + 1.0), side="right")
     for k in range(1, top + 1):
         m = active[k - 1]
@@ -367,17 +367,17 @@ def ports_erlang_c(
     max_wait_probability: float = 0.2,
     max_mean_wait_min: float = 10.0,
 ) -> np.ndarray:
-    """Compute the fewest ports per station meeting a peak-hour queueing target [-].
+    """Compute the fewest ports per site meeting a peak-hour queueing target [-].
 
-    Starts every station at the smallest stable count ``floor(A) + 1`` and
-    raises, as one array, the count of the stations that still miss the
+    Starts every site at the smallest stable count ``floor(A) + 1`` and
+    raises, as one array, the count of the sites that still miss the
     target until none do (both targets fall monotonically with ``c``). A
-    station with no load needs no port for queueing (0).
+    site with no load needs no port for queueing (0).
 
     Parameters
     ----------
     offered_load_erlang : array_like
-        Peak-hour offered load per station ``A`` [Erlang].
+        Peak-hour offered load per site ``A`` [Erlang].
     service_time_h : array_like
         Mean charging session ``T`` [h].
     queue_metric : str
@@ -391,7 +391,7 @@ def ports_erlang_c(
     Returns
     -------
     ndarray
-        Ports per station (whole, as float) [-].
+        Ports per site (whole, as float) [-].
 
     References
     ----------
@@ -501,32 +501,32 @@ def charger_sizing(
         operating_hours_per_day=a["operating_hours_per_day"],
         target_utilization=a["target_utilization"],
     )
-    stations = stations_spacing(length_mi, station_spacing_mi=a["station_spacing_mi"])
+    sites = sites_spacing(length_mi, site_spacing_mi=a["site_spacing_mi"])
     sessions = kwh_day / a["session_kwh"]
-    arrivals = sessions * a["peak_hour_share"] / stations
+    arrivals = sessions * a["peak_hour_share"] / sites
     service_h = np.full_like(arrivals, a["session_kwh"] / power)
     load = arrivals * service_h  # A = lambda / mu
-    per_station = ports_erlang_c(
+    per_site = ports_erlang_c(
         load,
         service_h,
         queue_metric=a["queue_metric"],
         max_wait_probability=a["max_wait_probability"],
         max_mean_wait_min=a["max_mean_wait_min"],
     )
-    ports_q = stations * per_station
-    ports_min = stations * a["min_ports_per_station"]
+    ports_q = sites * per_site
+    ports_min = sites * a["min_ports_per_site"]
     ports, rule = governing_rule(ports_e, ports_q, ports_min)
-    fewest = np.floor(ports / stations)  # ports at the least-equipped station
+    fewest = np.floor(ports / sites)  # ports at the least-equipped site
     return {
         "electric_trucks_per_day": e_trucks,
         "en_route_kwh_per_day": kwh_day,
         "sessions_per_day": sessions,
-        "stations": stations,
+        "sites": sites,
         "ports_energy": ports_e,
-        "peak_arrivals_per_station_h": arrivals,
+        "peak_arrivals_per_site_h": arrivals,
         "session_hours": service_h,
         "offered_load_erlang": load,
-        "ports_per_station_queue": per_station,
+        "ports_per_site_queue": per_site,
         "ports_queue": ports_q,
         "ports_minimum": ports_min,
         "ports": ports,

@@ -2,13 +2,12 @@
 
 The public entry point is :func:`build_plan`, returning a :class:`Plan`:
 a greedy plan in rank order, an optimised plan (mixed-integer program
-solved with :func:`scipy.optimize.milp`), the differences in plain words, a
+solved by HiGHS, :mod:`ranker.plan.highs`), the numbers behind their differences, a
 coverage view of the network joined, and how often each corridor is funded
 in year one across score samples.
 """
 
-from .checks import PlanInputError
 from .coverage import parse_connects
 from .phasing import Plan, build_plan
 
-__all__ = ["Plan", "PlanInputError", "build_plan", "parse_connects"]
+__all__ = ["Plan", "build_plan", "parse_connects"]

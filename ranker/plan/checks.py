@@ -1,11 +1,10 @@
-"""Check the inputs of the build plan and turn them into plain arrays.
+"""Guard the inputs of the build plan and turn them into plain arrays.
 
-The reader checks the ``Budget`` sheet cell by cell; these checks are the
-last line for callers that build the tables themselves. A problem raises
-:class:`PlanInputError`, which is both the project's
-:class:`~ranker.errors.InputError` (so the command line exits with code 2 and
-names the sheet) and a :class:`ValueError` (so library callers can catch the
-built-in type).
+The reader (:mod:`ranker.workbook`) checks the ``Budget`` sheet, the
+Corridors' capital costs and the plan's assumptions cell by cell, naming each
+cell, and hands on typed tables. These guards are for library callers who
+build the tables themselves: a bad argument raises a plain :class:`ValueError`
+saying what was found.
 """
 
 from __future__ import annotations
@@ -15,17 +14,6 @@ from dataclasses import dataclass
 
 import numpy as np
 import pandas as pd
-
-from ..errors import InputError, Problem
-from ..workbook.tables import ASSUMPTIONS, BUDGET, CORRIDORS
-
-
-class PlanInputError(InputError, ValueError):
-    """A build-plan input is at fault (also a :class:`ValueError`)."""
-
-
-def _fail(where: str, what: str, fix: str) -> PlanInputError:
-    return PlanInputError([Problem(where, what, fix)])
 
 
 @dataclass(frozen=True)
@@ -77,92 +65,54 @@ def check_budget(budget: pd.DataFrame) -> tuple[np.ndarray, np.ndarray]:
 
     Raises
     ------
-    PlanInputError
-        Missing columns, no rows, a blank or fractional year, a year given
-        twice, or a capital that is blank, infinite or negative.
+    ValueError
+        Not a table, missing columns, no rows, a blank or fractional year, a
+        year given twice, or a capital that is blank, infinite or negative.
     """
-    if not isinstance(budget, pd.DataFrame):
-        raise _fail(
-            BUDGET,
-            f"the budget is a {type(budget).__name__}, not a table",
-            "give a table with the columns year and capital_usd",
-        )
-    missing = [c for c in ("year", "capital_usd") if c not in budget.columns]
-    if missing:
-        raise _fail(
-            BUDGET,
-            f"the column(s) {', '.join(missing)} are missing",
-            "put the headers year and capital_usd in row 1",
-        )
+    if not isinstance(budget, pd.DataFrame) or {"year", "capital_usd"} - set(budget.columns):
+        raise ValueError("budget must be a table with the columns year and capital_usd")
     if len(budget) == 0:
-        raise _fail(
-            BUDGET,
-            "the sheet has no budget rows",
-            "give one row per year with the capital available, or remove the sheet",
-        )
+        raise ValueError("budget has no rows; give one row per year")
     year = pd.to_numeric(budget["year"], errors="coerce").to_numpy(dtype=float)
     capital = pd.to_numeric(budget["capital_usd"], errors="coerce").to_numpy(dtype=float)
-    bad_year = ~np.isfinite(year) | (np.round(year) != year)
-    if bad_year.any():
-        shown = ", ".join(str(v) for v in budget["year"][bad_year].tolist()[:5])
-        raise _fail(
-            BUDGET,
-            f"year must be a whole number; found {shown}",
-            "type each year as a four-digit number such as 2028",
-        )
+    bad = ~np.isfinite(year) | (np.round(year) != year)
+    if bad.any():
+        raise ValueError(f"budget year must be a whole number; found {_few(budget['year'], bad)}")
     years = year.astype(int)
     uniq, counts = np.unique(years, return_counts=True)
     if (counts > 1).any():
-        twice = ", ".join(str(y) for y in uniq[counts > 1])
-        raise _fail(
-            BUDGET,
-            f"year {twice} appears more than once",
-            "give each year one row (add the amounts together)",
-        )
-    bad_cap = ~np.isfinite(capital) | (capital < 0)
-    if bad_cap.any():
-        found = ", ".join(
-            f"{y}: {v}"
-            for y, v in zip(years[bad_cap], budget["capital_usd"][bad_cap], strict=True)
-        )
-        raise _fail(
-            BUDGET,
-            f"capital_usd must be a number of USD, zero or more; found {found}",
-            "type the capital available that year in USD (0 for a year with none)",
+        raise ValueError(f"budget year {_few(uniq, counts > 1)} appears more than once")
+    bad = ~np.isfinite(capital) | (capital < 0)
+    if bad.any():
+        raise ValueError(
+            f"budget capital_usd must be zero or more; found {_few(budget['capital_usd'], bad)}"
         )
     sort = np.argsort(years, kind="stable")
     return years[sort], capital[sort]
 
 
-def _aligned(series: pd.Series, ids: list[str], label: str, where: str) -> np.ndarray:
+def _few(values, mask) -> str:
+    """Up to five of ``values`` where ``mask`` holds, for a message."""
+    return ", ".join(str(v) for v in np.asarray(values, dtype=object)[np.asarray(mask)][:5])
+
+
+def _aligned(series: pd.Series, ids: list[str], label: str) -> np.ndarray:
+    """Return ``series`` in the order ``ids`` as finite floats."""
     if not isinstance(series, pd.Series):
-        raise _fail(
-            where,
-            f"{label} is a {type(series).__name__}, not a column per corridor",
-            f"give {label} as a series indexed by corridor_id",
-        )
+        raise ValueError(f"{label} must be a Series indexed by corridor_id")
     series = series.copy()
     series.index = series.index.map(str)
     missing = [i for i in ids if i not in series.index]
     if missing:
-        raise _fail(
-            where,
-            f"{label} is missing for corridor(s) {', '.join(missing[:5])}",
-            f"give {label} for every corridor that is planned",
-        )
+        raise ValueError(f"{label} is missing for corridor(s) {', '.join(missing[:5])}")
     if series.index.duplicated().any():
-        dup = series.index[series.index.duplicated()].unique().tolist()
-        raise _fail(
-            where, f"{label} is given twice for {', '.join(dup[:5])}", "give each corridor_id once"
+        raise ValueError(
+            f"{label} is given twice for {_few(series.index, series.index.duplicated())}"
         )
     values = pd.to_numeric(series.loc[ids], errors="coerce").to_numpy(dtype=float)
-    bad = ~np.isfinite(values)
-    if bad.any():
-        shown = ", ".join(np.asarray(ids)[bad][:5])
-        raise _fail(
-            where,
-            f"{label} is blank or not a finite number for {shown}",
-            f"give a number for {label} on every corridor",
+    if not np.isfinite(values).all():
+        raise ValueError(
+            f"{label} is blank or not a finite number for {_few(ids, ~np.isfinite(values))}"
         )
     return values
 
@@ -197,50 +147,26 @@ def check_inputs(
 
     Raises
     ------
-    PlanInputError
+    ValueError
         Any input out of its allowed range, naming what was found.
     """
     if not isinstance(capital_usd, pd.Series):
-        raise _fail(
-            CORRIDORS,
-            "capital_usd is not a column per corridor",
-            "give capital_usd as a series indexed by corridor_id",
-        )
+        raise ValueError("capital_usd must be a Series indexed by corridor_id")
     ids = [str(i) for i in capital_usd.index]
     if not ids:
-        raise _fail(
-            CORRIDORS,
-            "no corridor is left to plan",
-            "keep at least one corridor (check the must-meet limits on Criteria)",
-        )
+        raise ValueError("no corridor to plan: capital_usd is empty")
     if len(set(ids)) != len(ids):
-        dup = sorted({i for i in ids if ids.count(i) > 1})
-        raise _fail(
-            CORRIDORS,
-            f"corridor_id {', '.join(dup[:5])} appears more than once",
-            "give each corridor a unique corridor_id",
-        )
-    cost = _aligned(capital_usd, ids, "capital_usd", CORRIDORS)
+        raise ValueError(f"corridor_id {_few(ids, pd.Index(ids).duplicated())} appears twice")
+    cost = _aligned(capital_usd, ids, "capital_usd")
     if (cost < 0).any():
-        neg = ", ".join(np.asarray(ids)[cost < 0][:5])
-        raise _fail(
-            CORRIDORS,
-            f"capital cost is negative for {neg}",
-            "give each corridor's capital cost as USD, zero or more",
-        )
-    sc = _aligned(score, ids, "score", CORRIDORS)
-    rk = _aligned(rank, ids, "rank", CORRIDORS)
+        raise ValueError(f"capital_usd is negative for {_few(ids, cost < 0)}")
+    sc = _aligned(score, ids, "score")
+    rk = _aligned(rank, ids, "rank")
     if (rk < 1).any() or (np.round(rk) != rk).any():
-        raise _fail(
-            CORRIDORS,
-            "rank must be a whole number of 1 or more",
-            "pass the ranks the scoring stage produced (1 = best)",
-        )
+        raise ValueError("rank must be a whole number of 1 or more (1 = best)")
     if not (np.isfinite(discount_rate) and 0.0 <= discount_rate < 1.0):
-        raise _fail(
-            ASSUMPTIONS,
-            f"discount_rate is {discount_rate}",
-            "give a real discount rate from 0 up to (not including) 1, such as 0.07",
+        raise ValueError(
+            f"discount_rate must be from 0 up to (not including) 1; got {discount_rate}"
         )
     years, cap = check_budget(budget)
     # Priority: rank, then the higher score, then input order.
@@ -248,9 +174,7 @@ def check_inputs(
     return PlanArrays(ids, cost, sc, rk.astype(int), order, years, cap)
 
 
-def check_series(
-    series: pd.Series, ids: list[str], label: str, *, where: str = CORRIDORS
-) -> np.ndarray:
+def check_series(series: pd.Series, ids: list[str], label: str) -> np.ndarray:
     """Align an optional numeric per-corridor series, zero or more.
 
     Parameters
@@ -262,18 +186,15 @@ def check_series(
         Corridor ids in plan order.
     label : str
         Name of the quantity, for messages.
-    where : str
-        Sheet named in messages.
 
     Returns
     -------
     ndarray, shape (n,)
         Values in plan order (same unit as given).
     """
-    values = _aligned(series, ids, label, where)
+    values = _aligned(series, ids, label)
     if (values < 0).any():
-        neg = ", ".join(np.asarray(ids)[values < 0][:5])
-        raise _fail(where, f"{label} is negative for {neg}", f"give {label} as zero or more")
+        raise ValueError(f"{label} is negative for {_few(ids, values < 0)}")
     return values
 
 

@@ -18,9 +18,9 @@ import pandas as pd
 
 from ..plain import plain
 from ..report.words.basic import money
-from ..workbook.tables import ASSUMPTIONS, BUDGET
+from ..workbook.tables import BUDGET
 from . import optimise
-from .checks import _fail, check_endpoints, check_inputs, check_samples, check_series
+from .checks import check_endpoints, check_inputs, check_samples, check_series
 from .coverage import coverage_view
 from .greedy import greedy_kernel
 from .objectives import OBJECTIVES
@@ -178,10 +178,10 @@ def build_plan(
 
     Raises
     ------
-    PlanInputError
-        (an :class:`~ranker.errors.InputError` and a :class:`ValueError`)
-        for a bad budget (negative, blank, a year twice), costs, scores,
-        ranks, objective or places.
+    ValueError
+        For a bad budget (negative, blank, a year twice), costs, scores,
+        ranks, objective, truck-miles or connects. The reader checks each of
+        these in its cell before a run gets here.
 
     References
     ----------
@@ -208,18 +208,11 @@ def build_plan(
     """
     a = check_inputs(capital_usd, score, rank, budget, discount_rate=discount_rate)
     if objective not in OBJECTIVES:
-        raise _fail(
-            ASSUMPTIONS, f"plan_objective is '{objective}'", f"use one of {', '.join(OBJECTIVES)}"
-        )
+        raise ValueError(f"objective is '{objective}'; use one of {', '.join(OBJECTIVES)}")
     obj = OBJECTIVES[objective]
     if objective == "truck_miles":
         if truck_miles is None:
-            raise _fail(
-                ASSUMPTIONS,
-                "plan_objective truck_miles needs each corridor's electric truck-miles",
-                "include the criteria that derive them (length_mi and trucks_per_day on "
-                "Corridors), or set plan_objective to score",
-            )
+            raise ValueError("objective truck_miles needs truck_miles, a Series per corridor")
         quantity = check_series(truck_miles, a.ids, "electric truck-miles a year")
     else:
         quantity = a.score

@@ -48,7 +48,7 @@ def _cards(result, shown) -> list[dict]:
             s = d.sizing.loc[cid]
             for key, label in (
                 ("ports", "charging ports"),
-                ("stations", "charging sites"),
+                ("sites", "charging sites"),
                 ("capital_cost_usd", "capital cost [USD]"),
                 ("peak_load_mw", "new peak load [MW]"),
                 ("grid_headroom_mw", "grid headroom [MW]"),

@@ -10,7 +10,9 @@ Two public entry points:
   anything is unpacked) and whole (every part unpacks to its stated size).
 - :func:`read_workbook` runs :func:`check_file`, then reads every contract
   sheet (openpyxl read-only, cached values), then types and cross-checks the
-  tables (:mod:`ranker.workbook.sheets`, :mod:`ranker.workbook.criteria`).
+  tables (:mod:`ranker.workbook.sheets`, :mod:`ranker.workbook.criteria`,
+  :mod:`ranker.workbook.assumption_sheets`; with a Budget sheet, what the
+  build plan reads: :mod:`ranker.workbook.plan_inputs`).
   Every problem found is collected, sorted by sheet, row and column, and
   raised together as one :class:`~ranker.errors.InputError`.
 
@@ -34,7 +36,9 @@ import pandas as pd
 from openpyxl.utils import column_index_from_string, get_column_letter, range_boundaries
 
 from ranker.errors import InputError, Problems
+from ranker.workbook import assumption_sheets as _assumption_sheets
 from ranker.workbook import places as _places
+from ranker.workbook import plan_inputs as _plan_inputs
 from ranker.workbook import sheets as _sheets
 from ranker.workbook import tables as T
 from ranker.workbook.criteria import read_criteria, read_pairwise
@@ -301,7 +305,7 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
             inputs.jurisdictions,
         )
     if T.ASSUMPTIONS in tables:
-        inputs.assumptions = _sheets.read_assumptions(
+        inputs.assumptions = _assumption_sheets.read_assumptions(
             tables[T.ASSUMPTIONS], problems, inputs, warnings
         )
     if T.ADOPTION in tables:
@@ -313,7 +317,7 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
     if inputs.budget is not None and T.BUDGET in tables:
         _budget_before_start(inputs, tables[T.BUDGET], warnings)
     if T.SCENARIOS in tables:
-        inputs.scenarios = _sheets.read_scenarios(tables[T.SCENARIOS], problems, inputs)
+        inputs.scenarios = _assumption_sheets.read_scenarios(tables[T.SCENARIOS], problems, inputs)
     if T.CRITERIA in tables:
         read_criteria(
             tables[T.CRITERIA],
@@ -332,6 +336,7 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
             _places.check_connects_places(tables[T.CORRIDORS], inputs.places, problems)
     if T.GEOMETRY in tables:
         inputs.geometry = _places.read_geometry(tables[T.GEOMETRY], problems, inputs, corridors)
+    _plan_inputs.check_plan_inputs(inputs, tables, problems)
     for grid in grids.values():
         _sheets.formula_outside(grid, problems)
     return inputs

@@ -5,7 +5,8 @@ The reader collects the non-blank cells of each contract sheet into a
 :data:`~ranker.workbook.schema.SHEETS` (:func:`read_header`), type every cell
 (:func:`read_records`) and cross-check the sheets, adding one problem per bad
 cell to the shared :class:`~ranker.errors.Problems`. Nothing here opens files.
-The Criteria sheet and the Pairwise matrix are in :mod:`ranker.workbook.criteria`.
+The Criteria sheet and the Pairwise matrix are in :mod:`ranker.workbook.criteria`, the
+Assumptions and Scenarios sheets in :mod:`ranker.workbook.assumption_sheets`.
 """
 
 from __future__ import annotations
@@ -16,7 +17,6 @@ from dataclasses import dataclass, field
 import pandas as pd
 from openpyxl.utils import get_column_letter
 
-from ranker.assumptions import ASSUMPTIONS, Assumption, suggest
 from ranker.errors import Problems
 from ranker.workbook import schema as S
 from ranker.workbook import tables as T
@@ -116,31 +116,6 @@ def parse_cell(f: S.Field, cell: Cell, *, percent: str | None = None) -> object:
         return x
     x = U.parse_number(value, percent=percent or f.percent, pct_format=cell.pct, unit=f.unit)
     U.check_range(x, f.low, f.high, low_open=f.low_open, unit=f.unit)
-    return x
-
-
-def parse_assumption(a: Assumption, cell: Cell) -> object:
-    """Type one assumption value against the registry entry ``a``."""
-    value = raw(cell)
-    if a.kind == "bool":
-        return U.parse_bool(value)
-    if a.kind == "choice":
-        return U.parse_choice(value, a.choices)
-    if a.kind == "list":
-        return U.parse_words(value, a.choices)
-    if a.kind == "names":
-        return tuple(
-            w.strip() for w in str("" if value is None else value).split(",") if w.strip()
-        )
-    share = a.unit in ("[-]", "[1/yr]")
-    if a.kind == "int":
-        x = U.parse_int(value, unit=a.unit)
-    else:
-        x = U.parse_number(value, percent="share" if share else "reject", unit=a.unit)
-    try:
-        U.check_range(x, a.low, a.high, low_open=a.low_open, unit=a.unit)
-    except CellValueError as exc:
-        raise CellValueError(f"{exc.what} for {a.key}", exc.fix) from None
     return x
 
 
@@ -498,126 +473,6 @@ def read_by_year(t, problems, inputs, value_key: str) -> pd.DataFrame | None:
     if df["year"].notna().all():
         df["year"] = df["year"].astype(int)
     inputs.rows[t.sheet] = {i: rec["_row"] for i, rec in enumerate(recs)}
-    return df
-
-
-def _assumption_key(t: Table, r: int, problems: Problems, key_name: str) -> Assumption | None:
-    cell = t.cell(key_name, r)
-    key = S.normalize_key(U.parse_text(raw(cell)))
-    if key in ASSUMPTIONS:
-        return ASSUMPTIONS[key]
-    hint = suggest(key)
-    problems.add(
-        t.where(key_name, r),
-        f"{key!r} is not a known assumption key",
-        (f"did you mean {hint}? " if hint else "")
-        + "use a key from the Assumptions sheet of a fresh template",
-    )
-    return None
-
-
-def read_assumptions(t: Table, problems: Problems, inputs: T.Inputs, warnings: list[str]) -> dict:
-    """Type the Assumptions sheet: only rows with a value; unknown keys suggest the nearest."""
-    values: dict[str, object] = {}
-    rows: dict[str, int] = {}
-    if "key" not in t.cols or "value" not in t.cols:
-        if t.grid.rows and "value" not in t.cols and "key" in t.cols:
-            problems.add(
-                f"{t.sheet}!1:1", "no column headed value", "add a column headed value in row 1"
-            )
-        return values
-    for r in t.rows:
-        kcell, vcell = t.cell("key", r), t.cell("value", r)
-        if kcell is None:
-            if vcell is not None:
-                problems.add(
-                    t.where("key", r),
-                    "key is blank but the row has a value",
-                    "type the assumption key or clear the value",
-                )
-            continue  # a heading or remark row
-        try:
-            a = _assumption_key(t, r, problems, "key")
-        except CellValueError as exc:
-            problems.add(t.where("key", r), f"key {exc.what}", exc.fix)
-            continue
-        if a is None:
-            continue
-        if a.key in rows:
-            problems.add(
-                t.where("key", r),
-                f"{a.key} is listed twice (also in {t.where('key', rows[a.key])})",
-                "keep one of the two rows",
-            )
-            continue
-        rows[a.key] = r
-        if vcell is None:
-            continue
-        try:
-            values[a.key] = parse_assumption(a, vcell)
-        except CellValueError as exc:
-            problems.add(t.where("value", r), f"{a.key} {exc.what}", exc.fix)
-            continue
-        ucell = t.cell("unit", r)
-        if ucell is not None and ucell.kind not in "fe":
-            typed = U.parse_text(ucell.value).strip("[] ").lower()
-            if typed and typed != a.unit.strip("[]").lower():
-                warnings.append(
-                    f"{t.where('unit', r)}: unit {ucell.value!r} differs from "
-                    f"{a.unit}; {a.key} is read in {a.unit} (no conversion)"
-                )
-    inputs.rows[T.ASSUMPTIONS] = rows
-    return values
-
-
-def read_scenarios(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
-    """Type the Scenarios sheet: each value typed like its assumption."""
-    recs = read_records(t, problems, skip=("value", "key"))
-    if not recs or "key" not in t.cols:
-        return None
-    seen: dict[tuple, int] = {}
-    for rec in recs:
-        r = rec["_row"]
-        rec["key"] = rec["value"] = None
-        if t.cell("key", r) is None:
-            problems.add(t.where("key", r), "key is blank", "type an assumption key")
-            continue
-        try:
-            a = _assumption_key(t, r, problems, "key")
-        except CellValueError as exc:
-            problems.add(t.where("key", r), f"key {exc.what}", exc.fix)
-            continue
-        if a is None:
-            continue
-        rec["key"] = a.key
-        pair = (str(rec.get("scenario")).lower(), a.key)
-        if rec.get("scenario") is not None and pair in seen:
-            problems.add(
-                t.where("key", r),
-                f"scenario {rec['scenario']} sets {a.key} twice (also row {seen[pair]})",
-                "keep one of the two rows",
-            )
-        seen.setdefault(pair, r)
-        vcell = t.cell("value", r) if "value" in t.cols else None
-        if vcell is None:
-            if "value" in t.cols:
-                problems.add(
-                    t.where("value", r),
-                    f"value of {a.key} is blank",
-                    "type the value this scenario uses",
-                )
-            continue
-        try:
-            rec["value"] = parse_assumption(a, vcell)
-        except CellValueError as exc:
-            problems.add(t.where("value", r), f"{a.key} {exc.what}", exc.fix)
-    df = pd.DataFrame(
-        {
-            k: pd.Series([rec.get(k) for rec in recs], dtype=object)
-            for k in ("scenario", "key", "value")
-        }
-    )
-    inputs.rows[T.SCENARIOS] = {i: rec["_row"] for i, rec in enumerate(recs)}
     return df
 
 

@@ -84,7 +84,7 @@ def test_capital_cost_and_headroom_by_hand():
     upgrade = max(0.0, peak - 0.5)
     assert s["capital_cost_usd"] == pytest.approx(
         s["ports"] * a["port_cost_usd"]
-        + s["stations"] * a["site_cost_usd"]
+        + s["sites"] * a["site_cost_usd"]
         + upgrade * a["grid_upgrade_usd_per_mw"]
     )
     assert d.values.loc["K2", "grid_headroom"] == pytest.approx(0.5 / peak)

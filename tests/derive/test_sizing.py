@@ -18,7 +18,7 @@ from ranker.derive.sizing import (
     mean_wait_erlang_c,
     ports_energy_balance,
     ports_erlang_c,
-    stations_spacing,
+    sites_spacing,
     wait_probability_erlang_c,
 )
 
@@ -108,7 +108,7 @@ def test_erlang_b_heavy_overload_keeps_its_value():
 
 
 def test_ports_for_enormous_loads_follow_square_root_staffing():
-    """A load of 1e8 Erlang at one station still sizes, without stepping through
+    """A load of 1e8 Erlang at one site still sizes, without stepping through
     1e8 servers, and lands on Halfin and Whitt's (1981) heavy-traffic answer
     c = A + beta sqrt(A) with 1 / (1 + beta Phi(beta) / phi(beta)) = 0.2."""
     from scipy.optimize import brentq
@@ -216,12 +216,12 @@ def test_energy_balance_and_spacing():
         [0.0, 1.0, 2.0],
     )
     np.testing.assert_array_equal(
-        stations_spacing([0.5, 100.0, 100.1], station_spacing_mi=50.0), [1.0, 2.0, 3.0]
+        sites_spacing([0.5, 100.0, 100.1], site_spacing_mi=50.0), [1.0, 2.0, 3.0]
     )
 
 
 def test_no_electric_trucks_still_gets_the_coverage_minimum():
-    a = resolve({"min_ports_per_station": 2})
+    a = resolve({"min_ports_per_site": 2})
     out = charger_sizing(
         length_mi=[120.0],
         trucks_per_day=[0.0],
@@ -229,7 +229,7 @@ def test_no_electric_trucks_still_gets_the_coverage_minimum():
         energy_kwh_per_pass=[200.0],
         assumptions=a,
     )
-    assert out["stations"][0] == 3 and out["ports"][0] == 6
+    assert out["sites"][0] == 3 and out["ports"][0] == 6
     assert out["governing_rule"][0] == "minimum"
 
 
