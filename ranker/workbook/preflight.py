@@ -584,15 +584,18 @@ _VALUE_TAG = re.compile(rb"<(?:\w++:)?+v(?:\s[^>]*)?>[^<]|<(?:\w++:)?+is>")
 _ROW_NUMBER = re.compile(rb'\sr="(\d+)"')
 
 
-def _row_before(block: bytes, end: int) -> tuple[bool, int | None]:
-    """Find the last row start tag before ``end``: (found, its number or None)."""
-    at = max(block.rfind(b"<row", 0, end), block.rfind(b":row", 0, end))
+def _row_before(block: bytes, end: int, limit: int | None = None) -> tuple[bool, int | None]:
+    """Find the last row start tag that starts before ``end`` and ends by ``limit``
+    (default ``end``): (found, its number or None)."""
+    limit = end if limit is None else limit
+    at = max(block.rfind(b"<row", 0, limit), block.rfind(b":row", 0, limit))
     while at >= 0:
         start = at if block[at : at + 1] == b"<" else block.rfind(b"<", 0, at)
-        m = _ROW_START.match(block, max(start, 0))
-        if m is not None and m.end() <= end:
-            n = _ROW_NUMBER.search(m.group(1))
-            return True, int(n.group(1)) if n else None
+        if start < end:
+            m = _ROW_START.match(block, max(start, 0))
+            if m is not None and m.end() <= limit:
+                n = _ROW_NUMBER.search(m.group(1))
+                return True, int(n.group(1)) if n else None
         at = max(block.rfind(b"<row", 0, at), block.rfind(b":row", 0, at))
     return False, None
 
@@ -610,7 +613,7 @@ def last_value_row(chunks) -> int | None:
     from collections import deque
 
     last: int | None = 0
-    row: int | None = 0  # the number of the last row tag seen in earlier chunks
+    row: int | None = 0  # the last row tag starting before the block kept (0: none)
     block = b""
     for chunk in [*chunks, b""]:
         block += chunk
@@ -619,11 +622,12 @@ def last_value_row(chunks) -> int | None:
         value = deque(_VALUE_TAG.finditer(block, 0, stop), maxlen=1)
         if value:
             found, number = _row_before(block, value[0].start())
-            last = number if found else row
-        found, number = _row_before(block, stop)
+            last = number if found else row  # its row tag lies before the block
+        cut = max(stop - 256, 0)
+        found, number = _row_before(block, cut, stop)
         if found:
             row = number
-        block = block[max(stop - 256, 0) :]
+        block = block[cut:]
     return last
 
 

@@ -385,6 +385,47 @@ def test_last_value_row_equals_the_parsed_xml(kinds, seed, prefix):
     assert P.last_value_row(chunks) == want
 
 
+@settings(max_examples=200, deadline=None, derandomize=True)
+@given(
+    st.lists(st.lists(st.sampled_from("vvefis"), min_size=1, max_size=6), max_size=40),
+    st.integers(0, 10_000),
+    st.sampled_from(["", "x"]),
+    st.sampled_from([1, 7, 64, 300, 1000]),
+)
+def test_last_value_row_with_empty_rows_after_any_chunking(kinds, seed, prefix, size):
+    """Rows without a value may follow the last value (formatted rows far below): the
+    answer is still the parsed XML's, however the part is cut into chunks (a value
+    found again in the overlap kept between chunks takes its own row, not a later one)."""
+    rng = np.random.default_rng(seed)
+    numbers = sorted(rng.choice(200_000, len(kinds), replace=False) + 1)
+    rows = list(zip(numbers, kinds, strict=True))
+    xml = _sheet_xml(rows, prefix)
+    want = _etree_last_row(xml)
+    assert P.last_value_row([xml[a : a + size] for a in range(0, len(xml), size)]) == want
+    cuts = sorted(set(rng.integers(0, len(xml) + 1, size=8).tolist()))
+    chunks = [xml[a:b] for a, b in zip([0, *cuts], [*cuts, len(xml)], strict=True)]
+    assert P.last_value_row(chunks) == want
+
+
+@pytest.mark.parametrize("prefix", ["", "x"])
+@pytest.mark.parametrize("tail", [0, 100, 300, 600])
+@pytest.mark.parametrize("cells", [1, 6, 12])
+def test_last_value_row_not_taken_from_a_later_empty_row(tail, cells, prefix):
+    """A formatted empty row far below the last value, then other parts of the sheet
+    (conditional formats) after the data: the last value's own row counts, not the
+    empty row's, for any chunking (found on a valid workbook refused as too long)."""
+    p = f"{prefix}:" if prefix else ""
+    xml = _sheet_xml([(3, "v"), (5, "v" * cells)], prefix).decode()
+    padding = f"<{p}conditionalFormatting sqref='K2:K5'>{' ' * tail}</{p}conditionalFormatting>"
+    empty = f'<{p}row r="150000" ht="30" customHeight="1"/>'
+    xml = xml.replace(f"</{p}sheetData>", empty + f"</{p}sheetData>")
+    xml = xml.replace(f"</{p}worksheet>", padding + f"</{p}worksheet>").encode()
+    assert _etree_last_row(xml) == 5
+    assert P.last_value_row([xml]) == 5
+    for size in (1, 50, 257, 1000):
+        assert P.last_value_row([xml[a : a + size] for a in range(0, len(xml), size)]) == 5
+
+
 def test_last_value_row_edges():
     assert P.last_value_row([]) == 0
     assert P.last_value_row([_sheet_xml([])]) == 0
