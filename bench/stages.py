@@ -39,7 +39,10 @@ import tempfile
 import time
 from pathlib import Path
 
-import numpy as np
+# One linear-algebra thread, as the command line asks for (ranker.cli.main).
+os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
+
+import numpy as np  # noqa: E402
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 from synthetic import synthetic  # noqa: E402

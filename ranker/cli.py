@@ -301,9 +301,24 @@ def _quiet_pipe() -> None:
         pass
 
 
+#: The linear-algebra library's thread count unless the user sets it [threads].
+BLAS_THREADS = "1"
+
+
 def main(argv: list[str] | None = None) -> int:
-    """Run the command line; return the exit code."""
+    """Run the command line; return the exit code.
+
+    The analyses' matrix products are thin (a few criteria wide) and
+    chunked to stay in the cache, so the linear-algebra library's own
+    threads gain nothing and, spinning on a machine busy with other work,
+    cost a quarter to a third of a whole run (``bench/e2e.py``). The command
+    line therefore asks for one thread (``OPENBLAS_NUM_THREADS``), unless
+    it is already set; numpy is not loaded yet at this point.
+    """
+    import os
     import warnings
+
+    os.environ.setdefault("OPENBLAS_NUM_THREADS", BLAS_THREADS)
 
     with warnings.catch_warnings():
         if argv is None:  # the real command line: a library's warning as one plain line

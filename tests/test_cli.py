@@ -4,6 +4,9 @@ from __future__ import annotations
 
 import hashlib
 import json
+import os
+import subprocess
+import sys
 from html import escape
 
 import pytest
@@ -225,3 +228,24 @@ def test_changes_name_tier_moves_and_the_samples(direct_workbook, capsys):
         "new": 400,
         "unit": "samples",
     } in summary["changes"]["inputs"]
+
+
+@pytest.mark.parametrize("given, want", [(None, "1"), ("3", "3")])
+def test_one_blas_thread_unless_set(tmp_path, given, want):
+    """The command line asks the linear-algebra library for one thread before numpy
+    loads (its threads slow the thin products down on a busy machine), unless the
+    user set OPENBLAS_NUM_THREADS."""
+    code = (
+        "import os, sys\n"
+        "from ranker import cli\n"
+        "assert 'numpy' not in sys.modules\n"
+        f"cli.main(['check', {str(tmp_path / 'missing.xlsx')!r}])\n"
+        "print(os.environ['OPENBLAS_NUM_THREADS'])\n"
+    )
+    env = {k: v for k, v in os.environ.items() if k != "OPENBLAS_NUM_THREADS"}
+    if given:
+        env["OPENBLAS_NUM_THREADS"] = given
+    out = subprocess.run(
+        [sys.executable, "-c", code], env=env, capture_output=True, text=True, check=True
+    )
+    assert out.stdout.strip().splitlines()[-1] == want

@@ -33,6 +33,23 @@ import numpy as np
 
 from ranker.score.topsis import topsis
 
+from .batch import ELEMENT_BUDGET
+
+
+def _product(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """``a @ b`` a block of rows at a time, each block at most ``ELEMENT_BUDGET`` entries.
+
+    OpenBLAS runs products that small on one thread; its threads, on a
+    machine busy with other work, made these passes several times slower
+    (the same reason :meth:`ranker.stress.batch.Scorer.weights` chunks).
+    Each block is the same product, so the entries equal ``a @ b``'s.
+    """
+    out = np.empty((a.shape[0], b.shape[1]))
+    step = max(1, ELEMENT_BUDGET // max(1, b.shape[1]))
+    for start in range(0, a.shape[0], step):
+        np.matmul(a[start : start + step], b, out=out[start : start + step])
+    return out
+
 
 def _closeness(dp2: np.ndarray, dm2: np.ndarray) -> np.ndarray:
     """Closeness ``d- / (d+ + d-)`` from squared distances, 0.5 where both are 0 [-].
@@ -107,7 +124,7 @@ class TopsisVariants:
             norm2_variant > 0, self.norm2 / np.where(norm2_variant > 0, norm2_variant, 1.0), 1.0
         )
         a = self.w2 * f2  # w_c^2 f_c^2, one row per variant
-        return _closeness(a @ self.to_ideal, a @ self.to_anti)
+        return _closeness(_product(a, self.to_ideal), _product(a, self.to_anti))
 
     def with_copy(self, v: np.ndarray) -> np.ndarray:
         """Scores (len(v), n + 1) of the base corridors and, last, the copy of corridor v [-]."""
@@ -145,8 +162,8 @@ class TopsisVariants:
         weighted = self.w2 > 0
         moved_ideal = (ideal != self.ideal) & weighted
         moved_anti = (anti != self.anti) & weighted
-        dp2 = np.where(moved_ideal, 0.0, a) @ self.to_ideal
-        dm2 = np.where(moved_anti, 0.0, a) @ self.to_anti
+        dp2 = _product(np.where(moved_ideal, 0.0, a), self.to_ideal)
+        dm2 = _product(np.where(moved_anti, 0.0, a), self.to_anti)
         for out, moved, point in ((dp2, moved_ideal, ideal), (dm2, moved_anti, anti)):
             for c in np.nonzero(moved.any(axis=0))[0]:
                 m = np.nonzero(moved[:, c])[0]
