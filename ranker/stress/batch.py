@@ -274,21 +274,41 @@ class Scorer:
         ndarray, shape (m, p)
             Oriented scores [-].
         """
+        rows = self._row_scorer(matrix)
+        if rows is None:
+            return np.take_along_axis(self.weights(matrix, weights), cols, axis=1)
+        out = np.empty(cols.shape)
+        step = max(1, ELEMENT_BUDGET // max(1, cols.shape[1] * matrix.shape[1]))
+        for start in range(0, len(cols), step):
+            part = rows(weights[start : start + step], cols[start : start + step])
+            out[start : start + step] = self._orient(part)
+        return out
+
+    def _row_scorer(self, matrix):
+        """The kernel's row scorer for ``matrix`` (built once per matrix), or None."""
         from .rows import ROW_SCORERS
 
         factory = ROW_SCORERS.get(self.kernel)
         if factory is None:
-            return np.take_along_axis(self.weights(matrix, weights), cols, axis=1)
+            return None
         cached = getattr(self, "_row_cache", None)
         if cached is None or cached[0] is not matrix:
             cached = (matrix, factory(matrix, self.is_benefit, **self.options))
             self._row_cache = cached
-        out = np.empty(cols.shape)
-        step = max(1, ELEMENT_BUDGET // max(1, cols.shape[1] * matrix.shape[1]))
-        for start in range(0, len(cols), step):
-            part = cached[1](weights[start : start + step], cols[start : start + step])
-            out[start : start + step] = self._orient(part)
-        return out
+        return cached[1]
+
+    def along(self, matrix: np.ndarray, share: np.ndarray, c: int):
+        """Closed-form scorer of chosen corridors on the weight line ``t e_c + (1 - t) s``.
+
+        ``share`` is ``s`` (0 at ``c``). Returns ``f(t (m,), cols (m, p)) ->
+        (m, p)`` oriented scores [-], or None when the kernel's row scorer has
+        no closed form along a line (then use :meth:`rows`).
+        """
+        rows = self._row_scorer(matrix)
+        if rows is None or not hasattr(rows, "along"):
+            return None
+        line = rows.along(share, c)
+        return lambda t, cols: self._orient(line(t, cols))
 
     def stack(self, matrices: np.ndarray, weights: np.ndarray) -> np.ndarray:
         """Score matrices (s, m, k) under weights (s, k) or one (k,); oriented (s, m) [-].

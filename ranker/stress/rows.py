@@ -77,6 +77,36 @@ class TopsisRows:
         total = d_plus + d_minus  # Step 5 of [1]
         return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
 
+    def along(self, share: np.ndarray, c: int):
+        """Scorer of chosen rows along one weight line, in closed form.
+
+        On the line ``w(t) = t e_c + (1 - t) s`` (``s`` the other criteria's
+        shares, ``s_c = 0``: the tipping sweep of
+        :mod:`ranker.stress.tipping`) every squared distance is
+        ``t^2 P_i + (1 - t)^2 Q_i`` with ``P_i`` the row's term of criterion
+        ``c`` and ``Q_i = sum_j s_j^2 (r_ij - r*_j)^2``, so a row costs four
+        numbers instead of ``2 k``. Equal to :meth:`__call__` at ``w(t)`` to
+        rounding (``tests/stress/test_rows.py``).
+
+        Returns
+        -------
+        callable ``(t (m,), cols (m, p)) -> (m, p)``
+            Relative closeness, higher is better [-].
+        """
+        s2 = np.asarray(share, dtype=float) ** 2
+        p_plus, q_plus = self.to_ideal[:, c], self.to_ideal @ s2
+        p_minus, q_minus = self.to_anti[:, c], self.to_anti @ s2
+
+        def score(t: np.ndarray, cols: np.ndarray) -> np.ndarray:
+            t = np.asarray(t, dtype=float)[:, None]
+            a, b = t * t, (1.0 - t) ** 2
+            d_plus = np.sqrt(np.maximum(a * p_plus[cols] + b * q_plus[cols], 0.0))
+            d_minus = np.sqrt(np.maximum(a * p_minus[cols] + b * q_minus[cols], 0.0))
+            total = d_plus + d_minus
+            return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+
+        return score
+
 
 #: Kernel to ``factory(matrix, is_benefit, **options) -> scorer(weights, cols)``.
 ROW_SCORERS: dict[Callable, Callable] = {topsis: TopsisRows}

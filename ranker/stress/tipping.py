@@ -338,6 +338,7 @@ def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, cols):
     """
     m = len(i)
     rows = np.arange(m)
+    line = _line(scorer, x, w, c)
     a, b = a.astype(float).copy(), b.astype(float).copy()
     ga, gb = ga.copy(), gb.copy()
     # Beaters of i outside the partners: the same all across the bracket.
@@ -369,8 +370,7 @@ def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, cols):
         guess = np.clip(a[todo] + frac * (b[todo] - a[todo]), lo, hi)
         toward = np.sign(b[todo] - a[todo])
         near, far = guess - toward * half, guess + toward * half
-        g_near = scorer.rows(x, sweep_weights(w, c, near), cols[todo])
-        g_far = scorer.rows(x, sweep_weights(w, c, far), cols[todo])
+        g_near, g_far = line(near, cols[todo]), line(far, cols[todo])
         s_far = _beaten(g_far)
         moved_near = (_beaten(g_near) != state0[todo]).any(axis=1)
         moved_far = (s_far != state0[todo]).any(axis=1)
@@ -392,6 +392,20 @@ def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, cols):
     t[left] = (a[left] + b[left]) / 2
     after[left] = 1 + outside[left] + _beaten(gb[left]).sum(axis=1)
     return t, by, after
+
+
+def _line(scorer, x, w, c):
+    """Scores of chosen corridors at swept weights: ``f(t (m,), cols (m, p))``, oriented.
+
+    In closed form along the sweep where the kernel allows
+    (:meth:`~ranker.stress.batch.Scorer.along`: TOPSIS), else by scoring the
+    rows at :func:`sweep_weights`.
+    """
+    share = sweep_weights(w, c, np.zeros(1))[0]  # the others' shares, 0 at c
+    along = scorer.along(x, share, c)
+    if along is not None:
+        return along
+    return lambda t, cols: scorer.rows(x, sweep_weights(w, c, t), cols)
 
 
 def _beaten(h: np.ndarray) -> np.ndarray:

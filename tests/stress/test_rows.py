@@ -119,3 +119,27 @@ def test_rows_equal_kernel_for_every_normalization(normalization):
     whole = topsis(x, w, benefit, normalization=normalization)  # (20, 9)
     want = np.take_along_axis(whole, cols, axis=1)
     np.testing.assert_allclose(got, want, rtol=0, atol=1e-12)
+
+
+@settings(max_examples=40, deadline=None, derandomize=True)
+@given(st.integers(2, 30), st.integers(2, 7), st.integers(0, 10_000))
+def test_along_a_weight_line_equals_rows_at_its_weights(n, k, seed):
+    """The closed form on the tipping sweep's line w(t) = t e_c + (1 - t) s equals the
+    row scores at w(t), and the kernel's (Hwang & Yoon 1981, pp. 128-134), to rounding."""
+    from ranker.stress.tipping import sweep_weights
+
+    rng = np.random.default_rng(seed)
+    x = rng.uniform(0.5, 10.0, size=(n, k))
+    benefit = rng.random(k) < 0.5
+    w = rng.dirichlet(np.ones(k))
+    c = int(rng.integers(0, k))
+    rows = TopsisRows(x, benefit)
+    share = sweep_weights(w, c, np.zeros(1))[0]
+    assert share[c] == 0.0 and share.sum() == pytest.approx(1.0)
+    t = np.concatenate([[0.0, 1.0, w[c]], rng.random(9)])
+    cols = np.tile(np.arange(n), (t.size, 1))
+    got = rows.along(share, c)(t, cols)
+    weights = sweep_weights(w, c, t)
+    assert np.allclose(got, rows(weights, cols), rtol=0, atol=1e-13)
+    for m, wt in enumerate(weights):
+        assert np.allclose(got[m], topsis(x, wt, benefit), rtol=0, atol=1e-13)
