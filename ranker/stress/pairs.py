@@ -66,11 +66,15 @@ def pair_index(start: int, stop: int, n: int) -> tuple[np.ndarray, np.ndarray]:
     Pair ``p`` lies in row ``a`` where ``a (2n - a - 1) / 2 <= p``, the
     number of pairs in the rows above it; without building all the pairs.
     """
-    rows = np.arange(n, dtype=np.int64)
-    before = rows * (2 * n - rows - 1) // 2
-    p = np.arange(start, stop, dtype=np.int64)
-    a = np.searchsorted(before, p, side="right") - 1
-    return a, p - before[a] + a + 1
+    rows = np.arange(n + 1, dtype=np.int64)
+    before = rows * (2 * n - rows - 1) // 2  # before[n] is every pair
+    if stop <= start:
+        return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
+    first, last = np.searchsorted(before, [start, stop - 1], side="right") - 1
+    r = rows[first : last + 1]
+    counts = np.minimum(stop, before[r + 1]) - np.maximum(start, before[r])
+    a = np.repeat(r, counts)
+    return a, np.arange(start, stop, dtype=np.int64) - before[a] + a + 1
 
 
 def _cycle_count(prefer: np.ndarray) -> int:
