@@ -237,24 +237,24 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
         who = who[np.argsort(first[who], kind="stable")]
         step = max(1, NARROW_BUDGET // n)
         for start in range(0, who.size, step):
-            i = who[start : start + step]
-            ra, rb = first[i] - side, first[i]
-            window = _windows(order, (pos, runs, moves), ra, rb, i)
-            cols = _partners(g, thresholds, ra, rb, i, window)
-            t, by, after = _narrow(
-                scorer,
-                x,
-                w,
-                c,
-                i,
-                grid[ra],
-                grid[rb],
-                g[ra[:, None], cols],
-                g[rb[:, None], cols],
-                ranks[g0, i],
-                cols,
-            )
-            ends[side][0][i], ends[side][1][i], ends[side][2][i] = t, by, after
+            block = who[start : start + step]
+            for i, window in _windows(order, (pos, runs, moves), first[block] - side, block, side):
+                ra, rb = first[i] - side, first[i]
+                cols = _partners(g, thresholds, ra, rb, i, window)
+                t, by, after = _narrow(
+                    scorer,
+                    x,
+                    w,
+                    c,
+                    i,
+                    grid[ra],
+                    grid[rb],
+                    g[ra[:, None], cols],
+                    g[rb[:, None], cols],
+                    ranks[g0, i],
+                    cols,
+                )
+                ends[side][0][i], ends[side][1][i], ends[side][2][i] = t, by, after
     (high, high_by, high_rank), (low, low_by, low_rank) = ends[1], ends[-1]
     return low, high, low_by, high_by, low_rank, high_rank
 
@@ -279,6 +279,8 @@ def _partners(g, thresholds, ra, rb, i, window=None) -> np.ndarray:
     flips = (ai > ta) != (bi > tb)
     flips |= (ga > thresholds[ra, i][:, None]) != (gb > thresholds[rb, i][:, None])
     flips &= cand != i[:, None]
+    if window is not None:  # a corridor listed twice (a far mover in the window) counts once
+        flips[:, 1:] &= cand[:, 1:] != cand[:, :-1]
     size = flips.sum(axis=1)
     cols = np.repeat(i[:, None], 1 + max(1, int(size.max(initial=0))), axis=1)
     r, j = np.nonzero(flips)
@@ -287,30 +289,82 @@ def _partners(g, thresholds, ra, rb, i, window=None) -> np.ndarray:
     return cols
 
 
-def _windows(order, places, ra, rb, i):
-    """Corridors near i in row ra's order that can change their order with i by row rb.
+#: Most corridors set apart as far movers of one grid cell [-].
+FAR_MOVERS = 512
 
-    A pair whose order reverses between two rows is at most ``2 D`` apart in
-    either row's order, ``D`` the largest move of any corridor between them;
-    a pair whose relation changes through the tie rule alone lies within
-    one run of tied neighbours. So the partners of i are within ``W = 2 D +
-    T + 1`` places of it in row ra (``T`` the longest tied run of the two
-    rows). ``places`` is (place of each corridor in each row's order, each
-    row's longest tied run, each pair of adjacent rows' largest move).
-    Returns the corridors at those places, i itself past the ends; None
-    where the window would cover most corridors anyway.
+
+def _far_movers(pos, cell: int) -> tuple[int, np.ndarray]:
+    """Split the corridors of one grid cell into near and far movers.
+
+    Returns ``d`` and the corridors that move more than ``d`` places between
+    the cell's two rows, ``d`` chosen to keep windows small: a near corridor's
+    window grows by ``2 d`` places, while every far mover is added to every
+    window, so ``d`` minimises ``4 d + (number of far movers)`` over the
+    :data:`FAR_MOVERS` largest moves.
+    """
+    move = np.abs(pos[cell + 1] - pos[cell])
+    largest = -np.sort(-move)[:FAR_MOVERS]
+    k = int(np.argmin(4 * largest + np.arange(largest.size)))
+    return int(largest[k]), np.nonzero(move > largest[k])[0]
+
+
+def _windows(order, places, ra, i, side):
+    """Groups of corridors ``i`` and the corridors near each that can change order with it.
+
+    A pair whose order reverses between two adjacent grid rows ra and rb
+    lies at most ``m_i + m_j`` places apart in either row's order (``m`` the
+    places each moves between the rows); a pair whose relation changes
+    through the tie rule alone lies within one run of tied neighbours
+    (``T``, the longest tied run of the two rows). With the cell's far
+    movers (:func:`_far_movers`, moving more than ``d``) taken as partner
+    candidates of every corridor, a corridor ``i`` that moves at most ``d``
+    needs only the corridors within ``W = m_i + d + T + 1`` places of it in
+    row ra: those form one group, the window of each its row of
+    corridors (i itself past the ends), then the far movers (i itself where
+    a cell has fewer). The far movers narrowed themselves form a second
+    group, with ``W = 2 D + T + 1`` (``D`` the largest move of the cell).
+    ``places`` is (place of each corridor in each row's order, each row's
+    longest tied run, each pair of adjacent rows' largest move). A window is
+    None where it would cover most corridors anyway.
+
+    Yields
+    ------
+    i : ndarray of int
+        The group's corridors.
+    window : ndarray of int, shape (len(i), q), or None
+        Candidate partners per corridor (duplicates possible).
     """
     pos, runs, moves = places
     n = order.shape[1]
+    rb = ra + side
     cell = np.minimum(ra, rb)  # adjacent rows: moves[r] is between rows r and r + 1
-    width = 2 * int(moves[cell].max()) + int(np.maximum(runs[ra], runs[rb]).max()) + 1
-    if 2 * width + 1 >= n // 2:
-        return None
-    offsets = np.arange(-width, width + 1)
-    at = pos[ra, i][:, None] + offsets[None, :]
-    inside = (at >= 0) & (at < n)
-    got = order[ra[:, None], np.clip(at, 0, n - 1)]
-    return np.where(inside, got, i[:, None])
+    tie = int(np.maximum(runs[ra], runs[rb]).max())
+    own = np.abs(pos[rb, i] - pos[ra, i])
+    split = {int(c): _far_movers(pos, int(c)) for c in np.unique(cell)}
+    d = np.array([split[int(c)][0] for c in cell])
+    near = own <= d
+    groups = []
+    if near.any():
+        width = int((own[near] + d[near]).max()) + tie + 1
+        far = np.full((int(near.sum()), max(len(v[1]) for v in split.values())), -1)
+        for row, c in enumerate(cell[near]):
+            movers = split[int(c)][1]
+            far[row, : movers.size] = movers
+        groups.append((near, width, far))
+    if not near.all():
+        groups.append((~near, 2 * int(moves[cell[~near]].max()) + tie + 1, None))
+    for sel, width, far in groups:
+        ii, rr = i[sel], ra[sel]
+        if 2 * width + 1 + (0 if far is None else far.shape[1]) >= n // 2:
+            yield ii, None
+            continue
+        offsets = np.arange(-width, width + 1)
+        at = pos[rr, ii][:, None] + offsets[None, :]
+        inside = (at >= 0) & (at < n)
+        got = np.where(inside, order[rr[:, None], np.clip(at, 0, n - 1)], ii[:, None])
+        if far is not None:
+            got = np.concatenate([got, np.where(far >= 0, far, ii[:, None])], axis=1)
+        yield ii, got
 
 
 def _narrow(scorer, x, w, c, i, a, b, ga, gb, rank0, cols):
