@@ -10,7 +10,7 @@ import pytest
 MODULES = ["batch", "acceptability", "tipping", "reversal", "consensus", "scenarios"]
 
 
-@pytest.mark.parametrize("name", MODULES + [""])
+@pytest.mark.parametrize("name", MODULES + ["run"])
 def test_docstring_examples(name):
     module = importlib.import_module("ranker.stress" + (f".{name}" if name else ""))
     result = doctest.testmod(module, optionflags=doctest.NORMALIZE_WHITESPACE)

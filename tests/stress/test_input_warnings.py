@@ -17,8 +17,8 @@ from hypothesis import strategies as st
 from ranker.report.words import Namer
 from ranker.report.words.stress import stress_warnings
 from ranker.score.topsis import topsis
-from ranker.stress import _input_warnings
 from ranker.stress.batch import Scorer
+from ranker.stress.run import _input_warnings
 
 
 def _reference_dominant(y: np.ndarray) -> list[int]:
