@@ -171,7 +171,7 @@ def _where_and_label(key: str, result) -> tuple[str, str, str]:
     from .workbook.schema import SHEETS
 
     inputs = result.inputs
-    labels = {c.key: c.label or c.key for c in inputs.criteria}
+    labels = _criterion_labels(inputs.criteria)
     kind, _, rest = key.partition(":")
     if kind == "a":
         a = ASSUMPTIONS.get(rest)
@@ -233,6 +233,16 @@ _ORDER = {"o": 0, "a": 1, "c": 2, "w": 3, "r": 4, "b": 5, "j": 6}
 def compare(previous: dict | None, current: dict, result=None) -> dict:
     """Return what changed from ``previous`` to ``current`` (two :func:`run_state` dicts).
 
+    Parameters
+    ----------
+    previous : dict or None
+        The state the last run left (None or empty: there was none).
+    current : dict
+        This run's state.
+    result : Result, optional
+        This run's result, to name each changed input by cell, label and unit
+        (without it an input is named by its state key).
+
     Returns
     -------
     dict
@@ -242,60 +252,103 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
         ``old_rank``, ``new_rank``, ``old_tier``, ``new_tier``); all empty
         when ``previous`` is None.
     """
-    from .assumptions import current_key
-    from .report.sheets import criterion_unit
-
-    out: dict = {"inputs": [], "criteria": [], "moved": []}
     if not previous:
-        return out
-    labels = {}
-    if result is not None:
-        labels = {c.key: c.label or c.key for c in result.criteria}
-    # A previous state may name an assumption by its former key (``current_key``).
-    old_in = {
-        (f"a:{current_key(k[2:])}" if k.startswith("a:") else k): v
-        for k, v in (previous.get("inputs") or {}).items()
-    }
+        return {"inputs": [], "criteria": [], "moved": []}
+    old_in = _previous_inputs(previous)
     new_in = current.get("inputs") or {}
     before = {r["corridor_id"]: r for r in previous.get("ranking", [])}
     now = {r["corridor_id"]: r for r in current.get("ranking", [])}
-    old_ids = {k.split(":")[1] for k in old_in if k.startswith("r:") and k.endswith(":name")}
-    new_ids = {k.split(":")[1] for k in new_in if k.startswith("r:") and k.endswith(":name")}
-    if not old_in:  # an older state: only the ranked corridors are known
+    if old_in:
+        old_ids, new_ids = _corridor_ids(old_in), _corridor_ids(new_in)
+    else:  # an older state: only the ranked corridors are known
         old_ids, new_ids = set(before), set(now)
-    changed = []
-    for key in new_in.keys() & old_in.keys():
-        if key.startswith("r:") and key.split(":")[1] not in old_ids:
-            continue
-        if _differ(old_in[key], new_in[key]):
-            changed.append(key)
-    for key in new_in.keys() - old_in.keys():
-        if key.startswith("o:--weight:"):
-            changed.append(key)
-    for key in old_in.keys() - new_in.keys():
-        if key.startswith("o:--weight:"):
-            changed.append(key)
-    changed.sort(key=lambda k: (_ORDER.get(k[0], 9), k))
-    for key in changed:
-        cell, label, unit = _where_and_label(key, result) if result is not None else (key, key, "")
-        out["inputs"].append(
-            {
-                "cell": cell,
-                "label": label,
-                "old": old_in.get(key),
-                "new": new_in.get(key),
-                "unit": _unit(unit),
-            }
-        )
-    for cid in sorted(new_ids - old_ids):
+    inputs = [
+        _input_change(key, old_in, new_in, result)
+        for key in _changed_keys(old_in, new_in, old_ids)
+    ]
+    inputs += _corridors_added(new_ids - old_ids, new_in, now, result)
+    inputs += _corridors_removed(old_ids - new_ids, old_in, before)
+    both = [cid for cid in now if cid in before]  # in the current ranking's order
+    labels = _criterion_labels(result.criteria) if result is not None else {}
+    return {
+        "inputs": inputs,
+        "criteria": _value_changes(both, before, now, labels),
+        "moved": _moves(both, before, now),
+    }
+
+
+def _criterion_labels(criteria) -> dict[str, str]:
+    """Return each criterion's label (its key where it has none), by key."""
+    return {c.key: c.label or c.key for c in criteria}
+
+
+def _previous_inputs(previous: dict) -> dict[str, object]:
+    """Return the previous state's input values, assumptions under their current keys.
+
+    A previous state may name an assumption by its former key
+    (:func:`ranker.assumptions.current_key`).
+    """
+    from .assumptions import current_key
+
+    return {
+        (f"a:{current_key(k[2:])}" if k.startswith("a:") else k): v
+        for k, v in (previous.get("inputs") or {}).items()
+    }
+
+
+def _corridor_ids(values: dict[str, object]) -> set[str]:
+    """Return the corridor ids of a state's input values (each has an ``r:ID:name`` key)."""
+    return {k.split(":")[1] for k in values if k.startswith("r:") and k.endswith(":name")}
+
+
+def _changed_keys(old_in: dict, new_in: dict, old_ids: set[str]) -> list[str]:
+    """Return the keys of the input values that changed, in the order people read them.
+
+    A value kept in both states counts when it differs (:func:`_differ`); a
+    corridor's value only when the corridor was there before (a new
+    corridor is one change of its own). A ``--weight`` choice counts when
+    given in one run only. Sorted by kind (:data:`_ORDER`), then key.
+    """
+
+    def known_before(key: str) -> bool:
+        return not key.startswith("r:") or key.split(":")[1] in old_ids
+
+    kept = new_in.keys() & old_in.keys()
+    changed = [k for k in kept if known_before(k) and _differ(old_in[k], new_in[k])]
+    changed += [key for key in new_in.keys() ^ old_in.keys() if key.startswith("o:--weight:")]
+    return sorted(changed, key=lambda k: (_ORDER.get(k[0], 9), k))
+
+
+def _input_change(key: str, old_in: dict, new_in: dict, result) -> dict:
+    """Return one changed input: its cell, label, old and new value and unit."""
+    cell, label, unit = _where_and_label(key, result) if result is not None else (key, key, "")
+    return {
+        "cell": cell,
+        "label": label,
+        "old": old_in.get(key),
+        "new": new_in.get(key),
+        "unit": _unit(unit),
+    }
+
+
+def _corridors_added(ids: set[str], new_in: dict, now: dict, result) -> list[dict]:
+    """Return one input change per corridor added, by id, named by its ``corridor_id`` cell."""
+    out = []
+    for cid in sorted(ids):
         name = new_in.get(f"r:{cid}:name", (now.get(cid) or {}).get("name", cid))
         cell = result.inputs.where("Corridors", "corridor_id", cid) if result else "Corridors"
-        out["inputs"].append(
+        out.append(
             {"cell": cell, "label": f"corridor added: {name}", "old": None, "new": cid, "unit": ""}
         )
-    for cid in sorted(old_ids - new_ids):
+    return out
+
+
+def _corridors_removed(ids: set[str], old_in: dict, before: dict) -> list[dict]:
+    """Return one input change per corridor removed, by id (it has no cell any more)."""
+    out = []
+    for cid in sorted(ids):
         name = old_in.get(f"r:{cid}:name", (before.get(cid) or {}).get("name", cid))
-        out["inputs"].append(
+        out.append(
             {
                 "cell": "Corridors",
                 "label": f"corridor removed: {name}",
@@ -304,13 +357,24 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
                 "unit": "",
             }
         )
-    for cid in [c for c in now if c in before]:
+    return out
+
+
+def _value_changes(both: list[str], before: dict, now: dict, labels: dict) -> list[dict]:
+    """Return the criterion values that moved, for corridors ranked in both runs.
+
+    A value missing (None) in either run is not compared.
+    """
+    from .report.sheets import criterion_unit
+
+    out = []
+    for cid in both:
         a, b = before[cid].get("criteria", {}), now[cid].get("criteria", {})
         for key in [k for k in b if k in a]:
             x, y = a[key], b[key]
             if x is None or y is None or not _differ(x, y):
                 continue
-            out["criteria"].append(
+            out.append(
                 {
                     "corridor_id": cid,
                     "criterion": key,
@@ -320,11 +384,20 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
                     "unit": _unit(criterion_unit(key)),
                 }
             )
-    for cid in [c for c in now if c in before]:
+    return out
+
+
+def _moves(both: list[str], before: dict, now: dict) -> list[dict]:
+    """Return the corridors whose rank or tier changed, best new rank first.
+
+    A tier counts only when both runs give one.
+    """
+    out = []
+    for cid in both:
         r0, r1 = before[cid]["rank"], now[cid]["rank"]
         t0, t1 = before[cid].get("tier"), now[cid].get("tier")
         if r0 != r1 or (t0 is not None and t1 is not None and t0 != t1):
-            out["moved"].append(
+            out.append(
                 {
                     "corridor_id": cid,
                     "name": now[cid].get("name", cid),
@@ -334,8 +407,7 @@ def compare(previous: dict | None, current: dict, result=None) -> dict:
                     "new_tier": t1,
                 }
             )
-    out["moved"].sort(key=lambda m: (m["new_rank"], m["corridor_id"]))
-    return out
+    return sorted(out, key=lambda m: (m["new_rank"], m["corridor_id"]))
 
 
 def describe(

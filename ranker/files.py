@@ -182,52 +182,97 @@ def write_all_atomic(files: dict[Path, bytes]) -> None:
     """
     for path in files:
         check_replaceable(path)
-    mode = _default_mode()
-    temps: dict[Path, str] = {}
-    backups: dict[Path, Path] = {}
-    moved: list[Path] = []
-    current: Path | None = None
+    batch = _Batch(_default_mode())
     try:
         for path, data in files.items():
-            current = path
-            fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-            temps[path] = tmp
-            with os.fdopen(fd, "wb") as f:
-                if hasattr(os, "fchmod"):
-                    os.fchmod(f.fileno(), mode)  # mkstemp makes 0600; outputs are shared
-                f.write(data)
-                f.flush()
-                os.fsync(f.fileno())
-        for path, tmp in temps.items():
-            current = path
-            if path.exists():
-                backups[path] = _keep_aside(path)
-            # Counted as moved first: a signal landing just after the move must still undo it.
-            moved.append(path)
-            os.replace(tmp, path)
+            batch.write_aside(path, data)
+        for path in files:
+            batch.move_into_place(path)
     except BaseException as exc:  # undo on any failure, then report it
-        for path in moved:
-            if path in backups:
-                bak = backups.pop(path)
-                try:
-                    if os.path.samefile(bak, path):  # never moved: the old file is in place
-                        _remove(bak)
-                    else:
-                        os.replace(bak, path)
-                except OSError:  # keep the hidden copy rather than lose the old output
-                    pass
+        batch.undo()
+        if isinstance(exc, OSError):
+            raise os_error(exc, batch.current) from exc
+        raise
+    batch.drop_backups()
+
+
+class _Batch:
+    """The files of one :func:`write_all_atomic` call, on their way into place.
+
+    Attributes
+    ----------
+    mode : int
+        Permission bits each new file gets.
+    temps : dict
+        Target to the hidden temporary file holding its new bytes.
+    backups : dict
+        Target to the hidden copy of the output it replaces (:func:`_keep_aside`).
+    moved : list of Path
+        Targets whose move into place has begun, in order.
+    current : Path or None
+        The target of the step under way (the one a failure names).
+    """
+
+    def __init__(self, mode: int):
+        self.mode = mode
+        self.temps: dict[Path, str] = {}
+        self.backups: dict[Path, Path] = {}
+        self.moved: list[Path] = []
+        self.current: Path | None = None
+
+    def write_aside(self, path: Path, data: bytes) -> None:
+        """Write ``data`` to a hidden temporary file beside ``path``, flushed to disk."""
+        self.current = path
+        fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+        self.temps[path] = tmp
+        with os.fdopen(fd, "wb") as f:
+            if hasattr(os, "fchmod"):
+                os.fchmod(f.fileno(), self.mode)  # mkstemp makes 0600; outputs are shared
+            f.write(data)
+            f.flush()
+            os.fsync(f.fileno())
+
+    def move_into_place(self, path: Path) -> None:
+        """Keep the existing output at ``path`` aside, then move the new file over it."""
+        self.current = path
+        if path.exists():
+            self.backups[path] = _keep_aside(path)
+        # Counted as moved first: a signal landing just after the move must still undo it.
+        self.moved.append(path)
+        os.replace(self.temps[path], path)
+
+    def undo(self) -> None:
+        """Put every replaced output back, remove new outputs and every hidden file."""
+        for path in self.moved:
+            if path in self.backups:
+                _put_back(self.backups.pop(path), path)
             else:
                 _remove(path)
-        for path, bak in backups.items():
-            if path not in moved:  # the old output is still in place
-                _remove(bak)
-        for tmp in temps.values():
+        for bak in self.backups.values():  # outputs never moved: still in place
+            _remove(bak)
+        for tmp in self.temps.values():
             _remove(tmp)
-        if isinstance(exc, OSError):
-            raise os_error(exc, current) from exc
-        raise
-    for bak in backups.values():
-        _remove(bak)
+
+    def drop_backups(self) -> None:
+        """Remove the hidden copies of the replaced outputs (all files are in place)."""
+        for bak in self.backups.values():
+            _remove(bak)
+
+
+def _put_back(bak: Path, path: Path) -> None:
+    """Move the output kept aside at ``bak`` back to ``path``.
+
+    Where the move never happened (``bak`` is still a link to the file at
+    ``path``) the copy is only removed; where putting it back fails, the
+    hidden copy is kept rather than the old output lost.
+    """
+    try:
+        if os.path.samefile(bak, path):
+            _remove(bak)
+        else:
+            os.replace(bak, path)
+    except OSError:
+        pass
 
 
 def os_error(exc: OSError, path: Path | None = None) -> InputError:

@@ -116,3 +116,71 @@ def test_former_assumption_key_in_previous_state():
     assert compare(a, same)["inputs"] == []
     (change,) = compare(a, moved)["inputs"]
     assert (change["cell"], change["old"], change["new"]) == ("a:site_spacing_mi", 50.0, 40.0)
+
+
+def test_an_older_state_without_inputs_compares_the_ranked_corridors():
+    """A state that kept no input values: corridors added and removed come from the ranking."""
+    a = _state({}, {"A": 1, "B": 2}, {"A": {}, "B": {}})
+    b = _state({}, {"A": 1, "N": 2}, {"A": {}, "N": {}}, inputs={"r:A:name": "a", "a:k": 3.0})
+    assert compare(a, b)["inputs"] == [
+        {"cell": "Corridors", "label": "corridor added: n", "old": None, "new": "N", "unit": ""},
+        {"cell": "Corridors", "label": "corridor removed: b", "old": "B", "new": None, "unit": ""},
+    ]
+
+
+def test_removed_corridor_is_named_from_the_previous_inputs_and_its_values_not_listed():
+    a = _state(
+        {}, {"A": 1}, {"A": {}}, inputs={"r:A:name": "a", "r:Z:name": "Zed", "r:Z:len": 4.0}
+    )
+    b = _state({}, {"A": 1}, {"A": {}}, inputs={"r:A:name": "a"})
+    (removed,) = compare(a, b)["inputs"]
+    assert removed == {
+        "cell": "Corridors",
+        "label": "corridor removed: Zed",
+        "old": "Z",
+        "new": None,
+        "unit": "",
+    }
+
+
+def test_weight_choice_in_one_run_only_and_the_order_people_read():
+    """A --weight given in one run only counts; changes read options, assumptions,
+    criteria settings, weights, corridors, budget, readiness; a nudge of 1e-13 is no change."""
+    old = {"o:--weight:x": 0.4, "j:N": 50, "b:2030": 1.0, "r:A:name": "a", "r:A:len": 5.0}
+    old |= {"w:s:x": 10, "c:x:at_least": None, "a:k": 1.0, "a:same": 2.0, "o:--seed": 1}
+    new = {"o:--weight:y": 0.3, "j:N": 60, "b:2030": 2.0, "r:A:name": "a", "r:A:len": 6.0}
+    new |= {"w:s:x": 20, "c:x:at_least": 3.0, "a:k": 2.0, "a:same": 2.0 * (1 + 1e-13)}
+    new |= {"o:--seed": 1}
+    a = _state({}, {"A": 1}, {"A": {}}, inputs=old)
+    b = _state({}, {"A": 1}, {"A": {}}, inputs=new)
+    got = [(c["cell"], c["old"], c["new"]) for c in compare(a, b)["inputs"]]
+    assert got == [
+        ("o:--weight:x", 0.4, None),
+        ("o:--weight:y", None, 0.3),
+        ("a:k", 1.0, 2.0),
+        ("c:x:at_least", None, 3.0),
+        ("w:s:x", 10, 20),
+        ("r:A:len", 5.0, 6.0),
+        ("b:2030", 1.0, 2.0),
+        ("j:N", 50, 60),
+    ]
+
+
+def test_values_and_tiers_missing_in_one_run_are_not_changes():
+    a = _state(
+        {},
+        {"A": 1, "B": 2, "C": 3},
+        {"A": {"x": None, "y": 1.0}, "B": {"x": 1.0}, "C": {"x": 2.0}},
+        tiers={"A": 1, "B": None, "C": 1},
+    )
+    b = _state(
+        {},
+        {"A": 1, "B": 2, "C": 3},
+        {"A": {"x": 5.0, "y": 1.0}, "B": {"x": None}, "C": {"x": 2.0, "z": 9.0}},
+        tiers={"A": 1, "B": 2, "C": 2},
+    )
+    out = compare(a, b)
+    assert out["criteria"] == []  # a blank on either side, or a value new this run
+    assert [(m["corridor_id"], m["old_tier"], m["new_tier"]) for m in out["moved"]] == [
+        ("C", 1, 2)  # B's tier is unknown before: not a move
+    ]

@@ -315,121 +315,225 @@ def _columns() -> dict[str, str]:
 def build_network(
     features, where: str, *, id_property=None, name_property=None, join_m: float = JOIN_M
 ) -> Network:
-    """Turn checked features into Corridors, Places and Geometry rows (see :func:`read_network`)."""
-    problems: list[Problem] = []
+    """Turn checked features into Corridors, Places and Geometry rows (see :func:`read_network`).
+
+    Parameters
+    ----------
+    features : list of (str, dict or None, dict)
+        Label, GeoJSON geometry and properties of each feature, as the file
+        lists them.
+    where : str
+        The file's name, for a problem with the file as a whole.
+    id_property, name_property : str, optional
+        As for :func:`read_network`.
+    join_m : float
+        Line ends closer than this are one place [m].
+
+    Returns
+    -------
+    Network
+
+    Raises
+    ------
+    InputError
+        With one problem per bad feature (at most :data:`MAX_PROBLEMS`).
+    """
     if not features:
         raise InputError.one(
             where, "holds no features", "export a layer with one line per corridor"
         )
     net = Network()
     columns = _columns()
-    seen: dict[str, str] = {}
-    ignored: set[str] = set()
-    lengths_given = False
+    unused = _Unused()
     ends = _Ends(join_m)
-    place_of: list[int] = []
+    seen: dict[str, str] = {}
+    place_of: list[int] = []  # the place of each corridor's first end, then its last end
+    problems: list[Problem] = []
     for label, geom, props in features:
         if len(problems) >= MAX_PROBLEMS:
             break
         parts, bad = _lines(label, geom)
+        if bad is None:
+            id_key, cid, bad = _corridor_id(label, props, id_property, seen)
         if bad is not None:
             problems.append(bad)
             continue
-        id_key, cid = _find(props, id_property, ID_PROPERTIES)
-        if cid is None and not id_property:
-            cid = props.get("\0feature_id")
-        if cid is None or not str(cid).strip():
-            looked = id_property or ", ".join(ID_PROPERTIES)
-            problems.append(
-                Problem(
-                    label,
-                    f"has no corridor id (looked for the property {looked}"
-                    + ("" if id_property else " and the Feature's id")
-                    + ")",
-                    "give every feature a corridor_id property, or name the property that "
-                    "holds it with --id-property NAME",
-                )
-            )
-            continue
-        cid = str(cid).strip()
-        if cid.casefold() in seen:
-            problems.append(
-                Problem(
-                    label,
-                    f"corridor id {cid!r} is used twice (also {seen[cid.casefold()]})",
-                    "give each corridor its own id, or merge the two features into one "
-                    "MultiLineString",
-                )
-            )
-            continue
         seen[cid.casefold()] = label.rsplit(": ", 1)[-1]
         name_key, name = _find(props, name_property, NAME_PROPERTIES)
-        row: dict[str, object] = {
+        row = {
             "corridor_id": cid,
             "name": str(name).strip() if name is not None else cid,
             "connects": None,
             "length_mi": line_length_mi(parts),
         }
-        for k, v in props.items():
-            if k.startswith("\0") or k in (id_key, name_key):
-                continue
-            nk = normalize_key(k)
-            if nk in ("length_mi", "length_km"):
-                lengths_given = True
-                continue
-            if nk in columns and isinstance(v, (int, float)) and not isinstance(v, bool):
-                if math.isfinite(v):
-                    row[columns[nk]] = float(v)
-            elif isinstance(v, (int, float)) and not isinstance(v, bool):
-                ignored.add(k)
+        row.update(_numeric_columns(props, (id_key, name_key), columns, unused))
         net.corridors.append(row)
-        for j, pts in enumerate(parts, start=1):
-            net.geometry.extend(
-                {"corridor_id": cid, "part": j, "lon": lon, "lat": lat} for lon, lat in pts
-            )
-        for end in (parts[0][0], parts[-1][-1]):
-            place_of.append(ends.join(end))
+        net.geometry.extend(_points(cid, parts))
+        place_of += [ends.join(parts[0][0]), ends.join(parts[-1][-1])]
     if problems:
         raise InputError(problems)
-    width = max(2, len(str(len(ends.points))))
-    for k, (lon, lat) in enumerate(ends.points):
-        p = f"P{k + 1:0{width}d}"
-        net.places.append({"place": p, "name": p, "lat": lat, "lon": lon})
-    for i, row in enumerate(net.corridors):
-        a, b = place_of[2 * i], place_of[2 * i + 1]
-        if a != b:
-            row["connects"] = f"{net.places[a]['place']}-{net.places[b]['place']}"
-        else:
-            net.notes.append(
-                f"Corridor {row['corridor_id']} begins and ends at one place (a loop); its "
-                "connects is left blank."
-            )
-    twins = {f.twin: f.key for f in SHEETS[T.CORRIDORS].fields if f.twin}
-    for row in net.corridors:
-        for twin, canon in twins.items():
-            if twin in row and canon in row:
-                del row[twin]
-                net.notes.append(
-                    f"Corridor {row['corridor_id']} gives both {canon} and {twin}; {canon} "
-                    "was taken."
-                )
-    if lengths_given:
-        net.notes.append(
-            "length_mi comes from each line's geodesic length on WGS 84; the file's own length "
-            "property was not used (type road lengths over it if you prefer them)."
-        )
-    if ignored:
-        net.notes.append(
-            "Numeric properties that are not Corridors columns were not taken over: "
-            + ", ".join(sorted(ignored)[:12])
-            + (" ..." if len(ignored) > 12 else "")
-            + "."
-        )
+    net.places = _places(ends.points)
+    net.notes += _connect(net.corridors, net.places, place_of)
+    net.notes += _one_of_each_twin(net.corridors)
+    net.notes += unused.notes()
     net.notes.append(
         f"{len(net.places)} places from the line ends (ends within {join_m:g} m are one place); "
         "rename them on Places (and in connects) as people know them."
     )
     return net
+
+
+def _corridor_id(
+    label: str, props: dict, id_property: str | None, seen: dict[str, str]
+) -> tuple[str | None, str | None, Problem | None]:
+    """Return the property holding a feature's corridor id, the id, or the problem with it.
+
+    The id is the first property of :data:`ID_PROPERTIES` that holds one (or
+    the one ``id_property`` names), else the Feature's own ``id`` member;
+    it must not be one an earlier feature used, ignoring case (``seen``
+    holds those, casefolded, with the feature that used each).
+    """
+    id_key, cid = _find(props, id_property, ID_PROPERTIES)
+    if cid is None and not id_property:
+        cid = props.get("\0feature_id")
+    if cid is None or not str(cid).strip():
+        looked = id_property or ", ".join(ID_PROPERTIES)
+        return (
+            None,
+            None,
+            Problem(
+                label,
+                f"has no corridor id (looked for the property {looked}"
+                + ("" if id_property else " and the Feature's id")
+                + ")",
+                "give every feature a corridor_id property, or name the property that "
+                "holds it with --id-property NAME",
+            ),
+        )
+    cid = str(cid).strip()
+    if cid.casefold() in seen:
+        return (
+            None,
+            None,
+            Problem(
+                label,
+                f"corridor id {cid!r} is used twice (also {seen[cid.casefold()]})",
+                "give each corridor its own id, or merge the two features into one "
+                "MultiLineString",
+            ),
+        )
+    return id_key, cid, None
+
+
+@dataclass
+class _Unused:
+    """Properties of the features that the template does not take over.
+
+    Attributes
+    ----------
+    length : bool
+        Some feature gave its own length (the line's geodesic length is used).
+    numeric : set of str
+        Names of numeric properties that are not Corridors columns.
+    """
+
+    length: bool = False
+    numeric: set[str] = field(default_factory=set)
+
+    def notes(self) -> list[str]:
+        """Return the notes for the planner saying what was not taken over."""
+        out = []
+        if self.length:
+            out.append(
+                "length_mi comes from each line's geodesic length on WGS 84; the file's own "
+                "length property was not used (type road lengths over it if you prefer them)."
+            )
+        if self.numeric:
+            out.append(
+                "Numeric properties that are not Corridors columns were not taken over: "
+                + ", ".join(sorted(self.numeric)[:12])
+                + (" ..." if len(self.numeric) > 12 else "")
+                + "."
+            )
+        return out
+
+
+def _numeric_columns(props: dict, taken: tuple, columns: dict[str, str], unused: _Unused) -> dict:
+    """Return the Corridors columns a feature's numeric properties fill [column units].
+
+    Properties in ``taken`` (the id and the name) and the reader's own
+    (their names start with NUL) are skipped; a length property, a numeric
+    property that is no column (:func:`_columns`) and non-finite numbers are
+    not taken over, and the first two are recorded in ``unused``.
+    """
+    out: dict[str, float] = {}
+    for k, v in props.items():
+        if k.startswith("\0") or k in taken:
+            continue
+        nk = normalize_key(k)
+        if nk in ("length_mi", "length_km"):
+            unused.length = True
+        elif not isinstance(v, (int, float)) or isinstance(v, bool):
+            continue
+        elif nk not in columns:
+            unused.numeric.add(k)
+        elif math.isfinite(v):
+            out[columns[nk]] = float(v)
+    return out
+
+
+def _points(cid: str, parts: list[list[tuple[float, float]]]) -> list[dict]:
+    """Return the Geometry rows of one corridor's line: one per point, parts from 1 [deg]."""
+    return [
+        {"corridor_id": cid, "part": j, "lon": lon, "lat": lat}
+        for j, pts in enumerate(parts, start=1)
+        for lon, lat in pts
+    ]
+
+
+def _places(points: list[tuple[float, float]]) -> list[dict]:
+    """Return the Places rows of the joined line ends, named P01, P02, ... [deg]."""
+    width = max(2, len(str(len(points))))
+    out = []
+    for k, (lon, lat) in enumerate(points):
+        p = f"P{k + 1:0{width}d}"
+        out.append({"place": p, "name": p, "lat": lat, "lon": lon})
+    return out
+
+
+def _connect(corridors: list[dict], places: list[dict], place_of: list[int]) -> list[str]:
+    """Set each corridor's ``connects`` to the places of its two ends; return notes on loops.
+
+    ``place_of`` holds the index in ``places`` of each corridor's first end,
+    then its last end. A corridor whose two ends are one place (a loop)
+    keeps a blank ``connects``.
+    """
+    notes = []
+    for i, row in enumerate(corridors):
+        a, b = place_of[2 * i], place_of[2 * i + 1]
+        if a != b:
+            row["connects"] = f"{places[a]['place']}-{places[b]['place']}"
+        else:
+            notes.append(
+                f"Corridor {row['corridor_id']} begins and ends at one place (a loop); its "
+                "connects is left blank."
+            )
+    return notes
+
+
+def _one_of_each_twin(corridors: list[dict]) -> list[str]:
+    """Drop a metric twin (``climb_m``) where its imperial field is also given; return notes."""
+    twins = {f.twin: f.key for f in SHEETS[T.CORRIDORS].fields if f.twin}
+    notes = []
+    for row in corridors:
+        for twin, canon in twins.items():
+            if twin in row and canon in row:
+                del row[twin]
+                notes.append(
+                    f"Corridor {row['corridor_id']} gives both {canon} and {twin}; {canon} "
+                    "was taken."
+                )
+    return notes
 
 
 class _Ends:

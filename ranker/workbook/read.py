@@ -30,6 +30,7 @@ import io
 import re
 import warnings
 from pathlib import Path
+from typing import NamedTuple
 
 import openpyxl
 import pandas as pd
@@ -270,40 +271,101 @@ def _merge_problems(grid, part, problems) -> None:
 
 
 def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str]) -> Inputs:
-    """Type every sheet and cross-check them; return Inputs (path and hash unset)."""
+    """Type every sheet and cross-check them; return Inputs (path and hash unset).
+
+    Parameters
+    ----------
+    grids : dict of str to Grid
+        The cells of each contract sheet found, by sheet name.
+    problems : Problems
+        Where every problem goes.
+    warnings : list of str
+        Where doubtful but legal input goes.
+
+    Returns
+    -------
+    Inputs
+        The tables typed so far; complete only when ``problems`` is empty.
+
+    Notes
+    -----
+    The sheets are read in an order where every cross-check finds what it
+    needs already read: the corridors and where they run, then the settings,
+    the criteria, the places and lines, last the build plan's inputs and the
+    formulas no field reported.
+    """
     inputs = Inputs(path=Path(), sha256="", corridors=pd.DataFrame(), criteria=[], weight_sets=[])
+    tables = _tables(grids, problems, inputs)
+    corridors = _read_corridor_sheet(tables, problems, inputs)
+    _read_jurisdiction_sheets(tables, problems, inputs, corridors.frame)
+    _read_settings(tables, problems, inputs, warnings)
+    _read_criteria_sheets(grids, tables, problems, inputs, warnings, corridors)
+    _read_positions(tables, problems, inputs, corridors.frame)
+    _plan_inputs.check_plan_inputs(inputs, tables, problems)
+    for grid in grids.values():
+        _sheets.formula_outside(grid, problems)
+    return inputs
+
+
+def _tables(grids: dict[str, _sheets.Grid], problems: Problems, inputs: Inputs) -> dict:
+    """Resolve the header of every table sheet; return the tables whose headers are in row 1.
+
+    Each table's column letters go to ``inputs.columns``. A sheet whose
+    headers stand lower has one problem saying so and is read no further.
+    """
     tables: dict[str, _sheets.Table] = {}
     for name, grid in grids.items():
         if SHEETS[name].layout == "table":
             table = _sheets.read_header(grid, problems)
-            if table.misplaced:  # one problem says where the headers are; read no further
+            if table.misplaced:
                 continue
             tables[name] = table
-            inputs.columns[name] = dict(tables[name].letters)
-    # Where Corridors cannot be read, criteria keys and corridor ids are not cross-checked
-    # (numeric is None), so one missing sheet or header does not echo through the others.
-    numeric: set[str] | None = None
-    text_cols: dict[str, str] = {}
-    corridors = None
-    if T.CORRIDORS in tables:
-        t = tables[T.CORRIDORS]
-        inputs.corridors, numeric, text_cols = _sheets.read_corridors(t, problems, inputs)
-        if "corridor_id" in t.cols:
-            corridors = inputs.corridors
-        else:
-            numeric = None
+            inputs.columns[name] = dict(table.letters)
+    return tables
+
+
+class _Corridors(NamedTuple):
+    """What the other sheets' cross-checks need from the Corridors sheet.
+
+    Where the sheet cannot be read (missing, or no corridor_id column),
+    ``frame`` and ``numeric`` are None and criteria keys and corridor ids
+    are not cross-checked, so one missing sheet or header does not echo
+    through the others.
+    """
+
+    #: The corridors, indexed by id (None: ids cannot be checked).
+    frame: pd.DataFrame | None
+    #: Numeric columns a criterion may name (None: not checked).
+    numeric: set[str] | None
+    #: Columns read as text, with the first cell that is not a number.
+    text_cols: dict[str, str]
+
+
+def _read_corridor_sheet(tables: dict, problems: Problems, inputs: Inputs) -> _Corridors:
+    """Type the Corridors sheet into ``inputs.corridors``; return what cross-checks need."""
+    t = tables.get(T.CORRIDORS)
+    if t is None:
+        return _Corridors(None, None, {})
+    inputs.corridors, numeric, text_cols = _sheets.read_corridors(t, problems, inputs)
+    if "corridor_id" not in t.cols:
+        return _Corridors(None, None, text_cols)
+    return _Corridors(inputs.corridors, numeric, text_cols)
+
+
+def _read_jurisdiction_sheets(tables: dict, problems: Problems, inputs: Inputs, corridors):
+    """Type Jurisdictions and Corridor miles (each corridor's miles by jurisdiction)."""
     if T.JURISDICTIONS in tables:
         inputs.jurisdictions = _sheets.read_jurisdictions(
             tables[T.JURISDICTIONS], problems, inputs
         )
     if T.CORRIDOR_MILES in tables:
         inputs.corridor_miles = _sheets.read_corridor_miles(
-            tables[T.CORRIDOR_MILES],
-            problems,
-            inputs,
-            corridors,
-            inputs.jurisdictions,
+            tables[T.CORRIDOR_MILES], problems, inputs, corridors, inputs.jurisdictions
         )
+
+
+def _read_settings(tables: dict, problems: Problems, inputs: Inputs, warnings: list[str]):
+    """Type Assumptions, Adoption, Budget and Scenarios (budget years checked on analysis_year)."""
     if T.ASSUMPTIONS in tables:
         inputs.assumptions = _assumption_sheets.read_assumptions(
             tables[T.ASSUMPTIONS], problems, inputs, warnings
@@ -314,32 +376,37 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
         )
     if T.BUDGET in tables:
         inputs.budget = _sheets.read_by_year(tables[T.BUDGET], problems, inputs, "capital_usd")
-    if inputs.budget is not None and T.BUDGET in tables:
-        _budget_before_start(inputs, tables[T.BUDGET], warnings)
+        if inputs.budget is not None:
+            _budget_before_start(inputs, tables[T.BUDGET], warnings)
     if T.SCENARIOS in tables:
         inputs.scenarios = _assumption_sheets.read_scenarios(tables[T.SCENARIOS], problems, inputs)
-    if T.CRITERIA in tables:
-        read_criteria(
-            tables[T.CRITERIA],
-            problems,
-            inputs,
-            warnings,
-            numeric=numeric,
-            text_cols=text_cols,
-            corridor_table=tables.get(T.CORRIDORS),
-        )
-    if T.PAIRWISE in grids and T.CRITERIA in tables:
+
+
+def _read_criteria_sheets(grids, tables, problems, inputs, warnings, corridors: _Corridors):
+    """Type Criteria (its keys checked on the Corridors columns), then the Pairwise matrix."""
+    if T.CRITERIA not in tables:
+        return
+    read_criteria(
+        tables[T.CRITERIA],
+        problems,
+        inputs,
+        warnings,
+        numeric=corridors.numeric,
+        text_cols=corridors.text_cols,
+        corridor_table=tables.get(T.CORRIDORS),
+    )
+    if T.PAIRWISE in grids:
         inputs.pairwise = read_pairwise(grids[T.PAIRWISE], problems, inputs)
+
+
+def _read_positions(tables: dict, problems: Problems, inputs: Inputs, corridors) -> None:
+    """Type Places (the places of connects checked) and Geometry (the corridors' lines)."""
     if T.PLACES in tables:
         inputs.places = _places.read_places(tables[T.PLACES], problems, inputs)
         if inputs.places is not None and T.CORRIDORS in tables:
             _places.check_connects_places(tables[T.CORRIDORS], inputs.places, problems)
     if T.GEOMETRY in tables:
         inputs.geometry = _places.read_geometry(tables[T.GEOMETRY], problems, inputs, corridors)
-    _plan_inputs.check_plan_inputs(inputs, tables, problems)
-    for grid in grids.values():
-        _sheets.formula_outside(grid, problems)
-    return inputs
 
 
 def _budget_before_start(inputs: Inputs, table, warnings: list[str]) -> None:

@@ -306,7 +306,20 @@ def _frame(recs: list[dict], keys: list[str]) -> pd.DataFrame:
 
 
 def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
-    """Type the Corridors sheet; return the DataFrame and each extra column's kind."""
+    """Type the Corridors sheet; return the DataFrame and each extra column's kind.
+
+    Returns
+    -------
+    DataFrame
+        Index ``corridor_id``; ``name``, ``connects`` (when the sheet has
+        it), the schema's numeric columns [their units], then every extra
+        column, numeric or text.
+    set of str
+        The numeric columns (a criterion may name one).
+    dict of str to str
+        Each extra column read as text, with its first cell that is not a
+        number and why (``Corridors!J3: ...``).
+    """
     recs = read_records(t, problems)
     unique(t, recs, "corridor_id", problems)
     if not recs:
@@ -314,45 +327,13 @@ def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
             f"{t.sheet}!A2", "the sheet lists no corridors", "type one corridor per row from row 2"
         )
     if "connects" in t.cols:
-        for rec in recs:
-            text = rec.get("connects")
-            if text:
-                try:
-                    S.split_connects(text)
-                except ValueError as exc:
-                    problems.add(
-                        t.where("connects", rec["_row"]),
-                        f"connects {U.show(text)} does not name two places",
-                        str(exc),
-                    )
-    # A column the schema does not know is numeric when every filled cell is a number.
-    text_cols: dict[str, str] = {}
+        _check_connects(t, recs, problems)
     extra_values: dict[str, list] = {}
+    text_cols: dict[str, str] = {}
     for key, col in t.extra.items():
-        vals, bad = [], None
-        for rec in recs:
-            cell = t.grid.get(rec["_row"], col)
-            if cell is None:
-                vals.append(float("nan"))
-                continue
-            try:
-                vals.append(U.parse_number(raw(cell), percent="share", pct_format=cell.pct))
-            except U.TooLarge as exc:  # a number all the same: name its cell, not the column
-                problems.add(ref(t.sheet, col, rec["_row"]), f"{key} {exc.what}", exc.fix)
-                vals.append(float("nan"))
-            except CellValueError as exc:
-                bad = bad or (ref(t.sheet, col, rec["_row"]), exc)
-                vals.append(None)
-        if bad is None:
-            extra_values[key] = vals
-        else:
-            text_cols[key] = bad[0] + ": " + bad[1].what
-            extra_values[key] = [
-                None
-                if (c := t.grid.get(rec["_row"], col)) is None or c.kind in "fe"
-                else U.parse_text(c.value)
-                for rec in recs
-            ]
+        extra_values[key], not_a_number = _extra_column(t, key, col, recs, problems)
+        if not_a_number is not None:
+            text_cols[key] = not_a_number
     keys = ["name"] + (["connects"] if "connects" in t.cols else [])
     keys += [f.key for f in S.CORRIDOR_FIELDS[3:] if f.key in t.cols]
     df = _frame(recs, ["corridor_id"] + keys)
@@ -360,10 +341,7 @@ def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
         if k != "connects":
             df[k] = pd.to_numeric(df[k], errors="coerce").astype(float)
     for key, vals in extra_values.items():
-        if key in text_cols:
-            df[key] = pd.Series(vals, dtype=object)
-        else:
-            df[key] = pd.Series(vals, dtype=float)
+        df[key] = pd.Series(vals, dtype=object if key in text_cols else float)
     df = df.set_index("corridor_id")
     df.index = df.index.astype(object)
     df.index.name = "corridor_id"
@@ -373,6 +351,63 @@ def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
     numeric = {k for k in keys if k not in ("name", "connects")}
     numeric |= {k for k in extra_values if k not in text_cols}
     return df, numeric, text_cols
+
+
+def _check_connects(t: Table, recs: list[dict], problems: Problems) -> None:
+    """Report each ``connects`` that does not name two places (``PlaceA-PlaceB``)."""
+    for rec in recs:
+        text = rec.get("connects")
+        if text:
+            try:
+                S.split_connects(text)
+            except ValueError as exc:
+                problems.add(
+                    t.where("connects", rec["_row"]),
+                    f"connects {U.show(text)} does not name two places",
+                    str(exc),
+                )
+
+
+def _extra_column(
+    t: Table, key: str, col: int, recs: list[dict], problems: Problems
+) -> tuple[list, str | None]:
+    """Type a column the schema does not know: numbers when every filled cell is one.
+
+    Returns
+    -------
+    list
+        One value per record: numbers (NaN where blank) [-, shares as
+        fractions of one], or, when some cell is not a number, the text of
+        each cell (None where blank or a formula or error value).
+    str or None
+        None for a numeric column; else the first cell that is not a number
+        and why (``Corridors!J3: ...``).
+
+    A number too large for any quantity is a problem of its own cell
+    whatever the column's kind.
+    """
+    vals: list = []
+    first_bad: str | None = None
+    for rec in recs:
+        cell = t.grid.get(rec["_row"], col)
+        if cell is None:
+            vals.append(float("nan"))
+            continue
+        try:
+            vals.append(U.parse_number(raw(cell), percent="share", pct_format=cell.pct))
+        except U.TooLarge as exc:  # a number all the same: name its cell, not the column
+            problems.add(ref(t.sheet, col, rec["_row"]), f"{key} {exc.what}", exc.fix)
+            vals.append(float("nan"))
+        except CellValueError as exc:
+            first_bad = first_bad or f"{ref(t.sheet, col, rec['_row'])}: {exc.what}"
+    if first_bad is None:
+        return vals, None
+    return [_text_or_none(t.grid.get(rec["_row"], col)) for rec in recs], first_bad
+
+
+def _text_or_none(cell: Cell | None) -> str | None:
+    """Return a cell's text; None when blank, a formula without value or an error value."""
+    return None if cell is None or cell.kind in "fe" else U.parse_text(cell.value)
 
 
 def read_jurisdictions(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import math
 import sys
 
 import numpy as np
@@ -11,7 +12,8 @@ import pytest
 from geographiclib.geodesic import Geodesic
 
 from ranker.cli import main
-from ranker.geo.importer import JOIN_M, read_network
+from ranker.errors import InputError
+from ranker.geo.importer import JOIN_M, MAX_PROBLEMS, build_network, read_network
 
 # Three corridors of an invented network: A1 and A2 meet (A2 starts 14 m from A1's end, within
 # the joining tolerance), A3 returns to A1's start in two parts.
@@ -264,3 +266,85 @@ def test_joining_ends_by_latitude_band_equals_the_search_over_all_earlier_ends()
                 assert got == len(seen) - 1
             else:
                 assert got == expect
+
+
+def _features(*props_and_lines):
+    """(label, geometry, properties) per feature, as the readers hand them on."""
+    return [
+        (f"net.geojson: features[{i}]", {"type": "LineString", "coordinates": line}, props)
+        for i, (props, line) in enumerate(props_and_lines)
+    ]
+
+
+def test_what_is_not_taken_over_is_said_in_notes():
+    """A loop, a metric twin beside its imperial field, the file's own length, and numeric
+    properties that are no Corridors column each get one note; non-finite numbers and
+    yes/no values are not taken over."""
+    loop = [[10.0, 45.0], [10.2, 45.1], [10.0, 45.0]]
+    many = {f"p{k:02d}": k for k in range(13)}
+    feats = _features(
+        (
+            {"corridor_id": "L1", "climb_ft": 800, "climb_m": 200, "Length_KM": 3, **many},
+            loop,
+        ),
+        ({"corridor_id": "L2", "descent_m": 30.5, "grid_headroom_mw": math.nan}, A2),
+        ({"corridor_id": "L3", "trucks_per_day": math.inf, "flag": True, "note": 4.0}, A1),
+    )
+    net = build_network(feats, "net.geojson")
+    assert net.corridors[0]["connects"] is None
+    assert "climb_m" not in net.corridors[0] and net.corridors[0]["climb_ft"] == 800.0
+    assert net.corridors[1]["descent_m"] == 30.5  # a twin alone is kept as typed
+    assert "grid_headroom_mw" not in net.corridors[1]
+    assert "trucks_per_day" not in net.corridors[2] and "flag" not in net.corridors[2]
+    assert net.notes == [
+        "Corridor L1 begins and ends at one place (a loop); its connects is left blank.",
+        "Corridor L1 gives both climb_ft and climb_m; climb_ft was taken.",
+        "length_mi comes from each line's geodesic length on WGS 84; the file's own length "
+        "property was not used (type road lengths over it if you prefer them).",
+        "Numeric properties that are not Corridors columns were not taken over: note, "
+        + ", ".join(f"p{k:02d}" for k in range(11))
+        + " ....",  # the first 12 names in sorted order, then an ellipsis
+        "4 places from the line ends (ends within 50 m are one place); rename them on Places "
+        "(and in connects) as people know them.",
+    ]
+    # A1 ends 14 m from where A2 starts: one place
+    assert [c["connects"] for c in net.corridors[1:]] == ["P02-P03", "P04-P02"]
+
+
+def test_places_and_points_in_the_order_met():
+    feats = _features(({"corridor_id": "A1", "name": "  Alder  "}, A1), ({"code": "A2"}, A2))
+    net = build_network(feats, "net.geojson", join_m=10.0)  # A1's end and A2's start stay apart
+    assert [(c["corridor_id"], c["name"]) for c in net.corridors] == [
+        ("A1", "Alder"),
+        ("A2", "A2"),  # no name: the id
+    ]
+    assert net.places == [
+        {"place": f"P0{k + 1}", "name": f"P0{k + 1}", "lon": lon, "lat": lat}
+        for k, (lon, lat) in enumerate([A1[0], A1[-1], A2[0], A2[-1]])
+    ]
+    assert [(p["corridor_id"], p["part"], p["lon"]) for p in net.geometry] == [
+        ("A1", 1, A1[0][0]),
+        ("A1", 1, A1[1][0]),
+        ("A1", 1, A1[2][0]),
+        ("A2", 1, A2[0][0]),
+        ("A2", 1, A2[1][0]),
+    ]
+
+
+def test_a_named_id_property_has_no_fallback_to_the_feature_id():
+    feats = _features(({"\0feature_id": "F1", "corridor_id": "C1"}, A1))
+    with pytest.raises(InputError) as err:
+        build_network(feats, "net.geojson", id_property="route")
+    (p,) = err.value.problems
+    assert p.what == "has no corridor id (looked for the property route)"
+    net = build_network(_features(({"\0feature_id": "F1", "code": "  "}, A1)), "net.geojson")
+    assert net.corridors[0]["corridor_id"] == "F1"  # a blank id property: the Feature's id
+
+
+def test_problems_stop_at_the_cap_and_a_bad_line_is_not_also_checked_for_its_id():
+    bad_line = [[1.0, 2.0]]
+    feats = _features(*[({}, bad_line)] * (MAX_PROBLEMS + 5))
+    with pytest.raises(InputError) as err:
+        build_network(feats, "net.geojson")
+    assert len(err.value.problems) == MAX_PROBLEMS
+    assert {p.what for p in err.value.problems} == {"has a line with fewer than two positions"}

@@ -504,3 +504,48 @@ def test_nothing_written_to_the_input(valid):
     assert valid.read_bytes() == before
     wb = openpyxl.load_workbook(valid)
     assert wb.sheetnames == list(valid_sheets())
+
+
+def _problems(path) -> list[str]:
+    with pytest.raises(InputError) as err:
+        read_workbook(path)
+    return [str(p) for p in err.value.problems]
+
+
+def test_without_a_corridor_id_column_other_sheets_are_not_cross_checked(tmp_path):
+    """One missing header gives one problem: criteria keys, Corridor miles and Geometry ids
+    are not checked against corridors that cannot be told apart."""
+    data = valid_sheets()
+    data["Geometry"] = [["corridor_id", "part", "lon", "lat"], ["C9", 1, 10.0, 45.0]]
+    data["Geometry"].append(["C9", 1, 10.1, 45.1])
+    assert _problems(write_book(tmp_path / "a.xlsx", data)) == [
+        "Geometry!A2: corridor_id 'C9' is not on the Corridors sheet; use a corridor_id from "
+        "Corridors, or delete the rows of this line",
+        "Geometry!A3: corridor_id 'C9' is not on the Corridors sheet; use a corridor_id from "
+        "Corridors, or delete the rows of this line",
+    ]
+    data["Corridors"][0][0] = "corridor_code"
+    assert _problems(write_book(tmp_path / "b.xlsx", data)) == [
+        "Corridors!1:1: no column headed corridor_id; rename the header corridor_code to "
+        "corridor_id, or add a column headed corridor_id in row 1"
+    ]
+
+
+def test_pairwise_and_places_are_not_checked_against_a_missing_sheet(tmp_path):
+    """Without Criteria the Pairwise matrix is not read; without Corridors the places of
+    connects are not looked up on Places."""
+    assert _problems(book_with(tmp_path / "a.xlsx", drop=("Criteria",))) == [
+        "Criteria: the workbook has no sheet named Criteria; add a sheet named Criteria"
+    ]
+    data = valid_sheets()
+    data["Places"] = [["place", "name", "lat", "lon"], ["Northport", "North port", 45.0, 10.0]]
+    with_corridors = _problems(write_book(tmp_path / "b.xlsx", data))
+    assert [p.split(":")[0] for p in with_corridors] == [
+        "Corridors!C2",
+        "Corridors!C3",
+        "Corridors!C4",
+    ]  # Lakeside and Hillcrest are not on Places
+    del data["Corridors"], data["Corridor miles"]
+    assert _problems(write_book(tmp_path / "c.xlsx", data)) == [
+        "Corridors: the workbook has no sheet named Corridors; add a sheet named Corridors"
+    ]

@@ -10,6 +10,7 @@ International Yard and Pound Agreement, 1959).
 from __future__ import annotations
 
 import datetime as dt
+import math
 import re
 from pathlib import Path
 
@@ -332,3 +333,32 @@ def test_formula_outside_names_only_cells_not_yet_reported():
     got = _by_where(problems)
     assert set(got) == {"Corridors!B2", "Corridors!C1"}
     assert got["Corridors!C1"].what == "formula =Y1 has no saved value"
+
+
+def test_read_corridors_extra_columns_of_each_kind():
+    """An extra column with a blank is numeric (NaN there); one holding a formula without a
+    value or an error value is text, blank there; a number too large for any quantity is
+    named by its cell whatever the column's kind."""
+    g = _grid(
+        "Corridors",
+        [
+            ["corridor_id", "name", "gaps", "calc", "mixed"],
+            ["C1", "Alpha", 1, ("=B2", "f"), 5e20],
+            ["C2", "Bravo", None, 3, "word"],
+            ["C3", "Cobalt", "12%", ("#N/A", "e"), None],
+        ],
+    )
+    problems, inputs = Problems(), _inputs()
+    t = W.read_header(g, problems)
+    df, numeric, text_cols = W.read_corridors(t, problems, inputs)
+    assert df["gaps"].dtype == float and df["gaps"].tolist()[::2] == pytest.approx([1.0, 0.12])
+    assert math.isnan(df.loc["C2", "gaps"])
+    assert df["calc"].dtype == object and df["calc"].tolist() == [None, "3", None]
+    assert df["mixed"].tolist() == ["5e+20", "word", None]
+    assert numeric == {"gaps"}
+    assert text_cols == {
+        "calc": "Corridors!D2: formula =B2 has no saved value",
+        "mixed": "Corridors!E3: holds 'word' where a number belongs",
+    }
+    (p,) = problems.items
+    assert p.where == "Corridors!E2" and p.what.startswith("mixed holds 5e+20, larger than any")
