@@ -261,12 +261,7 @@ def _lines(label: str, geom) -> tuple[list[list[tuple[float, float]]] | None, Pr
     for run in runs:
         pts = []
         for k, pos in enumerate(run):
-            ok = (
-                isinstance(pos, list)
-                and len(pos) >= 2
-                and all(isinstance(c, (int, float)) and not isinstance(c, bool) for c in pos[:2])
-                and all(math.isfinite(c) for c in pos[:2])
-            )
+            ok = isinstance(pos, list) and len(pos) >= 2 and all(_finite(c) for c in pos[:2])
             if not ok:
                 return None, Problem(
                     label, f"position {k} is not [longitude, latitude]", "give numbers, lon first"
@@ -477,9 +472,20 @@ def _numeric_columns(props: dict, taken: tuple, columns: dict[str, str], unused:
             continue
         elif nk not in columns:
             unused.numeric.add(k)
-        elif math.isfinite(v):
+        elif _finite(v):
             out[columns[nk]] = float(v)
     return out
+
+
+def _finite(v) -> bool:
+    """True for a JSON number (not a boolean) that is a finite float; an integer too
+    large for a float is not (``math.isfinite`` would raise on it)."""
+    if not isinstance(v, (int, float)) or isinstance(v, bool):
+        return False
+    try:
+        return math.isfinite(v)
+    except OverflowError:
+        return False
 
 
 def _points(cid: str, parts: list[list[tuple[float, float]]]) -> list[dict]:

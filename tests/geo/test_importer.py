@@ -158,6 +158,12 @@ BAD = {
         "features[0]",
         "fewer than two positions",
     ),
+    "integer too large for a float": (
+        network(features=[_feature({"type": "LineString", "coordinates": [[10**400, 2.0],
+                                                                         [1.1, 2.1]]})]),
+        "features[0]",
+        "position 0 is not [longitude, latitude]",
+    ),
     "projected crs": (
         network(crs={"type": "name", "properties": {"name": "urn:ogc:def:crs:EPSG::32610"}}),
         "crs",
@@ -348,3 +354,12 @@ def test_problems_stop_at_the_cap_and_a_bad_line_is_not_also_checked_for_its_id(
         build_network(feats, "net.geojson")
     assert len(err.value.problems) == MAX_PROBLEMS
     assert {p.what for p in err.value.problems} == {"has a line with fewer than two positions"}
+
+
+def test_an_integer_too_large_for_a_float_in_a_property_is_not_taken(tmp_path):
+    """A property value beyond float range is left out like NaN, not an internal error."""
+    doc = network()
+    doc["features"][0]["properties"]["trucks_per_day"] = 10**400
+    src = write(tmp_path, doc)
+    out = tmp_path / "t.xlsx"
+    assert main(["template", str(out), "--from", str(src)]) == 0
