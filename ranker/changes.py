@@ -202,12 +202,11 @@ def _where_and_label(key: str, result) -> tuple[str, str, str]:
         unit = fields[name].unit if name in fields else ""
         return inputs.where(T.CORRIDORS, name, cid), f"{name} of {cid}", unit
     if kind == "b":
-        rows = inputs.rows.get(T.BUDGET, {})
-        return (
-            inputs.where(T.BUDGET, "capital_usd", int(rest)) if rows else T.BUDGET,
-            (f"budget for {rest}"),
-            "USD",
-        )
+        # The Budget rows are keyed by the years' sorted position (read_by_year).
+        years = [] if inputs.budget is None else [int(y) for y in inputs.budget["year"]]
+        at = years.index(int(rest)) if int(rest) in years else None
+        where = inputs.where(T.BUDGET, "capital_usd", at) if at is not None else T.BUDGET
+        return where, f"budget for {rest}", "USD"
     if kind == "j":
         return inputs.where(T.JURISDICTIONS, "readiness", rest), f"readiness of {rest}", ""
     if rest == "--weights":

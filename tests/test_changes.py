@@ -184,3 +184,30 @@ def test_values_and_tiers_missing_in_one_run_are_not_changes():
     assert [(m["corridor_id"], m["old_tier"], m["new_tier"]) for m in out["moved"]] == [
         ("C", 1, 2)  # B's tier is unknown before: not a move
     ]
+
+
+def test_a_budget_change_names_its_cell(tmp_path):
+    """Re-running after editing one budget year names that year's Budget cell (the
+    Budget rows are keyed by the years' sorted position, not by the year)."""
+    import json
+
+    from openpyxl import load_workbook
+
+    from ranker.cli import main
+    from ranker.demo import write_demo
+
+    src = write_demo(tmp_path)
+    assert main(["run", str(src), "--samples", "50", "--quiet"]) == 0
+    wb = load_workbook(src)
+    ws = wb["Budget"]
+    row = next(r for r in range(2, ws.max_row + 1) if ws.cell(r, 1).value == 2029)
+    ws.cell(row, 2).value += 1_000_000
+    wb.save(src)
+    out = tmp_path / "summary.json"
+    with out.open("w") as fh:
+        import contextlib
+
+        with contextlib.redirect_stdout(fh):
+            assert main(["run", str(src), "--samples", "50", "--json"]) == 0
+    changes = json.loads(out.read_text())["changes_since_last_run"]
+    assert any(c.startswith(f"Budget!B{row}, budget for 2029") for c in changes), changes
