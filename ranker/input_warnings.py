@@ -1,11 +1,14 @@
-"""The warnings of the derive and score stages, as records: every kind declared once.
+"""The run's warnings outside the stress stage, as records: every kind declared once.
 
-A stage that meets doubtful-but-legal input appends a record ``{"kind", ...}``
-made by :func:`warning`, with the numbers and ids the reader needs (plain
-``str``, ``int``, ``float``, lists of them: JSON-ready). The words are written
-by :mod:`ranker.report.words.inputs`, reached through
+A stage that meets doubtful-but-legal input (or a limit of its own, like the
+optimiser's time limit) returns a record ``{"kind", ...}`` made by
+:func:`warning`, with the numbers and ids the reader needs (plain ``str``,
+``int``, ``float``, ``bool``, ``None``, lists of them: JSON-ready). The words
+are written by :mod:`ranker.report.words.inputs` (the plan's kinds by
+:mod:`ranker.report.words.plan`), reached through
 :func:`ranker.report.narrative.input_warnings`; the stress stage's own kinds
-are :data:`ranker.stress.WARNING_KINDS`.
+are :data:`ranker.stress.WARNING_KINDS`. The reader's warnings about the file
+itself (hidden sheets, formula cells) are sentences written at the edge.
 """
 
 from __future__ import annotations
@@ -46,9 +49,49 @@ WARNING_KINDS: dict[str, tuple[str, ...]] = {
     "normalisation_needs_non_negative": ("method", "normalisation", "criteria"),
     # Weighted product: ``criteria`` with values <= 0, shifted.
     "weighted_product_shifted": ("criteria",),
+    # -- derive: revenue (ranker.derive.run.energy_cap_warnings) ---------------------------
+    # The ports cap the energy sold: ``corridors`` (ids, earliest first) from ``from_years``
+    # [year] on, through ``last_year`` [year] (None when not known).
+    "energy_capped": ("corridors", "from_years", "last_year"),
+    # -- score: full credit and diagnostics (ranker.pipeline) -------------------------------
+    # ``count`` corridors past the full-credit ``level`` (criterion's unit) of ``criterion``;
+    # ``benefit``: True above the level, False below it.
+    "full_credit_binds": ("criterion", "count", "level", "benefit"),
+    # ``criterion`` carries ``share`` [-] of the spread of the weighted scores, above ``limit``.
+    "dominant_spread": ("criterion", "share", "limit"),
+    # Criteria ``a`` and ``b`` with Spearman ``rho`` [-] beyond +-``limit``.
+    "correlated_pair": ("a", "b", "rho", "limit"),
     # -- the run (ranker.pipeline) ---------------------------------------------------------
     "robustness_skipped_no_weight": (),
     "robustness_skipped_one_corridor": (),
+    # -- plan: the budget and the optimiser (ranker.plan.phasing) -------------------------
+    "budget_zero": (),
+    # ``corridors`` (ids) cost ``costs`` [USD] each, more than the ``total`` budget [USD].
+    "never_fundable": ("corridors", "costs", "total"),
+    # ``corridors`` cost more than the ``largest`` year's budget [USD], with neither
+    # budget_carry_over nor allow_split.
+    "over_any_year": ("corridors", "largest"),
+    # ``corridors`` add zero or less to the ``objective`` (key of ranker.plan.OBJECTIVES).
+    "adds_nothing": ("corridors", "objective"),
+    # No Budget row for ``years`` between the first and the last.
+    "budget_years_missing": ("years",),
+    "optimiser_plan_infeasible": (),
+    # Stopped at ``time_limit_s`` [s]; ``gap`` [-] of the plan shown (None: not bounded).
+    "optimiser_time_limit": ("time_limit_s", "gap"),
+    # Stopped with the solver's ``message``; ``shows_greedy``: the greedy plan is shown.
+    "optimiser_unfinished": ("message", "shows_greedy"),
+    # -- plan: the coverage view (ranker.plan.phasing, coverage) --------------------------
+    "endpoints_without_connects_column": (),
+    "no_connects": (),
+    "endpoints_without_connects": (),
+    # ``places`` of coverage_endpoints that no planned corridor connects.
+    "endpoints_not_planned": ("places",),
+    # coverage_endpoints names fewer than two ``places``.
+    "endpoints_too_few": ("places",),
+    # -- the map (ranker.geo.network) ------------------------------------------------------
+    "places_unused": (),
+    # ``corridors`` (ids, sheet order) without a position.
+    "corridors_unplaced": ("corridors",),
 }
 
 

@@ -12,6 +12,7 @@ import numbers
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import pandas as pd
 
@@ -20,6 +21,10 @@ from .errors import InputError, Problem, Problems
 from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
+
+if TYPE_CHECKING:  # annotations only
+    from .derive.run import Derivation
+    from .score.weights import ResolvedWeights
 
 #: Most Monte Carlo samples a run takes (memory grows with samples x corridors).
 MAX_SAMPLES = 1_000_000
@@ -87,9 +92,13 @@ def rank_inputs(
     progress: Callable[[int, int], None] | None = None,
     started: str | None = None,
 ) -> Result:
-    """Rank already-read inputs; see :func:`rank_workbook`."""
+    """Rank already-read inputs; see :func:`rank_workbook`.
+
+    Every stage returns its warnings as records; they are put in words here,
+    through :mod:`ranker.report.narrative`, in the order the stages ran.
+    """
     from .input_warnings import warning
-    from .report.narrative import input_warnings
+    from .report.narrative import input_warnings, inputs_namer, robustness_warnings
     from .score import score_matrix
 
     if samples < 0:
@@ -109,22 +118,23 @@ def rank_inputs(
     assumptions, matrix, kept = p.assumptions, p.scored, p.kept
     warnings = list(p.warnings)
     included = inputs.included
+    namer = inputs_namer(inputs)  # corridor names and criterion labels for the words
     chosen = choose_weight_set(p.weight_sets, weights)
     used, overrides = apply_overrides(chosen, weight_overrides, included)
     if overrides:
         from .score.override import small_share_warnings
 
-        warnings.extend(input_warnings(small_share_warnings(overrides)))
+        warnings.extend(input_warnings(small_share_warnings(overrides), namer))
 
     stage(progress, "scoring")
     scores = score_matrix(matrix.loc[kept], included, used, assumptions)
-    warnings.extend(input_warnings(scores.warnings))
+    warnings.extend(input_warnings(scores.warnings, namer))
     diagnostics = _diagnostics(matrix.loc[kept], scores)
-    warnings.extend(_diagnostic_warnings(diagnostics, included))
+    warnings.extend(input_warnings(diagnostic_warnings(diagnostics), namer))
 
     robustness = None
     if len(kept) >= 2 and not any(w > 0 for w in scores.weights.values()):
-        warnings.extend(input_warnings([warning("robustness_skipped_no_weight")]))
+        warnings.extend(input_warnings([warning("robustness_skipped_no_weight")], namer))
     elif len(kept) >= 2:
         stage(progress, "robustness: samples, rank-reversal checks, tipping points")
         robustness = _stress(
@@ -139,21 +149,20 @@ def rank_inputs(
             seed,
             progress,
         )
-        warnings.extend(_stress_warnings(robustness, inputs, included))
+        warnings.extend(robustness_warnings(robustness.warnings, namer))
     else:
-        warnings.extend(input_warnings([warning("robustness_skipped_one_corridor")]))
+        warnings.extend(input_warnings([warning("robustness_skipped_one_corridor")], namer))
 
     futures = None
     if inputs.scenarios is not None and len(inputs.scenarios):
         stage(progress, "futures of the Scenarios sheet")
         futures = _futures(inputs, used, scores)
-        warnings.extend(futures.get("warnings", []))
 
     plan = None
     if inputs.budget is not None and len(inputs.budget):
         stage(progress, "build plan under the budget")
         plan = _plan(inputs, assumptions, matrix.loc[kept], scores, p.derivation, robustness)
-        warnings.extend(plan.warnings)
+        warnings.extend(input_warnings(plan.warnings, namer))
 
     from .geo.network import network_warnings
 
@@ -183,7 +192,9 @@ def rank_inputs(
         started=started,
     )
     # The positions are found once, by Result.network, for these warnings and the outputs.
-    result.warnings = _unique(warnings + network_warnings(result.network, inputs))
+    result.warnings = _unique(
+        warnings + input_warnings(network_warnings(result.network, inputs), namer)
+    )
     return result
 
 
@@ -194,10 +205,11 @@ class Prepared:
     assumptions: dict
     matrix: pd.DataFrame
     provenance: dict[str, str]
-    derivation: object | None
+    derivation: Derivation | None
     kept: pd.Index
     excluded: list[dict]
-    weight_sets: list
+    weight_sets: list[ResolvedWeights]
+    #: Every warning so far in words (the reader's own, then the stages' records worded).
     warnings: list[str]
     #: The matrix every method scores: values past a full-credit level clipped to it.
     scored: pd.DataFrame | None = None
@@ -210,12 +222,8 @@ def prepare(inputs: Inputs) -> Prepared:
 
     Shared by ``ranker check`` (which stops here) and ``ranker run``.
     """
-    from .report.narrative import (
-        energy_cap_warnings,
-        input_warnings,
-        saturation_warnings,
-        word_consistency,
-    )
+    from .derive.run import energy_cap_warnings
+    from .report.narrative import input_warnings, inputs_namer, word_consistency
     from .score.saturation import full_credit_levels, saturate, saturated_counts
     from .score.screen import screen
     from .score.weights import resolve_weight_sets
@@ -240,20 +248,16 @@ def prepare(inputs: Inputs) -> Prepared:
     # Objective (entropy, CRITIC) sets describe the corridors actually scored.
     sets = resolve_weight_sets(inputs, scored.loc[kept], assumptions)
     word_consistency(sets)
-    warnings = list(inputs.warnings)
+    warnings = list(inputs.warnings)  # the reader's own, about the file: already words
+    namer = inputs_namer(inputs)
     if derivation is not None:
-        warnings.extend(input_warnings(derivation.warnings))
+        warnings.extend(input_warnings(derivation.warnings, namer))
     for s in sets:
-        warnings.extend(input_warnings(s.warnings))
+        warnings.extend(input_warnings(s.warnings, namer))
     if derivation is not None:
-        warnings.extend(energy_cap_warnings(derivation.sizing, inputs.corridors["name"]))
-    warnings.extend(
-        saturation_warnings(
-            saturated_counts(matrix.loc[kept], inputs.included, levels),
-            levels,
-            {c.key: c for c in inputs.included},
-        )
-    )
+        warnings.extend(input_warnings(energy_cap_warnings(derivation.sizing), namer))
+    counts = saturated_counts(matrix.loc[kept], inputs.included, levels)
+    warnings.extend(input_warnings(full_credit_warnings(counts, levels, inputs.included), namer))
     return Prepared(
         assumptions,
         matrix,
@@ -391,10 +395,68 @@ def _diagnostics(matrix: pd.DataFrame, scores) -> dict:
     return {"spread_share": {k: float(v) for k, v in shares.items()}, "correlated": pairs}
 
 
-def _diagnostic_warnings(diagnostics: dict, included) -> list[str]:
-    from .report.narrative import diagnostic_warnings
+def diagnostic_warnings(diagnostics: dict) -> list[dict]:
+    """Return the records of one criterion carrying most of the spread, and of strongly
+    rank-correlated pairs (:mod:`ranker.score.diagnostics`).
 
-    return diagnostic_warnings(diagnostics, {c.key: c.label for c in included})
+    Parameters
+    ----------
+    diagnostics : dict
+        ``spread_share`` (criterion to its share of the spread [-]) and
+        ``correlated`` (pairs ``{"a", "b", "rho"}`` beyond the threshold), as
+        :attr:`ranker.result.Result.diagnostics` holds them.
+
+    Returns
+    -------
+    list of dict
+        ``dominant_spread`` for each share above
+        :data:`~ranker.score.diagnostics.DOMINANT_SHARE`, then ``correlated_pair``
+        for each pair (:data:`ranker.input_warnings.WARNING_KINDS`).
+    """
+    from .input_warnings import warning
+    from .score.diagnostics import DOMINANT_SHARE, STRONG_RHO
+
+    out = [
+        warning("dominant_spread", criterion=key, share=float(share), limit=DOMINANT_SHARE)
+        for key, share in diagnostics.get("spread_share", {}).items()
+        if share > DOMINANT_SHARE
+    ]
+    out += [
+        warning("correlated_pair", a=p["a"], b=p["b"], rho=float(p["rho"]), limit=STRONG_RHO)
+        for p in diagnostics.get("correlated", [])
+    ]
+    return out
+
+
+def full_credit_warnings(
+    counts: Mapping[str, int], levels: Mapping[str, float], included: list[CriterionSpec]
+) -> list[dict]:
+    """Return a ``full_credit_binds`` record for each criterion whose full-credit level
+    caps at least one corridor (:mod:`ranker.score.saturation`).
+
+    Parameters
+    ----------
+    counts : mapping of str to int
+        Criterion key to the corridors past its level [-].
+    levels : mapping of str to float
+        Criterion key to its full-credit level (criterion's unit).
+    included : list of CriterionSpec
+        The included criteria (their direction says above or below).
+    """
+    from .input_warnings import warning
+
+    spec = {c.key: c for c in included}
+    return [
+        warning(
+            "full_credit_binds",
+            criterion=key,
+            count=int(count),
+            level=float(levels[key]),
+            benefit=bool(spec[key].is_benefit),
+        )
+        for key, count in counts.items()
+        if count
+    ]
 
 
 def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]:
@@ -405,14 +467,6 @@ def effective_weights(included: list[CriterionSpec], scores) -> dict[str, float]
     rescaled them to, so these weights reproduce every score.
     """
     return {c.key: float(scores.weights.get(c.key, 0.0)) for c in included}
-
-
-def _stress_warnings(robustness, inputs, included) -> list[str]:
-    from .report.words import Namer
-    from .report.words.stress import stress_warnings
-
-    names = inputs.corridors["name"].astype(str).to_dict()
-    return stress_warnings(robustness.warnings, Namer(names, {c.key: c.label for c in included}))
 
 
 def _stress(matrix, included, scores, used, sets, assumptions, inputs, samples, seed, progress):

@@ -6,8 +6,15 @@ import numpy as np
 import pytest
 
 import ranker
-from ranker.pipeline import build_matrix, check_workbook, prepare
+from ranker.pipeline import (
+    build_matrix,
+    check_workbook,
+    diagnostic_warnings,
+    full_credit_warnings,
+    prepare,
+)
 from ranker.workbook.read import read_workbook
+from ranker.workbook.tables import CriterionSpec
 
 from .conftest import DIRECT_CORRIDORS, DIRECT_CRITERIA, make_workbook
 
@@ -58,3 +65,58 @@ def test_given_column_overrides_derivation(tmp_path):
 def test_check_summarises_without_ranking(direct_workbook):
     line = check_workbook(direct_workbook)
     assert "4 corridors" in line and "3 criteria" in line
+
+
+def test_diagnostic_records_past_the_documented_thresholds():
+    """0.5 of the spread and |rho| 0.8 (ranker.score.diagnostics, pinned there): a share
+    of exactly 0.5 is not above it; every strong pair the score stage kept is one record."""
+    diag = {
+        "spread_share": {"a": 0.6, "b": 0.5},
+        "correlated": [{"a": "a", "b": "b", "rho": -0.93}],
+    }
+    assert diagnostic_warnings(diag) == [
+        {"kind": "dominant_spread", "criterion": "a", "share": 0.6, "limit": 0.5},
+        {"kind": "correlated_pair", "a": "a", "b": "b", "rho": -0.93, "limit": 0.8},
+    ]
+    assert diagnostic_warnings({}) == []
+
+
+def test_full_credit_records_only_where_the_level_binds():
+    included = [
+        CriterionSpec("freight_share", "Freight share", "benefit"),
+        CriterionSpec("cost_musd", "Cost", "cost"),
+        CriterionSpec("grid_headroom", "Grid headroom", "benefit"),
+    ]
+    got = full_credit_warnings(
+        {"freight_share": 2, "cost_musd": 1, "grid_headroom": 0},
+        {"freight_share": 0.4, "cost_musd": 9.0, "grid_headroom": 5000.0},
+        included,
+    )
+    assert got == [
+        {
+            "kind": "full_credit_binds",
+            "criterion": "freight_share",
+            "count": 2,
+            "level": 0.4,
+            "benefit": True,
+        },
+        {"kind": "full_credit_binds", "criterion": "cost_musd", "count": 1, "level": 9.0,
+         "benefit": False},
+    ]  # fmt: skip
+    assert full_credit_warnings({}, {}, included) == []
+
+
+def test_the_runs_warnings_are_words_of_records_in_stage_order(tmp_path):
+    """A run whose stages each warn: the score stage's words come before the stress
+    stage's, and both before the plan's (the order the stages ran)."""
+    from tests.workbook.wbfill import valid_sheets, write_book
+
+    data = valid_sheets()
+    data["Budget"] = [["year", "capital_usd"], [2027, 0], [2028, 0]]
+    result = ranker.rank_workbook(write_book(tmp_path / "in.xlsx", data), samples=0)
+    w = result.warnings
+    assert all(isinstance(x, str) for x in w)
+    correlated = next(i for i, x in enumerate(w) if "strongly rank-correlated" in x)
+    monte_carlo = next(i for i, x in enumerate(w) if x.startswith("Monte Carlo is off"))
+    budget = w.index("Budget: the budget is zero in every year, so nothing can be funded.")
+    assert correlated < monte_carlo < budget

@@ -17,6 +17,8 @@ Data flow, one module per model::
 ``InputError`` listing everything missing), runs the models, and returns a
 :class:`Derivation` holding the criteria, every intermediate number, the
 adoption path, and the unit and meaning of every column.
+:func:`energy_cap_warnings` turns the years the ports cap the energy sold
+into a warning record (:data:`ranker.input_warnings.WARNING_KINDS`).
 """
 
 from __future__ import annotations
@@ -29,6 +31,7 @@ import pandas as pd
 
 from ..builtin import BUILTIN_CRITERIA
 from ..errors import Problems
+from ..input_warnings import warning
 from ..workbook.tables import Inputs
 from .adoption import adoption_path
 from .costs import capital_cost_unit_rates
@@ -81,8 +84,10 @@ class Derivation:
         ``"[kWh/day]"``.
     notes : dict of str to str
         Column name to a one-line formula or meaning.
-    warnings : list of str
-        Doubtful but legal input met while deriving.
+    warnings : list of dict
+        Doubtful but legal input met while deriving: records ``{"kind", ...}``
+        of :data:`ranker.input_warnings.WARNING_KINDS`; the words are
+        :func:`ranker.report.narrative.input_warnings`.
     """
 
     values: pd.DataFrame
@@ -90,7 +95,7 @@ class Derivation:
     adoption: pd.DataFrame
     units: dict[str, str] = field(default_factory=dict)
     notes: dict[str, str] = field(default_factory=dict)
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
 
 def _energy(plan: Checked, a: dict) -> dict[str, np.ndarray]:
@@ -339,3 +344,40 @@ def derive_criteria(inputs: Inputs, assumptions: dict, keys: Sequence[str]) -> D
         notes={k: COLUMNS[k][1] for k in names},
         warnings=plan.warnings,
     )
+
+
+def energy_cap_warnings(sizing: pd.DataFrame) -> list[dict]:
+    """Return the ``energy_capped`` record: where the sized ports cap the energy sold.
+
+    Parameters
+    ----------
+    sizing : DataFrame
+        :attr:`Derivation.sizing`; its ``energy_capped_from_year`` and
+        ``energy_capped_last_year`` columns [year] (blank where never capped).
+
+    Returns
+    -------
+    list of dict
+        One record of :data:`ranker.input_warnings.WARNING_KINDS` naming the
+        capped corridors, earliest first (ties in sheet order), with the
+        first year capped of each and the last capped year of any; empty
+        when no corridor is capped or the revenue was not derived.
+    """
+    if "energy_capped_from_year" not in sizing:
+        return []
+    capped = sizing["energy_capped_from_year"].dropna().sort_values(kind="stable")
+    if not len(capped):
+        return []
+    last = (
+        int(sizing["energy_capped_last_year"].max())
+        if "energy_capped_last_year" in sizing
+        else None
+    )
+    return [
+        warning(
+            "energy_capped",
+            corridors=[str(c) for c in capped.index],
+            from_years=[int(y) for y in capped],
+            last_year=last,
+        )
+    ]

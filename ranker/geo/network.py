@@ -6,6 +6,7 @@ from dataclasses import dataclass, field
 
 import pandas as pd
 
+from ..input_warnings import warning
 from ..workbook.places import place_key
 from ..workbook.schema import split_connects
 
@@ -92,20 +93,15 @@ def corridor_network(inputs) -> Network | None:
     return Network(lines, source, places, ends, missing)
 
 
-def network_warnings(network: Network | None, inputs) -> list[str]:
-    """Say which corridors the map and the GeoJSON cannot place."""
+def network_warnings(network: Network | None, inputs) -> list[dict]:
+    """Return the records of the corridors the map and the GeoJSON cannot place.
+
+    Records ``{"kind", ...}`` of :data:`ranker.input_warnings.WARNING_KINDS`
+    (``places_unused``, ``corridors_unplaced``); the words are
+    :func:`ranker.report.narrative.input_warnings`.
+    """
     if network is None:
-        if inputs.places is not None:
-            return [
-                "Places is filled in but no corridor's connects names two of its places, so "
-                "there is no map and no GeoJSON file."
-            ]
-        return []
+        return [warning("places_unused")] if inputs.places is not None else []
     if not network.missing:
         return []
-    shown = ", ".join(network.missing[:10]) + (" ..." if len(network.missing) > 10 else "")
-    return [
-        f"{len(network.missing)} corridor(s) have no position ({shown}): give connects with two "
-        "places of the Places sheet, or their line on Geometry; they are left off the map and "
-        "have no geometry in the GeoJSON file."
-    ]
+    return [warning("corridors_unplaced", corridors=[str(c) for c in network.missing])]

@@ -27,7 +27,7 @@ import re
 import numpy as np
 import pandas as pd
 
-from ..report.words.basic import listing
+from ..input_warnings import warning
 
 _DASHES = re.compile("[\u2010-\u2015\u2212]")  # hyphen, en dash, em dash, minus sign ...
 
@@ -153,7 +153,7 @@ def coverage_view(
     endpoints: list[str],
     completed: dict[str, np.ndarray],
     years: np.ndarray,
-) -> tuple[dict | None, list[str]]:
+) -> tuple[dict | None, list[dict]]:
     """Build the coverage view of each plan.
 
     Parameters
@@ -177,8 +177,9 @@ def coverage_view(
         corridor ids complete by then, or None), ``possible`` (whether all
         corridors together join them); None when no corridor names its
         places. The words are :func:`ranker.report.words.plan.coverage_sentence`.
-    warnings : list of str
-        Why the view is missing or limited.
+    warnings : list of dict
+        Why the view is missing: records of
+        :data:`ranker.input_warnings.WARNING_KINDS`.
     """
     text = connects.copy()
     text.index = text.index.map(str)
@@ -194,13 +195,7 @@ def coverage_view(
         for name in p or ():
             spelling.setdefault(name.casefold(), name)
     if not spelling:
-        warn = ["No corridor has connects filled in, so the coverage view is left out."]
-        if endpoints:
-            warn = [
-                "coverage_endpoints is set but no corridor has connects filled in; "
-                "the coverage view is left out."
-            ]
-        return None, warn
+        return None, [warning("endpoints_without_connects" if endpoints else "no_connects")]
     node = {k: j for j, k in enumerate(spelling)}
     edges = np.full((len(ids), 2), -1, dtype=int)
     for i, p in enumerate(pairs):
@@ -209,11 +204,7 @@ def coverage_view(
     if endpoints:
         unknown = [e for e in endpoints if e.casefold() not in node]
         if unknown:  # the reader checks them against every corridor: these were screened out
-            return None, [
-                f"coverage_endpoints names {listing(unknown)}, which no corridor in the plan "
-                "connects (a corridor outside its must-meet limits is not planned); the "
-                "coverage view is left out."
-            ]
+            return None, [warning("endpoints_not_planned", places=list(unknown))]
         rule = "named"
         names = [spelling[e.casefold()] for e in endpoints]
     else:
@@ -221,10 +212,7 @@ def coverage_view(
         names = list(spelling.values())
     ends = np.array(sorted({node[n.casefold()] for n in names}), dtype=int)
     if ends.size < 2:
-        return None, [
-            f"coverage_endpoints names only {listing(names)}; name two places or more "
-            "for the coverage view."
-        ]
+        return None, [warning("endpoints_too_few", places=list(names))]
     every = np.zeros(len(ids), dtype=int)
     every[edges[:, 0] < 0] = -1
     possible = first_joined(edges, len(node), ends, every, 1) == 0

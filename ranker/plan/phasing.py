@@ -2,10 +2,10 @@
 
 :func:`build_plan` checks its inputs, runs the greedy plan
 (:mod:`ranker.plan.greedy`), the optimised plan (:mod:`ranker.plan.optimise`),
-turns both into payments (:mod:`ranker.plan.schedule`), compares them
-(in words: :mod:`ranker.report.words.plan`), and adds the coverage view
-(:mod:`ranker.plan.coverage`) and the year-one robustness
-(:mod:`ranker.plan.robust`) when their inputs are given.
+turns both into payments (:mod:`ranker.plan.schedule`), compares them,
+and adds the coverage view (:mod:`ranker.plan.coverage`) and the year-one
+robustness (:mod:`ranker.plan.robust`) when their inputs are given. It
+returns numbers and records; the words are :mod:`ranker.report.words.plan`.
 """
 
 from __future__ import annotations
@@ -16,9 +16,8 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
+from ..input_warnings import warning
 from ..plain import plain
-from ..report.words.basic import money
-from ..workbook.tables import BUDGET
 from . import optimise
 from .checks import check_endpoints, check_inputs, check_samples, check_series
 from .coverage import coverage_view
@@ -74,8 +73,10 @@ class Plan:
     year_one_share : Series or None
         Share of score samples in which the greedy plan funds each corridor
         in the first plan year [-]; None without samples.
-    warnings : list of str
-        Doubtful but legal input and solver limits, for the outputs.
+    warnings : list of dict
+        Doubtful but legal input and solver limits: records ``{"kind", ...}``
+        of :data:`ranker.input_warnings.WARNING_KINDS` (the plan's kinds);
+        the words are :func:`ranker.report.narrative.plan_warnings`.
     """
 
     greedy: pd.DataFrame
@@ -88,7 +89,7 @@ class Plan:
     comparison: dict
     coverage: dict | None
     year_one_share: pd.Series | None
-    warnings: list[str] = field(default_factory=list)
+    warnings: list[dict] = field(default_factory=list)
 
     def to_json(self) -> dict:
         """Return the plan as plain JSON-ready types (NaN and blanks as None)."""
@@ -168,13 +169,14 @@ def build_plan(
         Monte Carlo samples of the scores, columns in the order of
         ``capital_usd``, higher is better (pass ``-ranks`` for ranks) [-].
     names : dict, optional
-        Corridor id to name, for the sentences.
+        Corridor id to name, for the ``name`` column of the plans.
 
     Returns
     -------
     Plan
         Both plans, their payments and budget use, the objective values and
-        gap, the differences in words, coverage and year-one robustness.
+        gap, the numbers behind their differences, coverage, year-one
+        robustness and the warning records.
 
     Raises
     ------
@@ -218,7 +220,7 @@ def build_plan(
         quantity = a.score
     names = {str(k): v for k, v in (names or {}).items()}
     cumulative = bool(carry_over or allow_split)
-    warnings = _warnings(a, quantity, obj.quantity, carry_over=carry_over, allow_split=allow_split)
+    warnings = _warnings(a, quantity, obj.key, carry_over=carry_over, allow_split=allow_split)
     value = obj.value(quantity, a.years, discount_rate)
     n, big_t = value.shape
 
@@ -249,10 +251,7 @@ def build_plan(
         )
         c = completion_from_payments(p, m.completed)
         if not feasible(a.cost, c, a.budget, cumulative=cumulative):
-            warnings.append(
-                "The optimiser's plan did not fit the budget (numerical trouble with very "
-                "different costs); the greedy plan is shown as the optimised plan."
-            )
+            warnings.append(warning("optimiser_plan_infeasible"))
             use_greedy = True
         else:
             v = _total(value, c)
@@ -269,20 +268,16 @@ def build_plan(
     )
     stopped = m.status != 0
     if m.status == 1:
-        within = (
-            f"no more than {gap * 100:.3g} % below the best possible"
-            if np.isfinite(gap)
-            else "the greedy plan, as no plan was proven better in time"
-        )
         warnings.append(
-            f"The optimiser stopped at its {optimise.TIME_LIMIT_S:g} s time limit; the optimised "
-            f"plan is {within}. A rerun on a slower or busier computer may stop elsewhere and "
-            "show a slightly different optimised plan."
+            warning(
+                "optimiser_time_limit",
+                time_limit_s=float(optimise.TIME_LIMIT_S),
+                gap=float(gap) if np.isfinite(gap) else None,
+            )
         )
     elif stopped:
         warnings.append(
-            f"The optimiser did not finish ({m.message}); the optimised plan shown is the "
-            + ("greedy plan." if use_greedy else "best plan it found.")
+            warning("optimiser_unfinished", message=str(m.message), shows_greedy=bool(use_greedy))
         )
 
     spent = {k: pay[k].sum(axis=0) for k in PLANS}
@@ -323,10 +318,7 @@ def build_plan(
         )
         plan.warnings.extend(more)
     elif check_endpoints(endpoints):
-        plan.warnings.append(
-            "coverage_endpoints is set but the Corridors sheet has no connects "
-            "column; the coverage view is left out."
-        )
+        plan.warnings.append(warning("endpoints_without_connects_column"))
     if sample_scores is not None:
         samples = check_samples(sample_scores, n)
         share = year_one_share(
@@ -343,49 +335,42 @@ def _total(value: np.ndarray, completed: np.ndarray) -> float:
     return float(value[np.flatnonzero(f), completed[f]].sum())
 
 
-def _warnings(a, quantity, what: str, *, carry_over: bool, allow_split: bool) -> list[str]:
+def _warnings(a, quantity, objective: str, *, carry_over: bool, allow_split: bool) -> list[dict]:
+    """The records of doubtful budgets and corridors, before planning."""
     out = []
     total = float(a.budget.sum())
     ids = np.asarray(a.ids)
     if total <= 0:
-        out.append(f"{BUDGET}: the budget is zero in every year, so nothing can be funded.")
+        out.append(warning("budget_zero"))
     never = a.cost > total * (1 + 1e-12)
     if never.any() and total > 0:
         out.append(
-            f"{_ids(ids[never])} cost{'s' if never.sum() == 1 else ''} more than the whole budget "
-            f"({money(total)}) and can never be funded: "
-            + "; ".join(f"{i} {money(c)}" for i, c in zip(ids[never], a.cost[never], strict=True))
-            + "."
+            warning(
+                "never_fundable",
+                corridors=[str(i) for i in ids[never]],
+                costs=[float(c) for c in a.cost[never]],
+                total=total,
+            )
         )
     if not (carry_over or allow_split):
         single = (a.cost > a.budget.max() * (1 + 1e-12)) & ~never
         if single.any():
             out.append(
-                f"{_ids(ids[single])} cost{'s' if single.sum() == 1 else ''} more than any single "
-                f"year's budget ({money(a.budget.max())}) and can never be funded while "
-                "budget_carry_over and allow_split are both off."
+                warning(
+                    "over_any_year",
+                    corridors=[str(i) for i in ids[single]],
+                    largest=float(a.budget.max()),
+                )
             )
     nothing = quantity <= 0
     if nothing.any():
         out.append(
-            f"{_ids(ids[nothing])} add{'s' if nothing.sum() == 1 else ''} nothing to the objective "
-            f"({what} of zero or less) and {'is' if nothing.sum() == 1 else 'are'} left out of the "
-            "optimised plan."
+            warning("adds_nothing", corridors=[str(i) for i in ids[nothing]], objective=objective)
         )
     missing = sorted(set(range(a.years[0], a.years[-1] + 1)) - set(a.years.tolist()))
     if missing:
-        out.append(
-            f"{BUDGET}: no row for {', '.join(map(str, missing))}; no corridor is funded in "
-            f"{'that year' if len(missing) == 1 else 'those years'}, and discounting still counts "
-            "every calendar year."
-        )
+        out.append(warning("budget_years_missing", years=[int(y) for y in missing]))
     return out
-
-
-def _ids(ids) -> str:
-    ids = list(ids)
-    shown = ", ".join(ids[:8]) + (f" and {len(ids) - 8} more" if len(ids) > 8 else "")
-    return f"Corridor {shown}" if len(ids) == 1 else f"Corridors {shown}"
 
 
 def _frame(a, names, completed, pay, value) -> pd.DataFrame:

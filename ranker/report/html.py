@@ -280,5 +280,5 @@ def _plan_context(result) -> dict | None:
             for cid in funded_first["corridor_id"]
         ],
         "budget": plan.budget.to_dict(orient="records"),
-        "warnings": plan.warnings,
+        "warnings": narrative.plan_warnings(result),
     }

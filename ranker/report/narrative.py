@@ -1,7 +1,10 @@
-"""Sentences for the justification sheet, each generated from the numbers.
+"""Every sentence the outputs print, each generated from the analyses' numbers and records.
 
-No sentence claims what the numbers do not show: certainty words follow the
-first-rank acceptability, agreement words follow Kendall's tau.
+The one door the terminal, the results workbook, the justification sheet and
+the JSON use for words; the pieces and the words of each analysis are in
+:mod:`ranker.report.words`. No sentence claims what the numbers do not show:
+how sure the order is follows the tiers' shares of samples, agreement words
+follow Kendall's tau.
 """
 
 from __future__ import annotations
@@ -9,18 +12,8 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from .words import listing, share_text
-
-
-def certainty_word(share: float) -> str:
-    """Describe a first-rank acceptability in words (thresholds: common practice)."""
-    if share >= 0.9:
-        return "very likely"
-    if share >= 0.7:
-        return "likely"
-    if share >= 0.5:
-        return "more likely than not"
-    return "not clearly"
+from .words import Namer, listing, share_text
+from .words.basic import fmt
 
 
 def recommendation(result) -> list[str]:
@@ -177,23 +170,6 @@ def strongest_weakest(result, cid) -> tuple[str, str]:
     return describe(share.idxmax()), describe(share.idxmin())
 
 
-def fmt(value) -> str:
-    """Format a number for a sentence: thousands separators, 3 significant digits."""
-    try:
-        v = float(value)
-    except (TypeError, ValueError):
-        return str(value)
-    if not np.isfinite(v):
-        return "n/a"
-    if abs(v) >= 1e6:
-        return f"{v / 1e6:,.1f} million"
-    if abs(v) >= 1000 or v.is_integer():
-        return f"{v:,.0f}"
-    if abs(v) >= 10:
-        return f"{v:.1f}"
-    return f"{v:.3g}"
-
-
 def reversal_sentences(result) -> list[str]:
     """Plain-word results of the rank-reversal checks."""
     rob = result.robustness
@@ -336,12 +312,19 @@ def pairwise_note(result) -> str:
     return text
 
 
-def _namer(result):
-    from .words import Namer
-
+def _namer(result) -> Namer:
     return Namer(
         result.inputs.corridors["name"].astype(str).to_dict(),
         {c.key: c.label for c in result.criteria},
+    )
+
+
+def inputs_namer(inputs) -> Namer:
+    """Corridor names and included criteria's labels of the inputs, for the warnings'
+    words before the run's :class:`~ranker.result.Result` exists."""
+    return Namer(
+        inputs.corridors["name"].astype(str).to_dict(),
+        {c.key: c.label for c in inputs.included},
     )
 
 
@@ -443,18 +426,33 @@ def futures(result) -> dict | None:
 
 def stress_warnings(result) -> list[str]:
     """The stress stage's warnings of the run in words."""
+    rob = result.robustness
+    return [] if rob is None else robustness_warnings(rob.warnings, _namer(result))
+
+
+def robustness_warnings(records: list[dict], namer: Namer | None = None) -> list[str]:
+    """The stress stage's warning records in words, in order
+    (:data:`ranker.stress.WARNING_KINDS`)."""
     from .words.stress import stress_warnings as words
 
-    rob = result.robustness
-    return [] if rob is None else words(rob.warnings, _namer(result))
+    return words(records, namer)
 
 
-def input_warnings(records: list[dict]) -> list[str]:
-    """The derive and score stages' warning records in words, in order
-    (:data:`ranker.input_warnings.WARNING_KINDS`)."""
+def input_warnings(records: list[dict], namer: Namer | None = None) -> list[str]:
+    """Warning records of every stage but the stress stage in words, in order
+    (:data:`ranker.input_warnings.WARNING_KINDS`: derive, score, plan, map).
+
+    ``namer`` gives the corridor names and criterion labels some words quote.
+    """
     from .words.inputs import input_warnings as words
 
-    return words(records)
+    return words(records, namer)
+
+
+def plan_warnings(result) -> list[str]:
+    """The build plan's warnings in words ([] without a plan)."""
+    plan = result.plan
+    return [] if plan is None else input_warnings(plan.warnings, _namer(result))
 
 
 def word_consistency(weight_sets) -> None:
@@ -562,44 +560,6 @@ def provenance_line(result) -> str:
     )
 
 
-def saturation_warnings(counts: dict, levels: dict, specs: dict) -> list[str]:
-    """Say, per criterion whose full-credit level binds, how many corridors it caps."""
-    out = []
-    for key, count in counts.items():
-        if not count:
-            continue
-        spec = specs[key]
-        side = "above" if spec.is_benefit else "below"
-        out.append(
-            f"{spec.label}: {count} corridor{'s' if count != 1 else ''} {side} the full-credit "
-            f"level {fmt(levels[key])} score as if at it (Criteria full_credit_at"
-            + (", default for grid headroom" if key == "grid_headroom" else "")
-            + ")."
-        )
-    return out
-
-
-def diagnostic_warnings(diagnostics: dict, labels: dict) -> list[str]:
-    """Warn when one criterion carries most of the spread, or two count one fact twice."""
-    from ..score.diagnostics import DOMINANT_SHARE, STRONG_RHO
-
-    out = []
-    for key, share in diagnostics.get("spread_share", {}).items():
-        if share > DOMINANT_SHARE:
-            out.append(
-                f"{labels.get(key, key)} carries {share_text(share)} of the spread of the "
-                f"weighted scores (more than {share_text(DOMINANT_SHARE)}): it decides most of "
-                "the order on its own; check its values and consider a full_credit_at level."
-            )
-    for p in diagnostics.get("correlated", []):
-        out.append(
-            f"{labels.get(p['a'], p['a'])} and {labels.get(p['b'], p['b'])} are strongly "
-            f"rank-correlated across corridors (Spearman rho {p['rho']:.2f}, beyond "
-            f"+-{STRONG_RHO:g}): they may count the same fact twice."
-        )
-    return out
-
-
 def spread_sentence(result) -> str:
     """Say each criterion's share of the spread of the weighted scores, largest first."""
     shares = result.diagnostics.get("spread_share", {})
@@ -614,34 +574,6 @@ def spread_sentence(result) -> str:
         "Share of the spread of the weighted scores (how much each criterion separates the "
         "corridors): " + "; ".join(parts) + "."
     )
-
-
-#: Corridors named in the energy-cap warning; the rest are counted.
-CAP_NAMED = 8
-
-
-def energy_cap_warnings(sizing, names) -> list[str]:
-    """Name the corridors and years where the ports cap the energy sold (revenue NPV)."""
-    if "energy_capped_from_year" not in sizing:
-        return []
-    capped = sizing["energy_capped_from_year"].dropna().sort_values(kind="stable")
-    if not len(capped):
-        return []
-    last = (
-        int(sizing["energy_capped_last_year"].max())
-        if "energy_capped_last_year" in sizing
-        else None
-    )
-    parts = [f"{names.get(c, c)} ({c}) from {int(y)}" for c, y in capped.iloc[:CAP_NAMED].items()]
-    more = len(capped) - CAP_NAMED
-    text = (
-        "Revenue counts only the energy the sized ports can deliver (ports x power x open hours "
-        "x utilization_ceiling); the trucks would buy more in later years for "
-        + listing(parts + ([f"{more} more corridors"] if more > 0 else []))
-        + (f", through {last}" if last else "")
-        + ". Selling it would need ports the capital cost does not include."
-    )
-    return [text]
 
 
 #: Rows of the ranking printed on the terminal; the outputs hold them all.

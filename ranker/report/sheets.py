@@ -18,6 +18,7 @@ from .narrative import (
     coverage_sentence,
     futures,
     plan_differences,
+    plan_warnings,
     rank_intervals,
     reversal_sentences,
     stakeholders,
@@ -478,7 +479,7 @@ def plan_sheet(writer, result) -> None:
     coverage = coverage_sentence(result)
     if coverage:
         lines.append(coverage)
-    lines += [f"warning: {w}" for w in plan.warnings]
+    lines += [f"warning: {w}" for w in plan_warnings(result)]
     for i, sentence in enumerate(lines, start=bottom + 2):
         put(ws, i, 1, sentence)
     bottom += len(lines) + 2

@@ -39,8 +39,8 @@ def _with_sentence(record: dict, sentence: str) -> dict:
 
 
 def _plan_json(result) -> dict | None:
-    """The plan's JSON with its differences in words after ``budget``."""
-    from .narrative import coverage_sentence, plan_differences
+    """The plan's JSON with its differences in words after ``budget``, its warnings in words."""
+    from .narrative import coverage_sentence, plan_differences, plan_warnings
 
     if result.plan is None:
         return None
@@ -51,6 +51,7 @@ def _plan_json(result) -> dict | None:
             out["differences"] = plan_differences(result)
     if out.get("coverage"):
         out["coverage"] = {**out["coverage"], "sentence": coverage_sentence(result)}
+    out["warnings"] = plan_warnings(result)
     return out
 
 

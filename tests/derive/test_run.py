@@ -247,3 +247,32 @@ def test_doubling_length_with_everything_per_mile_equal_doubles_energy(length, c
     assert d.values["terrain_penalty"].iloc[1] == pytest.approx(
         d.values["terrain_penalty"].iloc[0], rel=1e-12, abs=1e-15
     )
+
+
+def test_energy_cap_record_names_the_capped_corridors_earliest_first():
+    from ranker.derive.run import energy_cap_warnings
+
+    assert energy_cap_warnings(pd.DataFrame({"x": [1]})) == []  # revenue not derived
+    none = pd.DataFrame({"energy_capped_from_year": [np.nan, np.nan]}, index=["A", "B"])
+    assert energy_cap_warnings(none) == []
+    two = pd.DataFrame(
+        {"energy_capped_from_year": [2035.0, np.nan, 2031.0], "energy_capped_last_year": [2040.0, np.nan, 2045.0]},
+        index=["A", "B", "C"],
+    )  # fmt: skip
+    assert energy_cap_warnings(two) == [
+        {"kind": "energy_capped", "corridors": ["C", "A"], "from_years": [2031, 2035],
+         "last_year": 2045}
+    ]  # fmt: skip
+    only_first = pd.DataFrame({"energy_capped_from_year": [2030.0, 2030.0]}, index=["B", "A"])
+    (record,) = energy_cap_warnings(only_first)
+    assert record["corridors"] == ["B", "A"] and record["last_year"] is None  # ties: sheet order
+
+
+def test_a_derived_cap_reaches_the_record():
+    from ranker.derive.run import energy_cap_warnings
+
+    a = resolve({"utilization_ceiling": 0.001})
+    d = derive_criteria(make_inputs(three_corridors()), a, ["charging_revenue"])
+    (record,) = energy_cap_warnings(d.sizing)
+    assert record["corridors"] == [str(c) for c in d.sizing.index]
+    assert record["from_years"] == [int(a["analysis_year"])] * len(d.sizing)

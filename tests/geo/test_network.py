@@ -120,24 +120,19 @@ def test_points_are_every_line_point_then_every_place():
 
 
 def test_warnings():
+    """The records; their words are pinned in tests/report/words/test_inputs.py."""
     placed = _inputs(["Northport-Lakeside"], PLACES)
     assert network_warnings(corridor_network(placed), placed) == []
     assert network_warnings(None, _inputs([None])) == []  # no Places: nothing to say
     unplaced = _inputs(["Nowhere-Else"], PLACES)
-    assert network_warnings(None, unplaced) == [
-        "Places is filled in but no corridor's connects names two of its places, so there "
-        "is no map and no GeoJSON file."
-    ]
+    assert network_warnings(None, unplaced) == [{"kind": "places_unused"}]
     some = _inputs(["Northport-Lakeside", None, "x-y"], PLACES)
     assert network_warnings(corridor_network(some), some) == [
-        "2 corridor(s) have no position (C2, C3): give connects with two places of the "
-        "Places sheet, or their line on Geometry; they are left off the map and have no "
-        "geometry in the GeoJSON file."
+        {"kind": "corridors_unplaced", "corridors": ["C2", "C3"]}
     ]
 
 
-def test_warning_names_at_most_ten():
+def test_every_unplaced_corridor_is_in_the_record():
     many = _inputs(["Northport-Lakeside"] + [None] * 12, PLACES)
-    (text,) = network_warnings(corridor_network(many), many)
-    assert text.startswith("12 corridor(s) have no position (C2, C3, C4, C5, C6, C7, C8, C9, "
-                           "C10, C11 ...): ")  # fmt: skip
+    (record,) = network_warnings(corridor_network(many), many)
+    assert record["corridors"] == [f"C{i}" for i in range(2, 14)]

@@ -105,10 +105,7 @@ def test_an_endpoint_no_planned_corridor_connects_leaves_the_view_out():
     screened out of the plan name cannot be joined, and the plan says why."""
     p = _hand_plan(endpoints=["Northport", "Southgate"])
     assert p.coverage is None
-    assert p.warnings[-1] == (
-        "coverage_endpoints names Southgate, which no corridor in the plan connects (a "
-        "corridor outside its must-meet limits is not planned); the coverage view is left out."
-    )
+    assert p.warnings[-1] == {"kind": "endpoints_not_planned", "places": ["Southgate"]}
 
 
 def test_bad_connects_is_a_value_error():
@@ -126,7 +123,26 @@ def test_endpoints_without_connects_warn():
         endpoints=["Northport"],
     )
     assert p.coverage is None
-    assert any("no connects column" in w for w in p.warnings)
+    assert p.warnings == [{"kind": "endpoints_without_connects_column"}]
+
+
+@pytest.mark.parametrize(
+    ("endpoints", "record"),
+    [
+        (None, {"kind": "no_connects"}),
+        (["Northport", "Lakeside"], {"kind": "endpoints_without_connects"}),
+    ],
+)
+def test_blank_connects_leave_the_view_out(endpoints, record):
+    p = _hand_plan(endpoints=endpoints, connects=["", " ", "", ""])
+    assert p.coverage is None
+    assert p.warnings == [record]
+
+
+def test_one_endpoint_named_twice_is_too_few():
+    p = _hand_plan(endpoints=["Northport", " northport "])
+    assert p.coverage is None
+    assert p.warnings == [{"kind": "endpoints_too_few", "places": ["Northport"]}]
 
 
 @settings(max_examples=60, deadline=None, derandomize=True)

@@ -1,4 +1,4 @@
-"""build_plan end to end: both plans, payments, budget use, warnings, JSON."""
+"""build_plan end to end: both plans, payments, budget use, warning records, JSON."""
 
 from __future__ import annotations
 
@@ -118,7 +118,7 @@ def test_budget_remaining_with_and_without_carry_over():
     assert p.greedy.set_index("corridor_id")["year_funded"].tolist() == [2028, 2027]
     q = build_plan(cost, score, rank, budget, carry_over=False)
     assert q.budget["remaining_greedy"].tolist() == [6e6, 10e6]  # left unspent that year
-    assert any("more than any single year's budget" in w for w in q.warnings)
+    assert {"kind": "over_any_year", "corridors": ["A"], "largest": 10e6} in q.warnings
 
 
 def test_split_plan_spreads_payments():
@@ -176,12 +176,47 @@ def test_warnings_for_corridors_never_fundable_and_gaps():
         pd.Series([1, 3, 2], index=ids),
         pd.DataFrame({"year": [2027, 2029], "capital_usd": [5e6, 5e6]}),
     )
-    text = " ".join(p.warnings)
-    assert "Corridor A costs more than the whole budget" in text
-    assert "can never be funded" in text
-    assert "Corridor B adds nothing to the objective" in text
-    assert "no row for 2028" in text
+    assert p.warnings == [
+        {"kind": "never_fundable", "corridors": ["A"], "costs": [50e6], "total": 10e6},
+        {"kind": "adds_nothing", "corridors": ["B"], "objective": "score"},
+        {"kind": "budget_years_missing", "years": [2028]},
+    ]
+    assert json.loads(json.dumps(p.warnings)) == p.warnings  # JSON-ready records
     assert p.greedy.set_index("corridor_id").loc["A", "year_funded"] is pd.NA
+
+
+def test_budget_of_zero_is_a_record():
+    ids, cost, npv, rank, _ = _stockco()
+    p = build_plan(cost, npv, rank, pd.DataFrame({"year": [2027], "capital_usd": [0.0]}))
+    assert p.warnings == [{"kind": "budget_zero"}]
+
+
+def _fake_solver(monkeypatch, completed, status, bound=45.0, message="stopped"):
+    """Replace the solver's answer on Stockco (greedy 38, best 42)."""
+    from ranker.plan.optimise import MilpArrays
+
+    answer = MilpArrays(completed, np.nan, bound, np.inf, status, message, 0.1)
+    monkeypatch.setattr(optimise, "milp_kernel", lambda *a, **k: answer)
+    ids, cost, npv, rank, budget = _stockco()
+    return build_plan(cost, npv, rank, budget)
+
+
+def test_optimiser_records(monkeypatch):
+    """What the plan says when the solver stops early or answers with a plan that
+    does not fit: its numbers, the words being the report's."""
+    best = np.array([-1, 0, 0, 0])  # I2, I3, I4: 42, the Stockco optimum
+    p = _fake_solver(monkeypatch, best, status=1)
+    assert p.warnings == [{"kind": "optimiser_time_limit", "time_limit_s": 20.0, "gap": 3 / 42}]
+    assert p.objective_value["optimised"] == 42.0
+    p = _fake_solver(monkeypatch, None, status=4, bound=np.inf, message="numerical trouble")
+    assert p.warnings == [
+        {"kind": "optimiser_unfinished", "message": "numerical trouble", "shows_greedy": True}
+    ]
+    p = _fake_solver(monkeypatch, best, status=4, message="interrupted")
+    assert p.warnings[0]["shows_greedy"] is False
+    p = _fake_solver(monkeypatch, np.array([0, 0, 0, 0]), status=0)  # 19 million > 14
+    assert p.warnings == [{"kind": "optimiser_plan_infeasible"}]
+    assert p.objective_value["optimised"] == p.objective_value["greedy"] == 38.0
 
 
 def test_time_limit_warning(monkeypatch):
@@ -194,7 +229,8 @@ def test_time_limit_warning(monkeypatch):
     rank = score.rank(ascending=False).astype(int)
     budget = pd.DataFrame({"year": np.arange(2027, 2037), "capital_usd": 0.05 * cost.sum()})
     p = build_plan(cost, score, rank, budget, carry_over=False)
-    assert any("time limit" in w for w in p.warnings)
+    (limit,) = [w for w in p.warnings if w["kind"] == "optimiser_time_limit"]
+    assert limit["time_limit_s"] == 0.3 and limit["gap"] == pytest.approx(p.gap)
     assert p.objective_value["optimised"] >= p.objective_value["greedy"]
     assert p.gap > 0
 

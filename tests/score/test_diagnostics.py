@@ -13,7 +13,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from ranker.report.narrative import diagnostic_warnings
+from ranker.pipeline import diagnostic_warnings
 from ranker.score import diagnostics
 from ranker.score.diagnostics import rank_correlations, spread_shares, strong_pairs
 
@@ -49,11 +49,10 @@ def test_spread_shares_by_hand():
 
 
 def test_warnings_fire_past_the_thresholds_only():
-    labels = {"a": "A", "b": "B"}
-    quiet = diagnostic_warnings({"spread_share": {"a": 0.5, "b": 0.5}, "correlated": []}, labels)
+    quiet = diagnostic_warnings({"spread_share": {"a": 0.5, "b": 0.5}, "correlated": []})
     assert quiet == []
-    loud = diagnostic_warnings({"spread_share": {"a": 0.51, "b": 0.49}, "correlated": []}, labels)
-    assert len(loud) == 1 and loud[0].startswith("A carries 51%")
+    loud = diagnostic_warnings({"spread_share": {"a": 0.51, "b": 0.49}, "correlated": []})
+    assert loud == [{"kind": "dominant_spread", "criterion": "a", "share": 0.51, "limit": 0.5}]
     rho = pd.DataFrame([[1.0, -0.81], [-0.81, 1.0]], index=["a", "b"], columns=["a", "b"])
     assert strong_pairs(rho) == [{"a": "a", "b": "b", "rho": -0.81}]
     rho.iloc[0, 1] = rho.iloc[1, 0] = 0.8

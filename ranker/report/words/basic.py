@@ -94,3 +94,20 @@ def number(x: float) -> str:
     if x != 0 and (abs(x) >= 1e5 or abs(x) < 1e-3):
         return f"{x:.3g}"
     return f"{x:,.3g}" if abs(x) < 1000 else f"{x:,.0f}"
+
+
+def fmt(value) -> str:
+    """Format a number for a sentence: thousands separators, 3 significant digits."""
+    try:
+        v = float(value)
+    except (TypeError, ValueError):
+        return str(value)
+    if not np.isfinite(v):
+        return "n/a"
+    if abs(v) >= 1e6:
+        return f"{v / 1e6:,.1f} million"
+    if abs(v) >= 1000 or v.is_integer():
+        return f"{v:,.0f}"
+    if abs(v) >= 10:
+        return f"{v:.1f}"
+    return f"{v:.3g}"

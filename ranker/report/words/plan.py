@@ -1,4 +1,5 @@
-"""Say in plain words how the optimised plan differs from the greedy one.
+"""The build plan in plain words: how the optimised plan differs from the greedy one,
+the coverage view, and the plan's warnings (:data:`WORDS`).
 
 One sentence for the totals, then one per corridor whose year differs,
 naming the corridors whose money it takes or gives up:
@@ -22,10 +23,13 @@ References
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 import numpy as np
 
 from ...plan.objectives import OBJECTIVES, Objective
-from .basic import listing, money, number
+from ...workbook.tables import BUDGET
+from .basic import Namer, listing, money, number
 
 
 def _names(labels: list[str]) -> str:
@@ -246,3 +250,101 @@ def coverage_sentence(view: dict | None) -> str:
                 f"in {y} under the {plan} plan (funded by then: {', '.join(funded[plan])})"
             )
     return f"{who} are first joined by electrified corridors " + " and ".join(parts) + "."
+
+
+#: Corridor ids a plan warning names; the rest are counted.
+IDS_NAMED = 8
+
+
+def _ids(ids: list[str]) -> str:
+    """``Corridor C1``, ``Corridors C1, C2``, past :data:`IDS_NAMED` ``... and 3 more``."""
+    ids = list(ids)
+    shown = ", ".join(ids[:IDS_NAMED])
+    if len(ids) > IDS_NAMED:
+        shown += f" and {len(ids) - IDS_NAMED} more"
+    return f"Corridor {shown}" if len(ids) == 1 else f"Corridors {shown}"
+
+
+def _s(r: dict) -> str:
+    """The verb's ``s`` for one corridor."""
+    return "s" if len(r["corridors"]) == 1 else ""
+
+
+def _never_fundable(r: dict, namer: Namer) -> str:
+    costs = "; ".join(f"{i} {money(c)}" for i, c in zip(r["corridors"], r["costs"], strict=True))
+    return (
+        f"{_ids(r['corridors'])} cost{_s(r)} more than the whole budget ({money(r['total'])}) "
+        f"and can never be funded: {costs}."
+    )
+
+
+def _adds_nothing(r: dict, namer: Namer) -> str:
+    one = len(r["corridors"]) == 1
+    return (
+        f"{_ids(r['corridors'])} add{_s(r)} nothing to the objective "
+        f"({OBJECTIVES[r['objective']].quantity} of zero or less) and "
+        f"{'is' if one else 'are'} left out of the optimised plan."
+    )
+
+
+def _time_limit(r: dict, namer: Namer) -> str:
+    gap = r["gap"]
+    within = (
+        f"no more than {gap * 100:.3g} % below the best possible"
+        if gap is not None
+        else "the greedy plan, as no plan was proven better in time"
+    )
+    return (
+        f"The optimiser stopped at its {r['time_limit_s']:g} s time limit; the optimised "
+        f"plan is {within}. A rerun on a slower or busier computer may stop elsewhere and "
+        "show a slightly different optimised plan."
+    )
+
+
+#: Kind of each plan warning (:data:`ranker.input_warnings.WARNING_KINDS`) to its words.
+WORDS: dict[str, Callable[[dict, Namer], str]] = {
+    "budget_zero": lambda r, n: (
+        f"{BUDGET}: the budget is zero in every year, so nothing can be funded."
+    ),
+    "never_fundable": _never_fundable,
+    "over_any_year": lambda r, n: (
+        f"{_ids(r['corridors'])} cost{_s(r)} more than any single year's budget "
+        f"({money(r['largest'])}) and can never be funded while budget_carry_over and "
+        "allow_split are both off."
+    ),
+    "adds_nothing": _adds_nothing,
+    "budget_years_missing": lambda r, n: (
+        f"{BUDGET}: no row for {', '.join(map(str, r['years']))}; no corridor is funded in "
+        f"{'that year' if len(r['years']) == 1 else 'those years'}, and discounting still "
+        "counts every calendar year."
+    ),
+    "optimiser_plan_infeasible": lambda r, n: (
+        "The optimiser's plan did not fit the budget (numerical trouble with very different "
+        "costs); the greedy plan is shown as the optimised plan."
+    ),
+    "optimiser_time_limit": _time_limit,
+    "optimiser_unfinished": lambda r, n: (
+        f"The optimiser did not finish ({r['message']}); the optimised plan shown is the "
+        + ("greedy plan." if r["shows_greedy"] else "best plan it found.")
+    ),
+    "endpoints_without_connects_column": lambda r, n: (
+        "coverage_endpoints is set but the Corridors sheet has no connects column; the "
+        "coverage view is left out."
+    ),
+    "no_connects": lambda r, n: (
+        "No corridor has connects filled in, so the coverage view is left out."
+    ),
+    "endpoints_without_connects": lambda r, n: (
+        "coverage_endpoints is set but no corridor has connects filled in; the coverage view "
+        "is left out."
+    ),
+    "endpoints_not_planned": lambda r, n: (
+        f"coverage_endpoints names {listing(r['places'])}, which no corridor in the plan "
+        "connects (a corridor outside its must-meet limits is not planned); the coverage "
+        "view is left out."
+    ),
+    "endpoints_too_few": lambda r, n: (
+        f"coverage_endpoints names only {listing(r['places'])}; name two places or more for "
+        "the coverage view."
+    ),
+}

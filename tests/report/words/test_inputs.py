@@ -1,7 +1,9 @@
-"""The derive and score stages' warning records in words: every kind pinned as a literal.
+"""The run's warning records (outside the stress stage) in words: every kind pinned as a literal.
 
 Each sentence below is what the run printed for that warning before the stages
 returned records (the same input, the same words), so the outputs do not move.
+The plan's kinds are pinned in test_plan.py; this file checks that together
+they cover the registry.
 """
 
 from __future__ import annotations
@@ -12,7 +14,16 @@ import pytest
 
 from ranker.input_warnings import WARNING_KINDS, warning
 from ranker.report.narrative import consistency_text, input_warnings, word_consistency
-from ranker.report.words.inputs import WORDS, input_warning, judgment_text, revisit_text
+from ranker.report.words import Namer
+from ranker.report.words.inputs import (
+    CAP_NAMED,
+    WORDS,
+    input_warning,
+    judgment_text,
+    revisit_text,
+)
+
+from .test_plan import PLAN_PINNED
 
 REVISIT = {
     "cell": "Pairwise!C4",
@@ -23,6 +34,17 @@ REVISIT = {
     "cr_after": 0.14611,
 }
 TRIPLE = ["policy_readiness", "capital_cost", "charging_revenue"]
+#: Corridor names and criterion labels the words quote.
+NAMER = Namer(
+    {"A": "Alpha link", "C": "C"},
+    {
+        "freight_share": "Freight share",
+        "cost_musd": "Cost",
+        "grid_headroom": "Grid headroom",
+        "a": "Cost",
+        "b": "Risk",
+    },
+)
 
 #: One record of each kind and the sentence it reads as.
 PINNED = [
@@ -121,6 +143,39 @@ PINNED = [
         "value is half its best on the ratio scale.",
     ),
     (
+        warning("energy_capped", corridors=["C", "A"], from_years=[2031, 2035], last_year=2045),
+        "Revenue counts only the energy the sized ports can deliver (ports x power x open "
+        "hours x utilization_ceiling); the trucks would buy more in later years for C (C) "
+        "from 2031 and Alpha link (A) from 2035, through 2045. Selling it would need ports "
+        "the capital cost does not include.",
+    ),
+    (
+        warning("full_credit_binds", criterion="freight_share", count=2, level=0.4, benefit=True),
+        "Freight share: 2 corridors above the full-credit level 0.4 score as if at it "
+        "(Criteria full_credit_at).",
+    ),
+    (
+        warning("dominant_spread", criterion="a", share=0.6, limit=0.5),
+        "Cost carries 60% of the spread of the weighted scores (more than 50%): it decides "
+        "most of the order on its own; check its values and consider a full_credit_at level.",
+    ),
+    (
+        warning("correlated_pair", a="a", b="b", rho=-0.93, limit=0.8),
+        "Cost and Risk are strongly rank-correlated across corridors (Spearman rho -0.93, "
+        "beyond +-0.8): they may count the same fact twice.",
+    ),
+    (
+        warning("places_unused"),
+        "Places is filled in but no corridor's connects names two of its places, so there "
+        "is no map and no GeoJSON file.",
+    ),
+    (
+        warning("corridors_unplaced", corridors=["C2", "C3"]),
+        "2 corridor(s) have no position (C2, C3): give connects with two places of the "
+        "Places sheet, or their line on Geometry; they are left off the map and have no "
+        "geometry in the GeoJSON file.",
+    ),
+    (
         warning("robustness_skipped_no_weight"),
         "No criterion with a weight above 0 separates the corridors; robustness analysis skipped.",
     ),
@@ -133,18 +188,64 @@ PINNED = [
 
 @pytest.mark.parametrize("record, sentence", PINNED, ids=[r["kind"] for r, _ in PINNED])
 def test_each_kind_reads_as_its_pinned_sentence(record, sentence):
-    assert input_warning(record) == sentence
+    assert input_warning(record, NAMER) == sentence
     assert json.loads(json.dumps(record)) == record  # JSON-ready
 
 
 def test_every_declared_kind_has_words_and_a_pinned_sentence():
     assert set(WORDS) == set(WARNING_KINDS)
-    assert sorted(r["kind"] for r, _ in PINNED) == sorted(WARNING_KINDS)
+    pinned = [r["kind"] for r, _ in PINNED + PLAN_PINNED]
+    assert sorted(pinned) == sorted(WARNING_KINDS)
+
+
+def test_the_registry_and_the_stress_stages_kinds_are_apart():
+    from ranker.stress import WARNING_KINDS as STRESS_KINDS
+
+    assert not set(WARNING_KINDS) & set(STRESS_KINDS)
 
 
 def test_the_door_words_records_in_order():
-    records = [r for r, _ in PINNED]
-    assert input_warnings(records) == [s for _, s in PINNED]
+    records = [r for r, _ in PINNED + PLAN_PINNED]
+    assert input_warnings(records, NAMER) == [s for _, s in PINNED + PLAN_PINNED]
+
+
+def test_the_energy_cap_names_eight_corridors_and_counts_the_rest():
+    assert CAP_NAMED == 8
+    ids = [f"K{i:02d}" for i in range(10)]
+    record = warning(
+        "energy_capped", corridors=ids, from_years=list(range(2030, 2040)), last_year=None
+    )
+    text = input_warning(record)
+    assert "K07 (K07) from 2037 and 2 more corridors." in text and "K08" not in text
+    assert ", through" not in text  # no last year given
+
+
+def test_full_credit_below_a_cost_level_and_the_grid_headroom_default():
+    below = warning("full_credit_binds", criterion="cost_musd", count=1, level=9.0, benefit=False)
+    assert input_warning(below, NAMER) == (
+        "Cost: 1 corridor below the full-credit level 9 score as if at it (Criteria "
+        "full_credit_at)."
+    )
+    grid = warning(
+        "full_credit_binds", criterion="grid_headroom", count=3, level=5000.0, benefit=True
+    )
+    assert input_warning(grid, NAMER) == (
+        "Grid headroom: 3 corridors above the full-credit level 5,000 score as if at it "
+        "(Criteria full_credit_at, default for grid headroom)."
+    )
+
+
+def test_unplaced_corridors_past_ten_are_cut_short():
+    ids = [f"C{i}" for i in range(2, 14)]
+    text = input_warning(warning("corridors_unplaced", corridors=ids))
+    assert text.startswith(
+        "12 corridor(s) have no position (C2, C3, C4, C5, C6, C7, C8, C9, C10, C11 ...): "
+    )
+
+
+def test_without_a_namer_ids_and_keys_stand_for_themselves():
+    record = warning("correlated_pair", a="cost_musd", b="risk", rho=0.85, limit=0.8)
+    assert input_warning(record).startswith("cost_musd and risk are strongly rank-correlated")
 
 
 def test_inconsistent_pairwise_without_a_revisit_ends_at_the_triple():
