@@ -91,7 +91,9 @@ def count_parts(snapshot: bytes) -> dict[str, tuple[int, int, int | None]]:
     return out
 
 
-def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
+def carry_input_sheets(
+    inputs, drop: set[str], *, as_text: bool = False
+) -> tuple[Workbook, list[str]]:
     """Return a workbook holding the input's sheets as values, and warnings to report.
 
     Parameters
@@ -101,6 +103,10 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
         opened again).
     drop : set of str
         Titles of sheets not to carry (an earlier run's result sheets).
+    as_text : bool
+        Write the streamed copy's cells as XML text
+        (:func:`ranker.report.fastsave.add_rows`), the same cells once saved,
+        instead of cell objects; for a workbook saved right away.
 
     Returns
     -------
@@ -108,6 +114,8 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
         The workbook (input sheets only) and one warning per thing that was
         converted, left out or not carried.
     """
+    from .fastsave import save_bytes
+
     snapshot = inputs.snapshot
     counts = count_parts(snapshot)
     total = sum(c[0] for c in counts.values())
@@ -118,7 +126,7 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
     if total <= FULL_COPY_CELLS and big <= SHEET_CELLS:
         try:
             wb = _full_copy(snapshot, drop, notes)
-            wb.save(io.BytesIO())  # what loads but cannot be written again fails here, not later
+            save_bytes(wb)  # what loads but cannot be written again fails here, not later
         except Exception as exc:  # noqa: BLE001 - a part openpyxl cannot load: stream instead
             wb = None
             notes.clear()
@@ -134,7 +142,7 @@ def carry_input_sheets(inputs, drop: set[str]) -> tuple[Workbook, list[str]]:
             f"{total:,} cells, over the {FULL_COPY_CELLS:,} that are copied with formatting"
         )
     if wb is None:
-        wb = _value_copy(snapshot, drop, notes, counts)
+        wb = _value_copy(snapshot, drop, notes, counts, as_text=as_text)
     from .workbook import STATE_SHEET
 
     if STATE_SHEET in wb.sheetnames:  # the reader refused any sheet of that name but ours
@@ -247,10 +255,13 @@ def _plain_formats(ws) -> int:
     return gone
 
 
-def _value_copy(snapshot: bytes, drop: set[str], notes: list[str], counts: dict) -> Workbook:
+def _value_copy(
+    snapshot: bytes, drop: set[str], notes: list[str], counts: dict, *, as_text: bool
+) -> Workbook:
     """Stream every worksheet's values and number formats into a new workbook.
 
-    ``counts`` is :func:`count_parts` of the snapshot (counted once per run).
+    ``counts`` is :func:`count_parts` of the snapshot (counted once per run);
+    ``as_text`` as for :func:`carry_input_sheets`.
     """
     from ranker.workbook.schema import SHEETS, normalize_sheet_name
 
@@ -279,20 +290,8 @@ def _value_copy(snapshot: bytes, drop: set[str], notes: list[str], counts: dict)
             try:
                 ws.reset_dimensions()
                 # Rows past the last stored value hold nothing to carry: not parsed.
-                for row in ws.iter_rows(max_row=None if last is None else max(last, 1)):
-                    for c in row:
-                        v = getattr(c, "value", None)
-                        if v is None:
-                            continue
-                        if isinstance(v, str) and len(v) > CELL_CHARS:
-                            v, _ = fit_cell(v)
-                            cut += 1
-                        cell = target.cell(row=c.row, column=c.column, value=v)
-                        if isinstance(v, str):
-                            cell.data_type = "s"  # text stays text, whatever it starts with
-                        fmt = c.number_format
-                        if fmt and fmt != "General":
-                            cell.number_format = fmt
+                copy = _copy_as_text if as_text else _copy_cells
+                cut += copy(ws, target, None if last is None else max(last, 1))
             except Exception as exc:  # noqa: BLE001 - a damaged sheet part is the file's fault
                 out.remove(target)
                 notes.append(
@@ -307,6 +306,83 @@ def _value_copy(snapshot: bytes, drop: set[str], notes: list[str], counts: dict)
     if cut:
         notes.append(_cut_note(cut))
     return out
+
+
+def _copy_cells(ws, target, max_row: int | None) -> int:
+    """Copy the values and number formats of read-only sheet ``ws`` into ``target``.
+
+    Text stays text whatever it starts with; a number format other than
+    General is kept. Rows after ``max_row`` are not read. Returns how many
+    texts were cut to fit a cell [-].
+    """
+    cut = 0
+    for row in ws.iter_rows(max_row=max_row):
+        for c in row:
+            v = getattr(c, "value", None)
+            if v is None:
+                continue
+            if isinstance(v, str) and len(v) > CELL_CHARS:
+                v, _ = fit_cell(v)
+                cut += 1
+            cell = target.cell(row=c.row, column=c.column, value=v)
+            if isinstance(v, str):
+                cell.data_type = "s"  # text stays text, whatever it starts with
+            fmt = c.number_format
+            if fmt and fmt != "General":
+                cell.number_format = fmt
+    return cut
+
+
+def _copy_as_text(ws, target, max_row: int | None) -> int:
+    """Copy as :func:`_copy_cells` does, the cells written as XML text for ``target``.
+
+    Each cell is the text openpyxl's save writes for the cell object
+    :func:`_copy_cells` makes (:class:`ranker.report.fastsave.CellText`; a
+    date or time is made as that cell object and written by openpyxl); the
+    text goes with ``target`` (:func:`ranker.report.fastsave.add_rows`).
+    Returns how many texts were cut to fit a cell [-].
+    """
+    from openpyxl.cell import Cell
+
+    from .fastsave import CellText, add_rows
+
+    xml = CellText(target)
+    rows: dict[int, str] = {}
+    cut = 0
+    c0 = r0 = 1 << 30
+    c1 = r1 = 0
+    plain = (str, int, float, bool)
+    for row in ws.iter_rows(max_row=max_row):
+        parts = []
+        for c in row:
+            v = getattr(c, "value", None)
+            if v is None:
+                continue
+            if isinstance(v, str) and len(v) > CELL_CHARS:
+                v, _ = fit_cell(v)
+                cut += 1
+            fmt = c.number_format
+            fmt = fmt if fmt and fmt != "General" else None
+            r, col = c.row, c.column
+            if type(v) in plain:
+                parts.append(xml.value(c.coordinate, v, xml.style(fmt), text=True))
+            else:
+                cell = Cell(target, row=r, column=col, value=v)
+                if isinstance(v, str):
+                    cell.data_type = "s"
+                if fmt:
+                    cell.number_format = fmt
+                parts.append(xml.cell(cell))
+            if col < c0:
+                c0 = col
+            if col > c1:
+                c1 = col
+        if parts:
+            rows[r] = "".join(parts)
+            r0, r1 = min(r0, r), max(r1, r)
+    if rows:
+        add_rows(target, rows, (c0, r0, c1, r1))
+    return cut
 
 
 #: How a result sheet of this tool begins its second row (``SheetWriter.sheet``).

@@ -1,7 +1,11 @@
 """One function per result sheet of the results workbook.
 
 To add a sheet, write ``def my_sheet(writer, result)`` here and append it to
-:data:`WRITERS`; it is then written after the others on every run.
+:data:`WRITERS`; it is then written after the others on every run. In the
+results workbook a table's body is written as XML text, not cell objects
+(``SheetWriter(text_bodies=True)``): a sheet never reads or changes a body's
+cells after ``writer.table`` (it shades rows with ``fills=``), and the save
+refuses a cell made inside a body.
 """
 
 from __future__ import annotations
@@ -25,7 +29,15 @@ from .narrative import (
     tipping_sentences,
 )
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
-from .workbook import CAUTION, HEADER_FONT, WARN_FILL, bar_chart, colour_scale, put
+from .workbook import (
+    CAUTION,
+    HEADER_FONT,
+    WARN_FILL,
+    bar_chart,
+    colour_scale,
+    put,
+    safe_value,
+)
 
 #: Scored corridors above which the detail tables keep only the first corridors by rank:
 #: the tables of one row per corridor and criterion (tipping points, weight ranges) and
@@ -332,7 +344,9 @@ def robustness_sheet(writer, result) -> None:
     )
     row = 4
     if has_samples(rob):
-        acc = folded_acceptability(_kept(rob.acceptability.loc[result.ranking.index], keep))
+        # Rows picked before they are put in rank order: the whole n-by-n matrix is
+        # never copied (at 10,000 corridors, 800 MB).
+        acc = folded_acceptability(rob.acceptability.loc[_kept(result.ranking, keep).index])
         top, left, bottom, right = writer.table(
             ws,
             acc,
@@ -370,11 +384,9 @@ def robustness_sheet(writer, result) -> None:
         ]
     )
     if len(checks):
-        _, _, row, _ = writer.table(ws, checks, top=row + 1, name="reversal")
-        for r in range(row - len(checks) + 1, row + 1):
-            if ws.cell(row=r, column=2).value == "no":
-                for cc in range(1, 4):
-                    ws.cell(row=r, column=cc).fill = WARN_FILL
+        # A failed check's row is shaded (its "passed" cell reads "no").
+        fills = [WARN_FILL if safe_value(p) == "no" else None for p in checks["passed"]]
+        writer.table(ws, checks, top=row + 1, name="reversal", fills=fills)
 
 
 def more_robustness_sheet(writer, result) -> None:

@@ -7,22 +7,24 @@ duplicated, so "adjust weights and re-run" works on either file.
 
 from __future__ import annotations
 
-import io
 import math
 from collections.abc import Sequence
 
 import numpy as np
 import pandas as pd
+from openpyxl.cell import Cell
 from openpyxl.chart import BarChart, Reference
 from openpyxl.comments import Comment
 from openpyxl.formatting.rule import ColorScaleRule
 from openpyxl.packaging.custom import StringProperty
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.utils import get_column_letter
-from openpyxl.worksheet.table import Table, TableStyleInfo
+from openpyxl.worksheet.filters import AutoFilter
+from openpyxl.worksheet.table import Table, TableColumn, TableStyleInfo
 
 from ..files import MARKER
 from .carry import CELL_CHARS, fit_cell
+from .fastsave import CellText, add_rows, save_bytes
 
 SHEETS_PROPERTY = "ranker-sheets"
 #: Most rows and columns a result sheet freezes (title rows and the first header).
@@ -63,7 +65,11 @@ def safe_value(value):
 
 def put(ws, row: int, col: int, value, number_format: str | None = None):
     """Write one cell; text that looks like a formula stays text."""
-    cell = ws.cell(row=row, column=col)
+    return put_value(ws.cell(row=row, column=col), value, number_format)
+
+
+def put_value(cell, value, number_format: str | None = None):
+    """Give ``cell`` a value as :func:`put` does; return it."""
     value = safe_value(value)
     if type(value) is str and len(value) > CELL_CHARS:  # a spreadsheet cell's limit
         value = fit_cell(value)[0]
@@ -78,10 +84,18 @@ def put(ws, row: int, col: int, value, number_format: str | None = None):
 class SheetWriter:
     """Add result sheets to a workbook, each with a title, table and print setup."""
 
-    def __init__(self, wb, version: str, stamp: str):
+    def __init__(self, wb, version: str, stamp: str, *, text_bodies: bool = False):
+        """Write into ``wb``; with ``text_bodies``, table bodies go in as XML text.
+
+        Text bodies (:func:`_text_body`) save faster and read back the same
+        but are no cell objects: only a writer whose workbook is saved right
+        away and never read (:func:`build_workbook`) asks for them, and only
+        :func:`ranker.report.fastsave.save_bytes` saves them.
+        """
         self.wb = wb
         self.version = version
         self.stamp = stamp
+        self.text_bodies = text_bodies
         self.names: list[str] = []
         #: Sheet name to its title (what the sheet holds), for the contents sheet.
         self.titles: dict[str, str] = {}
@@ -98,7 +112,8 @@ class SheetWriter:
             return
         self._frozen.add(ws.title)
         if top <= FREEZE_ROWS and left <= FREEZE_COLUMNS:
-            ws.freeze_panes = ws.cell(row=top + 1, column=left + 1)
+            # A reference, not ws.cell(): the body may be text (:func:`_text_body`).
+            ws.freeze_panes = f"{get_column_letter(left + 1)}{top + 1}"
         else:  # the first table starts lower: keep only the two title rows in view
             ws.freeze_panes = "A3"
 
@@ -142,9 +157,13 @@ class SheetWriter:
         notes: dict[str, str] | None = None,
         name: str | None = None,
         index_label: str | None = None,
+        fills: Sequence | None = None,
     ) -> tuple[int, int, int, int]:
         """Write ``frame`` (with its index as the first column) as an Excel table.
 
+        ``fills`` gives each row of the body a fill (None: none). The body's
+        cells are what :func:`put` writes (:func:`_cell_body`), or the same as
+        XML text (:func:`_text_body`) on a writer of ``text_bodies``.
         Returns the (top, left, bottom, right) of the range written.
         """
         units = units or {}
@@ -163,12 +182,8 @@ class SheetWriter:
                 cell.comment = Comment(notes[h], "ranker")
         values = data.to_numpy(dtype=object)
         # A column listed in ``formats`` takes that format, even when it is None.
-        fixed = [(h in formats, formats.get(h)) for h in headers]
-        for i, row in enumerate(values):
-            r = top + 1 + i
-            for j, v in enumerate(row):
-                has, fmt = fixed[j]
-                put(ws, r, left + j, v, fmt if has else _default_format(v))
+        body = _text_body if self.text_bodies else _cell_body
+        body(ws, values, top + 1, left, [(h in formats, formats.get(h)) for h in headers], fills)
         bottom = top + max(1, len(values))
         right = left + len(headers) - 1
         for j, h in enumerate(headers):
@@ -190,13 +205,84 @@ class SheetWriter:
                 seen.add(text)
                 cell.value = text
                 cell.data_type = "s"  # a heading is text, whatever it starts with
-            tab = Table(displayName=table_name, ref=ref)
+            # The columns named here, as openpyxl names them from the header cells when
+            # it saves (which would look up every cell of the table to read one row).
+            tab = Table(
+                displayName=table_name,
+                ref=ref,
+                autoFilter=AutoFilter(ref=ref),
+                tableColumns=[
+                    TableColumn(id=left + j, name=ws.cell(row=top, column=left + j).value)
+                    for j in range(len(headers))
+                ],
+            )
             tab.tableStyleInfo = TableStyleInfo(name="TableStyleLight9", showRowStripes=True)
             ws.add_table(tab)
         self.freeze(ws, top, left)
         if len(headers) > 7:
             ws.page_setup.orientation = "landscape"
         return top, left, bottom, right
+
+
+def _cell_body(ws, values, top: int, left: int, formats: list, fills: Sequence | None) -> None:
+    """Write a table's body with :func:`put`, cell by cell.
+
+    ``values`` are the rows, written from row ``top`` and column ``left``
+    on; ``formats`` holds per column whether it has a fixed number format
+    and which (else :func:`_default_format` of each value); ``fills`` a fill
+    per row, or None.
+    """
+    for i, row in enumerate(values):
+        r = top + i
+        fill = None if fills is None else fills[i]
+        for j, v in enumerate(row):
+            has, fmt = formats[j]
+            cell = put(ws, r, left + j, v, fmt if has else _default_format(v))
+            if fill is not None:
+                cell.fill = fill
+
+
+def _text_body(ws, values, top: int, left: int, formats: list, fills: Sequence | None) -> None:
+    """Write a table's body as :func:`_cell_body` does, as XML text.
+
+    Each cell gets the value, data type and style :func:`_cell_body` gives
+    it, written as openpyxl would save it
+    (:class:`ranker.report.fastsave.CellText`); the text goes with the
+    sheet (:func:`ranker.report.fastsave.add_rows`) instead of cell objects.
+    """
+    text = CellText(ws)
+    value_cell, style = text.value, text.style
+    letters = [get_column_letter(left + j) for j in range(len(formats))]
+    rows: dict[int, str] = {}
+    for i, row in enumerate(values):
+        r = top + i
+        fill = None if fills is None else fills[i]
+        plain = style(None, fill)
+        parts = []
+        for j, v in enumerate(row):
+            ref = f"{letters[j]}{r}"
+            has, fmt = formats[j]
+            value = safe_value(v)
+            kind = type(value)
+            if kind is str:
+                if len(value) > CELL_CHARS:  # a spreadsheet cell's limit
+                    value = fit_cell(value)[0]
+                formula = value.startswith(_FORMULA_START)
+                parts.append(value_cell(ref, value, plain, text=formula))
+            elif kind is float or kind is int or value is None:
+                if not has:
+                    fmt = _default_format(v)
+                number = style(fmt, fill) if fmt and value is not None else plain
+                parts.append(value_cell(ref, value, number))
+            else:  # a subclass of int that safe_value keeps: a cell object, as put() makes it
+                cell = Cell(ws, row=r, column=left + j)
+                put_value(cell, value, fmt if has else _default_format(v))
+                if fill is not None:
+                    cell.fill = fill
+                parts.append(text.cell(cell))
+        rows[r] = "".join(parts)
+    if rows:
+        add_rows(ws, rows, (left, top, left + len(formats) - 1, top + len(rows) - 1))
 
 
 def _default_format(value) -> str | None:
@@ -300,16 +386,31 @@ def _write_state(wb, state: dict) -> None:
 
 
 def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
-    """Return the bytes of the results workbook for ``result``."""
+    """Return the bytes of the results workbook for ``result``.
+
+    The workbook (:func:`results_workbook`, its big blocks of cells as XML
+    text) saved with :func:`ranker.report.fastsave.save_bytes`.
+    """
+    return save_bytes(results_workbook(result, extra_writers=extra_writers, text=True))
+
+
+def results_workbook(result, *, extra_writers: Sequence = (), text: bool = False):
+    """Return the results workbook for ``result``, not yet saved.
+
+    With ``text``, the table bodies and the streamed copy of the input's
+    sheets are written as XML text, not cell objects (the same cells once
+    saved with :func:`ranker.report.fastsave.save_bytes`, which alone can
+    save them); without, every cell is a cell object.
+    """
     from . import sheets
     from .carry import carry_input_sheets, earlier_result_sheets
 
     # The input's sheets as values, from the bytes the reader read (never the file again).
     snapshot = result.inputs.snapshot
-    wb, notes = carry_input_sheets(result.inputs, earlier_result_sheets(snapshot))
+    wb, notes = carry_input_sheets(result.inputs, earlier_result_sheets(snapshot), as_text=text)
     result.warnings.extend(n for n in notes if n not in result.warnings)
     wb.template = False  # an .xltx input still gives an ordinary workbook
-    writer = SheetWriter(wb, result.tool_version, result.started)
+    writer = SheetWriter(wb, result.tool_version, result.started, text_bodies=text)
     for write in sheets.WRITERS + list(extra_writers):
         write(writer, result)
     sheets.contents_sheet(writer, result)
@@ -322,9 +423,7 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     wb.active = wb.sheetnames.index(writer.names[0])
     for ws in wb.worksheets:
         ws.sheet_view.tabSelected = ws.title == writer.names[0]
-    buf = io.BytesIO()
-    wb.save(buf)
-    return buf.getvalue()
+    return wb
 
 
 def bar_chart(
