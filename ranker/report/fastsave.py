@@ -263,13 +263,7 @@ def sheet_rows(ws, rows, blocks=()) -> list[str]:
     out: list[str] = []
     part: list[str] = []
     for n, (row_idx, cells) in enumerate(rows, start=1):
-        if row_idx in dims:  # a height, a hidden row, a row style: openpyxl's attributes
-            attrs = {"r": f"{row_idx}"}
-            attrs.update(dims[row_idx])
-            part.append("<row" + "".join(f' {k}="{_attribute(v)}"' for k, v in attrs.items()))
-            part.append(">")
-        else:
-            part.append(f'<row r="{row_idx}">')
+        part.append(_row_start(row_idx, dims))
         pending = sorted(texts.get(row_idx, ()), key=lambda b: b.min_col)
         for cell in cells:
             column = cell.column
@@ -280,26 +274,9 @@ def sheet_rows(ws, rows, blocks=()) -> list[str]:
                         "inside rows written as text"
                     )
                 part.append(pending.pop(0).rows[row_idx])
-            if cell._comment is not None:
-                ws._comments.append(CommentRecord.from_cell(cell))
-            style = cell._style
-            styled = style is not None and any(style)
-            value = cell._value
-            if value is None and not styled and not cell._comment:
-                continue
-            kind = cell.data_type
-            if kind == "d" or type(value) not in _PLAIN:  # openpyxl's own writer
-                part.append(openpyxl_cell_xml(ws, cell, styled))
-                continue
-            letter = letters.get(column)
-            if letter is None:
-                letter = letters[column] = get_column_letter(column)
-            head = f'<c r="{letter}{row_idx}"'
-            if styled:
-                head += f' s="{styles.add(style)}"'
-            if cell._hyperlink:
-                ws._hyperlinks.append(cell._hyperlink)
-            part.append(_value_xml(head, kind, value))
+            xml = _cell_xml(ws, cell, row_idx, styles, letters)
+            if xml:
+                part.append(xml)
         for block in pending:
             part.append(block.rows[row_idx])
         part.append("</row>")
@@ -308,6 +285,41 @@ def sheet_rows(ws, rows, blocks=()) -> list[str]:
             part = []
     out.append("".join(part))
     return out
+
+
+def _row_start(row_idx: int, dims) -> str:
+    """The row's start tag, with openpyxl's attributes where the row has a height,
+    a hidden flag or a style."""
+    if row_idx not in dims:
+        return f'<row r="{row_idx}">'
+    attrs = {"r": f"{row_idx}"}
+    attrs.update(dims[row_idx])
+    return "<row" + "".join(f' {k}="{_attribute(v)}"' for k, v in attrs.items()) + ">"
+
+
+def _cell_xml(ws, cell, row_idx: int, styles, letters: dict[int, str]) -> str:
+    """One cell object's XML ("" for an empty unstyled cell), collecting its comment
+    and hyperlink on ``ws`` and registering its style, as openpyxl's save does."""
+    if cell._comment is not None:
+        ws._comments.append(CommentRecord.from_cell(cell))
+    style = cell._style
+    styled = style is not None and any(style)
+    value = cell._value
+    if value is None and not styled and not cell._comment:
+        return ""
+    kind = cell.data_type
+    if kind == "d" or type(value) not in _PLAIN:  # openpyxl's own writer
+        return openpyxl_cell_xml(ws, cell, styled)
+    column = cell.column
+    letter = letters.get(column)
+    if letter is None:
+        letter = letters[column] = get_column_letter(column)
+    head = f'<c r="{letter}{row_idx}"'
+    if styled:
+        head += f' s="{styles.add(style)}"'
+    if cell._hyperlink:
+        ws._hyperlinks.append(cell._hyperlink)
+    return _value_xml(head, kind, value)
 
 
 class _Capture:
