@@ -1,4 +1,5 @@
-"""The public entry point: degenerate inputs finish with warnings, bad input names its sheet."""
+"""ranker.stress.run, the stress stage's entry point: degenerate inputs finish with warnings,
+bad input names its sheet."""
 
 from __future__ import annotations
 
