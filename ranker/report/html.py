@@ -147,6 +147,7 @@ def build_html(result) -> str:
     context = {
         "marker": HTML_MARKER,
         "r": result,
+        "vikor_note": narrative.vikor_note(result.scores.vikor) if result.scores.vikor else "",
         "rows": rows,
         "methods": methods,
         "primary": primary,

@@ -14,6 +14,7 @@ import pandas as pd
 
 from .words import Namer, listing, share_text
 from .words.basic import fmt
+from .words.methods import vikor_note  # noqa: F401 (the one door for words)
 
 
 def recommendation(result) -> list[str]:

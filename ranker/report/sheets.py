@@ -27,6 +27,7 @@ from .narrative import (
     reversal_sentences,
     stakeholders,
     tipping_sentences,
+    vikor_note,
 )
 from .summary import SHOWN_CORRIDORS, folded_acceptability, has_samples
 from .workbook import (
@@ -273,7 +274,7 @@ def methods_sheet(writer, result) -> None:
         put(
             ws, bottom + 2, 1, f"VIKOR compromise (v = {v.get('v')}), Opricovic and Tzeng (2004)"
         ).font = HEADER_FONT
-        put(ws, bottom + 3, 1, v.get("note", ""))
+        put(ws, bottom + 3, 1, vikor_note(v))
         put(
             ws,
             bottom + 4,

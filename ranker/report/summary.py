@@ -59,7 +59,7 @@ def summary_json(result) -> dict:
     """Return the JSON summary of ``result`` (every contract field, plus more)."""
     from ..changes import json_changes
     from ..files import shown
-    from .narrative import assumptions_used, futures
+    from .narrative import assumptions_used, futures, vikor_note
 
     s = result.scores
     rob = result.robustness
@@ -123,7 +123,7 @@ def summary_json(result) -> dict:
             "kendall": s.agreement["kendall"].to_dict() if "kendall" in s.agreement else {},
             "spearman": s.agreement["spearman"].to_dict() if "spearman" in s.agreement else {},
             "movers": s.agreement.get("movers", []),
-            "vikor": s.vikor,
+            "vikor": {**s.vikor, "note": vikor_note(s.vikor)} if s.vikor else s.vikor,
         },
         "seed": result.seed,
         "ranking": ranking,

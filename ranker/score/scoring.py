@@ -56,8 +56,8 @@ class Scores:
         When VIKOR ran: ``v``, ``dq`` [-], ``S``, ``R``, ``Q`` (corridor_id to
         value [-]), ``best``, ``second`` (corridor ids), ``advantage``
         (``Q(a'') - Q(a')`` [-]), ``acceptable_advantage``,
-        ``acceptable_stability`` (bool), ``compromise_set`` (corridor ids)
-        and ``note`` (one sentence).
+        ``acceptable_stability`` (bool) and ``compromise_set`` (corridor
+        ids); the words are :func:`ranker.report.narrative.vikor_note`.
     agreement : dict
         ``kendall`` and ``spearman`` (method x method DataFrames [-]) and
         ``movers``: ``{corridor_id, method, rank, primary_rank, shift}`` for
@@ -121,21 +121,6 @@ def _vikor_summary(x, w, benefit, v, index) -> dict:
     best = ids[order[0]]
     second = ids[order[1]] if len(order) > 1 else None
     chosen = [ids[i] for i in c["compromise_set"]]
-    if c["acceptable_advantage"] and c["acceptable_stability"]:
-        note = f"{best} is the single compromise solution (both conditions hold)."
-    else:
-        failed = [
-            name
-            for name, ok in (
-                ("acceptable advantage", c["acceptable_advantage"]),
-                ("acceptable stability", c["acceptable_stability"]),
-            )
-            if not ok
-        ]
-        note = (
-            f"No single compromise solution ({' and '.join(failed)} not met); "
-            f"the compromise set is {', '.join(map(str, chosen))}."
-        )
     return {
         "v": float(v),
         "dq": c["dq"],
@@ -148,7 +133,6 @@ def _vikor_summary(x, w, benefit, v, index) -> dict:
         "acceptable_advantage": c["acceptable_advantage"],
         "acceptable_stability": c["acceptable_stability"],
         "compromise_set": chosen,
-        "note": note,
     }
 
 

@@ -1,0 +1,53 @@
+"""ranker.report.words.methods: VIKOR's compromise in words.
+
+The two conditions are those of Opricovic & Tzeng (2004), "Compromise
+solution by MCDM methods: A comparative analysis of VIKOR and TOPSIS",
+European Journal of Operational Research 156(2):445-455: acceptable
+advantage and acceptable stability; the sentences are pinned as literals.
+"""
+
+from __future__ import annotations
+
+import pytest
+
+from ranker.report.words.methods import vikor_note
+
+
+def _v(advantage, stability, chosen):
+    return {
+        "best": chosen[0],
+        "acceptable_advantage": advantage,
+        "acceptable_stability": stability,
+        "compromise_set": chosen,
+    }
+
+
+@pytest.mark.parametrize(
+    "advantage, stability, chosen, want",
+    [
+        (True, True, ["A"], "A is the single compromise solution (both conditions hold)."),
+        (
+            False,
+            True,
+            ["A", "B", "C"],
+            "No single compromise solution (acceptable advantage not met); "
+            "the compromise set is A, B, C.",
+        ),
+        (
+            True,
+            False,
+            ["A", "B"],
+            "No single compromise solution (acceptable stability not met); "
+            "the compromise set is A, B.",
+        ),
+        (
+            False,
+            False,
+            ["B", "A"],
+            "No single compromise solution (acceptable advantage and acceptable stability "
+            "not met); the compromise set is B, A.",
+        ),
+    ],
+)
+def test_vikor_note(advantage, stability, chosen, want):
+    assert vikor_note(_v(advantage, stability, chosen)) == want
