@@ -225,6 +225,7 @@ def _brief(result) -> dict:
         "tiers": shown,
         "more": more,
         "rule": narrative.tier_rule(result),
+        "methods": narrative.methods_on_first_tier(result),
         "funded": narrative.funded_by_year(result),
         "first_waits": narrative.first_ranked_waits(result),
         "provenance": narrative.provenance_line(result),

@@ -14,7 +14,10 @@ import pandas as pd
 
 from .words import Namer, listing, share_text
 from .words.basic import fmt
-from .words.methods import vikor_note  # noqa: F401 (the one door for words)
+from .words.methods import (
+    first_tier_sentence,
+    vikor_note,  # noqa: F401 (the one door for words)
+)
 
 
 def recommendation(result) -> list[str]:
@@ -124,6 +127,31 @@ def _swap_words(entering: str, leaving: str, count: int, result) -> str:
     if size == 1:
         return f"{entering} would take first place from {leaving}."
     return f"{entering} would rank among the first {size} in place of {leaving}."
+
+
+def methods_on_first_tier(result) -> str:
+    """For the brief: do the other methods rank the first tier's corridors within its size?
+
+    "" when only one method ran or every corridor is in the first tier.
+    """
+    s = result.scores
+    p = result.primary_method
+    others = [m for m in s.scores.columns if m != p]
+    groups = tier_groups(result)
+    if not others or len(groups) < 2:
+        return ""
+    first = groups[0]
+    size = len(first["ids"])
+    labels = method_labels(list(s.scores.columns))
+    outside = {
+        labels[m]: [
+            (name, int(s.ranks[m][cid]))
+            for cid, name in zip(first["ids"], first["names"], strict=True)
+            if int(s.ranks[m][cid]) > size
+        ]
+        for m in others
+    }
+    return first_tier_sentence(outside, size)
 
 
 def agreement_sentence(result) -> str:

@@ -20,7 +20,7 @@ import pytest
 
 from ranker import rank_workbook
 from ranker.report import narrative as N
-from ranker.report.words import Namer
+from ranker.report.words import Namer, ordinal
 from ranker.report.workbook import CAUTION
 from ranker.workbook.tables import CriterionSpec
 from tests.conftest import make_workbook
@@ -506,3 +506,27 @@ def test_run_level_words_without_a_stress_test():
     assert N.tipping_sentences(r) == []
     assert N.stakeholders(r) is None
     assert N.stress_warnings(r) == []
+
+
+def test_methods_on_first_tier_checks_every_other_method(run):
+    """The brief's sentence names each first-tier corridor another method ranks below
+    the tier's size, with that rank, read from the Methods ranks themselves."""
+    groups = N.tier_groups(run)
+    sentence = N.methods_on_first_tier(run)
+    if len(groups) < 2 or len(run.scores.scores.columns) < 2:
+        assert sentence == ""
+        return
+    first, size = groups[0], len(groups[0]["ids"])
+    labels = N.method_labels(list(run.scores.scores.columns))
+    assert sentence.startswith("By the other methods: ")
+    for m in run.scores.scores.columns:
+        if m == run.primary_method:
+            continue
+        low = [
+            (name, int(run.scores.ranks[m][cid]))
+            for cid, name in zip(first["ids"], first["names"], strict=True)
+            if int(run.scores.ranks[m][cid]) > size
+        ]
+        assert labels[m] in sentence
+        for name, rank in low[:3]:
+            assert f"{name} {ordinal(rank)}" in sentence

@@ -51,3 +51,23 @@ def _v(advantage, stability, chosen):
 )
 def test_vikor_note(advantage, stability, chosen, want):
     assert vikor_note(_v(advantage, stability, chosen)) == want
+
+
+def test_first_tier_by_the_other_methods():
+    from ranker.report.words.methods import first_tier_sentence
+
+    assert first_tier_sentence({"Weighted sum": [], "VIKOR (Q)": [("A", 10)]}, 8) == (
+        "By the other methods: VIKOR (Q) ranks A 10th, outside its first 8; "
+        "Weighted sum ranks the same 8 corridors first."
+    )
+    assert first_tier_sentence({"Weighted sum": [("B", 4)]}, 1) == (
+        "By the other methods: Weighted sum ranks B 4th, not first."
+    )
+    assert first_tier_sentence({"Weighted sum": [], "VIKOR (Q)": []}, 1) == (
+        "By the other methods: Weighted sum and VIKOR (Q) rank the same corridor first."
+    )
+    many = [("A", 9), ("B", 11), ("C", 12), ("D", 13), ("E", 14)]
+    assert first_tier_sentence({"VIKOR (Q)": many}, 8) == (
+        "By the other methods: VIKOR (Q) ranks A 9th, B 11th, C 12th and 2 more, "
+        "outside its first 8."
+    )
