@@ -3,9 +3,8 @@
 Two pieces every analysis shares:
 
 * :func:`rank_batch` ranks a whole stack of score vectors by sorting, in
-  ``O(s n log n)`` time and ``O(s n)`` memory, with the same tie rule as
-  :func:`ranker.score.ranks.rank_scores` (which compares every pair and so
-  needs ``O(s n^2)`` memory).
+  ``O(s n log n)`` time and ``O(s n)`` memory: the one ranking rule, kept
+  in :mod:`ranker.score.ranks` and re-exported here.
 * :class:`Scorer` wraps a method kernel ``kernel(matrix, weights, is_benefit,
   **opts) -> scores`` and scores one matrix under many weight vectors, or
   many matrices (a stack) under one weight vector each. Scores come back
@@ -20,7 +19,7 @@ variants of the rank-reversal checks and the two-corridor sub-problems of
 tests 2 and 3 all go through :meth:`Scorer.stack`. Chunks are sized so that
 no intermediate array holds more than :data:`ELEMENT_BUDGET` numbers.
 
-Tie rule (documented once here, used everywhere in ``ranker.stress``):
+Tie rule (of :mod:`ranker.score.ranks`, used everywhere in ``ranker.stress``):
 corridor ``a`` beats ``b`` when ``g_a - g_b > TIE_RTOL * max(|g_a|, |g_b|)``;
 its rank is 1 + the number of corridors that beat it ("competition" ranking,
 1, 2, 2, 4). Where shares of ranks are counted (rank acceptability), a
@@ -36,7 +35,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ranker.score.ranks import TIE_RTOL
+from ranker.score.ranks import beat_thresholds, rank_batch, rank_bounds
+
+__all__ = ["beat_thresholds", "rank_batch", "rank_bounds"]  # re-exported for the stress modules
 
 #: Largest number of float64 elements one kernel call is asked to build per
 #: intermediate array (a stack of s matrices of n x k counts s*n*k) [-]. At
@@ -44,119 +45,6 @@ from ranker.score.ranks import TIE_RTOL
 #: measured about twice as fast per element as 32 MiB chunks, while the
 #: per-call overhead stays negligible.
 ELEMENT_BUDGET = 262_144
-
-
-def beat_thresholds(goodness: np.ndarray) -> np.ndarray:
-    """Return, for each score, the value another score must exceed to beat it [-].
-
-    ``b`` beats ``a`` when ``g_b - g_a > TIE_RTOL * max(|g_a|, |g_b|)``. For a
-    fixed ``g_a`` the left side minus the right grows with ``g_b``, so the
-    set of beaters is every score above one threshold ``t(g_a)``:
-    ``g_a / (1 - TIE_RTOL)`` for ``g_a >= 0`` and ``g_a (1 - TIE_RTOL)`` for
-    ``g_a < 0``. Both pieces increase with ``g_a``.
-
-    Parameters
-    ----------
-    goodness : ndarray
-        Oriented scores, higher is better [-].
-
-    Returns
-    -------
-    ndarray
-        Thresholds, same shape [-].
-    """
-    g = np.asarray(goodness, dtype=float)
-    return g * np.where(g >= 0, 1.0 / (1.0 - TIE_RTOL), 1.0 - TIE_RTOL)
-
-
-def _count_above(g: np.ndarray, order: np.ndarray, values: np.ndarray) -> np.ndarray:
-    """Count, per element, how many elements of its row beat it (rows given sorted)."""
-    s, n = g.shape
-    thresholds = beat_thresholds(values)  # ascending too: the map is monotone
-    # Sorted ascending, element i is beaten by every later element above its
-    # threshold. The threshold is at least the value itself, so the later
-    # elements not above it (at most it: a value equal to a threshold does not
-    # beat) are the next few in a row: step through them, one offset at a
-    # time, for as long as any row has one left (the largest tie group).
-    not_above = np.zeros((s, n), dtype=np.int64)
-    still = np.ones((s, n - 1), dtype=bool)
-    for d in range(1, n):
-        still = still[:, : n - d] & (values[:, d:] <= thresholds[:, : n - d])
-        if not still.any():
-            break
-        not_above[:, : n - d] += still
-    counts_sorted = n - 1 - np.arange(n) - not_above
-    counts = np.empty_like(counts_sorted)
-    np.put_along_axis(counts, order, counts_sorted, axis=1)
-    return counts
-
-
-def _low_high(goodness: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Competition rank and worst tied position of every element, row by row."""
-    g = np.atleast_2d(np.asarray(goodness, dtype=float))
-    s, n = g.shape
-    order = np.argsort(g, axis=1)
-    flat = (order + (np.arange(s) * n)[:, None]).ravel()
-    values = g.ravel()[flat].reshape(s, n)
-    # Sorted ascending, a row has no ties when each value beats the one below
-    # it; then it beats every lower one too and the rank is the position.
-    tied_rows = np.nonzero((values[:, 1:] <= beat_thresholds(values[:, :-1])).any(axis=1))[0]
-    low = np.empty((s, n), dtype=np.int64)
-    low.ravel()[flat] = np.tile(np.arange(n, 0, -1), s)
-    high = low.copy()
-    if tied_rows.size:
-        sub = g[tied_rows]
-        sub_order = order[tied_rows]
-        low[tied_rows] = 1 + _count_above(sub, sub_order, values[tied_rows])
-        neg_order = sub_order[:, ::-1]
-        neg_values = -values[tied_rows][:, ::-1]
-        high[tied_rows] = n - _count_above(-sub, neg_order, neg_values)
-    return low, high
-
-
-def rank_batch(goodness: np.ndarray) -> np.ndarray:
-    """Rank oriented scores row by row, 1 = best, ties sharing a rank (1, 2, 2, 4).
-
-    Equal to :func:`ranker.score.ranks.rank_scores` (``higher_is_better=True``)
-    but by sorting instead of comparing every pair, so a stack of 10,000
-    rows of 1,000 scores needs megabytes, not gigabytes.
-
-    Parameters
-    ----------
-    goodness : ndarray, shape (n,) or (s, n)
-        Oriented scores, higher is better [-]; must be finite.
-
-    Returns
-    -------
-    ndarray of int, same shape
-        Competition ranks [-].
-
-    Examples
-    --------
-    >>> rank_batch(np.array([0.2, 0.9, 0.2, 0.5]))
-    array([3, 1, 3, 2])
-    """
-    g = np.asarray(goodness, dtype=float)
-    return _low_high(g)[0].reshape(g.shape)
-
-
-def rank_bounds(goodness: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Return the best and worst position each score's tie group occupies.
-
-    ``low`` is the competition rank (1 + number that beat it); ``high`` is
-    ``n`` minus the number it beats. Without ties ``low == high``.
-
-    Parameters
-    ----------
-    goodness : ndarray, shape (s, n)
-        Oriented scores, higher is better [-].
-
-    Returns
-    -------
-    low, high : ndarray of int, shape (s, n)
-        Positions, 1 = best [-].
-    """
-    return _low_high(goodness)
 
 
 def first_share(goodness: np.ndarray, i: int) -> np.ndarray:

@@ -9,7 +9,18 @@ from hypothesis import strategies as st
 from hypothesis.extra import numpy as hnp
 from scipy.stats import rankdata
 
-from ranker.score.ranks import TIE_RTOL, rank_scores, rank_scores_pairwise, tie_groups
+from ranker.score.ranks import TIE_RTOL, rank_scores, tie_groups
+
+
+def rank_scores_pairwise(scores, *, higher_is_better=True):
+    """The definition as an all-pairs comparison: 1 + how many scores beat each one by
+    more than TIE_RTOL times the larger magnitude (O(n^2) memory; the reference)."""
+    s = np.asarray(scores, dtype=float)
+    s = s if higher_is_better else -s
+    flat = s.reshape(-1, s.shape[-1])
+    a, b = flat[:, :, None], flat[:, None, :]  # [r, i, j]: does j beat i?
+    beats = (b - a) > TIE_RTOL * np.maximum(np.abs(a), np.abs(b))
+    return (1 + beats.sum(axis=2)).reshape(s.shape)
 
 
 def test_equal_scores_share_a_rank_and_the_next_is_skipped():
