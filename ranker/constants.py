@@ -13,8 +13,10 @@ The values equal ``scipy.constants`` (``mile / kilo``, ``foot``, ``pound``, ``g`
 
 from __future__ import annotations
 
+#: Metres per international mile [m/mi] [1]_.
+M_PER_MI = 1609.344
 #: Kilometres per international mile, 1609.344 m [km/mi] [1]_.
-KM_PER_MI = 1.609344
+KM_PER_MI = M_PER_MI / 1000.0
 #: Metres per international foot, 12 inches of 0.0254 m [m/ft] [1]_.
 M_PER_FT = 12 * 0.0254
 #: Kilograms per international avoirdupois pound, 7000 grains of 64.79891 mg [kg/lb] [1]_.

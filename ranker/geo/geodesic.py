@@ -14,8 +14,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
-#: Metres in one international mile [m/mi].
-M_PER_MI = 1609.344
+from ..constants import M_PER_MI
 
 
 def geodesic_m(lon1: float, lat1: float, lon2: float, lat2: float) -> float:

@@ -22,7 +22,8 @@ from html import escape
 import numpy as np
 import pandas as pd
 
-from ..geo.geodesic import M_PER_MI, line_length_mi
+from ..constants import M_PER_MI
+from ..geo.geodesic import line_length_mi
 from ..geo.projection import laea, network_centre
 from ..geo.tiers import corridor_tiers
 from .charts import AXIS, WIDTH
