@@ -87,3 +87,12 @@ def test_critic_constant_column_gets_zero_and_others_still_sum_to_one():
     x = np.array([[1.0, 5.0, 3.0], [2.0, 5.0, 1.0], [4.0, 5.0, 2.0]])
     w = critic_weights(x, np.array([True, True, False]))
     assert w[1] == 0.0 and w.sum() == pytest.approx(1.0)
+
+
+def test_entropy_weights_of_constant_criteria_are_equal():
+    """Every criterion constant: no criterion diversifies the corridors, so the entropy
+    weights fall back to equal shares 1/k (the entropy method's d_j / sum d is 0/0 there;
+    common practice), summing to 1."""
+    x = np.array([[2.0, 5.0, 1.0, 7.0], [2.0, 5.0, 1.0, 7.0], [2.0, 5.0, 1.0, 7.0]])
+    w = entropy_weights(x)
+    assert np.allclose(w, 0.25) and w.sum() == pytest.approx(1.0)

@@ -72,3 +72,15 @@ def test_every_corridor_failing_names_the_limit_cells():
         screen(MATRIX, crit, make_inputs(crit, []))
     assert [p.where for p in err.value.problems] == ["Criteria!F2", "Criteria!G3"]
     assert "every corridor fails" in err.value.problems[0].what
+
+
+def test_exclusions_are_listed_in_corridor_order_then_criterion_order():
+    """K1 and K3 fail the cost limit, K2 the trucks limit: listed K1, K2, K3 (the
+    corridors' order), not grouped by criterion."""
+    crit = _crit(at_least=1000.0, at_most=10.0)
+    _, excluded = screen(MATRIX, crit, make_inputs(crit, []))
+    assert [(e["corridor_id"], e["criterion"]) for e in excluded] == [
+        ("K1", "capital_cost"),
+        ("K2", "trucks"),
+        ("K3", "capital_cost"),
+    ]

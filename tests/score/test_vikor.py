@@ -186,3 +186,11 @@ def test_vikor_tied_best_q_fails_advantage():
     c = vikor_conditions(q, q, q)
     assert not c["acceptable_advantage"]
     assert sorted(c["compromise_set"]) == [0, 1]
+
+
+def test_one_corridor_is_the_single_compromise():
+    """With one alternative both conditions of Opricovic & Tzeng (2004) hold trivially:
+    it is the compromise solution (common practice: nothing to compare it with)."""
+    c = vikor_conditions(np.array([0.0]), np.array([0.0]), np.array([0.0]))
+    assert c["acceptable_advantage"] is True and c["acceptable_stability"] is True
+    assert c["compromise_set"] == [0] and c["order"] == [0]
