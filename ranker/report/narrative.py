@@ -265,7 +265,7 @@ def assumptions_used(result) -> list[dict]:
     """
     from ..assumptions import ASSUMPTIONS
 
-    def plain(value):
+    def shown(value):  # as a person reads it (not the JSON cleaner ranker.plain)
         if isinstance(value, tuple):
             return ", ".join(value)
         if isinstance(value, bool):
@@ -277,8 +277,8 @@ def assumptions_used(result) -> list[dict]:
     for k, a in ASSUMPTIONS.items():
         if k not in result.assumptions:
             continue
-        value = plain(result.assumptions[k])
-        default = plain(a.default)
+        value = shown(result.assumptions[k])
+        default = shown(a.default)
         changed = k in given and value != default
         rows.append(
             {
