@@ -13,7 +13,7 @@ import numpy as np
 import pandas as pd
 
 from .words import Namer, listing, share_text
-from .words.basic import fmt
+from .words.basic import fmt, method_label
 from .words.methods import (
     first_tier_sentence,
     vikor_note,  # noqa: F401 (the one door for words)
@@ -240,9 +240,7 @@ def consistency_text(c: dict | None) -> str:
 
 def method_labels(methods) -> dict:
     """Method key to its label for people (TOPSIS, Weighted sum, VIKOR (Q))."""
-    from ..score import METHODS
-
-    return {m: METHODS[m].label if m in METHODS else m for m in methods}
+    return {m: method_label(m) for m in methods}
 
 
 def _shown(value) -> str:
@@ -265,7 +263,7 @@ def assumptions_used(result) -> list[dict]:
     """
     from ..assumptions import ASSUMPTIONS
 
-    def shown(value):  # as a person reads it (not the JSON cleaner ranker.plain)
+    def cell_value(value):  # as the table's cell holds it: a list joined, yes or no
         if isinstance(value, tuple):
             return ", ".join(value)
         if isinstance(value, bool):
@@ -277,8 +275,8 @@ def assumptions_used(result) -> list[dict]:
     for k, a in ASSUMPTIONS.items():
         if k not in result.assumptions:
             continue
-        value = shown(result.assumptions[k])
-        default = shown(a.default)
+        value = cell_value(result.assumptions[k])
+        default = cell_value(a.default)
         changed = k in given and value != default
         rows.append(
             {

@@ -124,10 +124,8 @@ class _Swaps:
                 m, o, new = m[order], o[order], new[order]
             if (new[1:] >= new[:-1]).all():
                 continue  # in order: no swap
-            count = inversions(new)
-            if not count:
-                continue
-            self.counts[var] = count
+            # Out of order somewhere, so at least one inversion.
+            self.counts[var] = inversions(new)
             self._members[int(var)] = (m, o, new)
             for a in np.nonzero(is_best[m])[0]:
                 self.top[var] += int(np.count_nonzero((o > o[a]) & (new < new[a])))
@@ -160,7 +158,7 @@ class _Swaps:
 
 def _score_ranks(goods, compared, extra):
     """``new_ranks`` for :class:`_Swaps` from oriented scores (the tie rule of
-    :func:`~ranker.stress.batch.rank_batch`).
+    :func:`~ranker.score.ranks.rank_batch`).
 
     A member's rank is 1 + the number of present scores that beat it: the
     compared corridors and, per variant, the ``extra`` scores (a copy, or

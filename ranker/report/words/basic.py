@@ -111,3 +111,11 @@ def fmt(value) -> str:
     if abs(v) >= 10:
         return f"{v:.1f}"
     return f"{v:.3g}"
+
+
+def method_label(key: str) -> str:
+    """A scoring method's label for people (TOPSIS, Weighted sum, VIKOR (Q)); the key
+    itself for a method the registry does not know."""
+    from ...score.methods import METHODS
+
+    return METHODS[key].label if key in METHODS else key

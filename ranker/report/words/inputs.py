@@ -8,7 +8,7 @@ from collections.abc import Callable
 
 from ...workbook.tables import PAIRWISE
 from . import plan
-from .basic import Namer, fmt, listing, share_text
+from .basic import Namer, fmt, listing, method_label, share_text
 
 
 def judgment_text(x: float) -> str:
@@ -42,12 +42,6 @@ def revisit_text(revisit: dict, triple: list[str]) -> str:
 
 def _listed(keys: list[str]) -> str:
     return ", ".join(keys)
-
-
-def _method_label(key: str) -> str:
-    from ...score.methods import METHODS
-
-    return METHODS[key].label if key in METHODS else key
 
 
 def _pairwise_inconsistent(r: dict, namer: Namer) -> str:
@@ -153,7 +147,7 @@ WORDS: dict[str, Callable[[dict, Namer], str]] = {
         "Every criterion that differs between corridors has weight 0; all corridors tie."
     ),
     "normalisation_needs_non_negative": lambda r, n: (
-        f"{_method_label(r['method'])} uses '{r['normalisation']}' normalisation, which "
+        f"{method_label(r['method'])} uses '{r['normalisation']}' normalisation, which "
         f"assumes values of 0 or more, but {_listed(r['criteria'])} has negative values; "
         "minmax or vector would suit better."
     ),

@@ -6,7 +6,15 @@ import math
 
 import pytest
 
-from ranker.report.words.basic import Namer, listing, money, number, ordinal, weight_text
+from ranker.report.words.basic import (
+    Namer,
+    listing,
+    method_label,
+    money,
+    number,
+    ordinal,
+    weight_text,
+)
 
 
 def test_namer_uses_the_planners_names_and_falls_back_to_ids():
@@ -50,3 +58,9 @@ def test_listing_and_numbers():
     assert listing(["a", "b"]) == "a and b" and listing(["a", "b", "c"]) == "a, b and c"
     assert money(4_200_000) == "4.2 million USD" and money(350_000) == "350,000 USD"
     assert number(math.inf) == "no limit" and number(0.0001234) == "0.000123"
+
+
+def test_method_label_from_the_registry_or_the_key():
+    assert method_label("vikor") == "VIKOR (Q)"
+    assert method_label("weighted_sum") == "Weighted sum"
+    assert method_label("no_such_method") == "no_such_method"
