@@ -25,8 +25,6 @@ import enum
 import importlib.util
 import io
 import re
-import shutil
-import subprocess
 import zipfile
 from pathlib import Path
 
@@ -40,7 +38,6 @@ from openpyxl.cell.rich_text import CellRichText, TextBlock
 from openpyxl.cell.text import InlineFont
 from openpyxl.chart import BarChart, Reference
 from openpyxl.comments import Comment
-from openpyxl.formatting.rule import ColorScaleRule
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.datavalidation import DataValidation
@@ -51,10 +48,10 @@ import ranker
 from ranker.demo import build_demo_bytes
 from ranker.report import carry, sheets
 from ranker.report.fastsave import save_bytes
-from ranker.report.workbook import WARN_FILL, SheetWriter, results_workbook
+from ranker.report.workbook import WARN_FILL, SheetWriter, colour_scale, results_workbook
+from tests.report._readback import SOFFICE, libreoffice_xlsx, stored_cells
 
 ROOT = Path(__file__).resolve().parents[2]
-SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
 _SHEET_DATA = re.compile(rb"<sheetData>.*?</sheetData>", re.S)
 
 
@@ -85,29 +82,8 @@ def _assert_same_package(a: bytes, b: bytes, *, cells_as_text: bool = False) -> 
         assert x == y, name
 
 
-def _cells(data: bytes) -> dict:
-    """Every stored cell of every sheet as openpyxl reads it back."""
-    wb = load_workbook(io.BytesIO(data))
-    out = {}
-    for ws in wb.worksheets:
-        for (r, c), cell in ws._cells.items():
-            out[(ws.title, r, c)] = (
-                repr(cell.value),
-                cell.data_type,
-                cell.number_format,
-                repr(cell.font),
-                repr(cell.fill),
-                repr(cell.border),
-                repr(cell.alignment),
-                repr(cell.protection),
-                cell.comment.text if cell.comment else None,
-                cell.hyperlink.target if cell.hyperlink else None,
-            )
-    return out
-
-
 def _assert_same_cells(a: bytes, b: bytes) -> None:
-    ca, cb = _cells(a), _cells(b)
+    ca, cb = stored_cells(a), stored_cells(b)
     assert ca.keys() == cb.keys()
     for key in ca:
         assert ca[key] == cb[key], key
@@ -151,17 +127,7 @@ def _every_kind_of_cell() -> Workbook:
     ws.column_dimensions["A"].width = 22
     ws.merge_cells("A9:C9")
     ws.freeze_panes = "B2"
-    ws.conditional_formatting.add(
-        "A10:A12",
-        ColorScaleRule(
-            start_type="num",
-            start_value=0,
-            start_color="FFFFFF",
-            end_type="num",
-            end_value=1,
-            end_color="2166AC",
-        ),
-    )
+    colour_scale(ws, "A10:A12")  # the results workbook's conditional format
     dv = DataValidation(type="list", formula1='"a,b"')
     dv.add("B10:B12")
     ws.add_data_validation(dv)
@@ -399,24 +365,8 @@ def test_libreoffice_reads_the_values_openpyxl_reads(demo_result, tmp_path, monk
     monkeypatch.setattr(carry, "FULL_COPY_CELLS", 0)  # the input streamed as text too
     written = tmp_path / "written.xlsx"
     written.write_bytes(save_bytes(results_workbook(demo_result, text=True)))
-    out = tmp_path / "lo"
-    run = subprocess.run(
-        [
-            SOFFICE,
-            "--headless",
-            f"-env:UserInstallation=file://{tmp_path}/lo-profile",
-            "--convert-to",
-            "xlsx",
-            "--outdir",
-            str(out),
-            str(written),
-        ],
-        capture_output=True,
-        text=True,
-        timeout=600,
-    )
-    assert run.returncode == 0, run.stderr
-    ours, theirs = load_workbook(written), load_workbook(out / written.name)
+    (copy,) = libreoffice_xlsx([written], tmp_path)
+    ours, theirs = load_workbook(written), load_workbook(copy)
     assert theirs.sheetnames == ours.sheetnames
     compared = 0
     for ws in ours.worksheets:

@@ -2,9 +2,6 @@
 
 from __future__ import annotations
 
-import shutil
-import subprocess
-
 import numpy as np
 import pytest
 from openpyxl import load_workbook
@@ -12,31 +9,9 @@ from openpyxl import load_workbook
 import ranker
 from ranker.report.live_sheet import FIRST_COL, ROW_HEAD, ROW_TYPED, SHEET
 from ranker.score import score_matrix
+from tests.report._readback import SOFFICE, libreoffice_xlsx
 
-SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
 VECTORS = 20
-
-
-def _recalculate(files, tmp_path):
-    """Open each file in LibreOffice headless and save it again: every formula is recalculated."""
-    out = tmp_path / "recalculated"
-    run = subprocess.run(
-        [
-            SOFFICE,
-            "--headless",
-            f"-env:UserInstallation=file://{tmp_path}/lo-profile",
-            "--convert-to",
-            "xlsx",
-            "--outdir",
-            str(out),
-            *map(str, files),
-        ],
-        capture_output=True,
-        text=True,
-        timeout=600,
-    )
-    assert run.returncode == 0, run.stderr
-    return [out / f.name for f in files]
 
 
 def _read(path, n, k):
@@ -99,7 +74,7 @@ def test_libreoffice_recalculation_equals_the_tools_scores(tmp_path, normalisati
         book.save(target)
         files.append(target)
     kept = result.scored_matrix.loc[ids, keys]  # as scored: full-credit levels applied
-    for m, recalculated in enumerate(_recalculate(files, tmp_path)):
+    for m, recalculated in enumerate(libreoffice_xlsx(files, tmp_path)):
         sheet_ids, values = _read(recalculated, n, k)
         assert sheet_ids == ids
         w = vectors[m] / vectors[m].sum()

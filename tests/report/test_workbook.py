@@ -2,9 +2,6 @@
 
 from __future__ import annotations
 
-import shutil
-import subprocess
-
 import pytest
 from openpyxl import load_workbook
 from openpyxl.comments import Comment
@@ -12,6 +9,7 @@ from openpyxl.styles import Font
 
 import ranker
 from ranker.report.workbook import safe_value
+from tests.report._readback import SOFFICE, libreoffice_xlsx
 
 
 def _planner_workbook(workbooks, tmp_path):
@@ -91,9 +89,6 @@ def test_safe_value_never_a_formula():
     assert safe_value("=SUM(A1)") == "=SUM(A1)"
 
 
-SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
-
-
 @pytest.mark.slow
 @pytest.mark.skipif(
     SOFFICE is None, reason="LibreOffice (Debian's libreoffice-calc) is not installed"
@@ -102,24 +97,9 @@ def test_libreoffice_opens_results_workbook(workbooks, tmp_path):
     """LibreOffice headless converts the results workbook; every sheet survives."""
     path = _planner_workbook(workbooks, tmp_path)
     xlsx = ranker.write_outputs(ranker.rank_workbook(path, samples=200), tmp_path)["workbook"]
-    out = tmp_path / "lo"
-    run = subprocess.run(
-        [
-            SOFFICE,
-            "--headless",
-            f"-env:UserInstallation=file://{tmp_path}/lo-profile",
-            "--convert-to",
-            "xlsx",
-            "--outdir",
-            str(out),
-            xlsx,
-        ],
-        capture_output=True,
-        text=True,
-        timeout=240,
-    )
-    assert run.returncode == 0, run.stderr
-    converted = load_workbook(out / "kept-ranked.xlsx")
+    (copy,) = libreoffice_xlsx([xlsx], tmp_path, timeout=240)
+    assert copy.name == "kept-ranked.xlsx"
+    converted = load_workbook(copy)
     original = load_workbook(xlsx)
     visible = [n for n in original.sheetnames if original[n].sheet_state == "visible"]
     assert [n for n in converted.sheetnames if n in visible] == visible

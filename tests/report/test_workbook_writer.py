@@ -29,6 +29,7 @@ from ranker.report.workbook import (
     safe_value,
 )
 from ranker.result import Result
+from tests.report._readback import stored_cells
 
 
 def _safe_value_plain(value):
@@ -69,21 +70,11 @@ def test_safe_value_shortcuts_match_general_path(value):
 
 
 def _cells(data: bytes) -> dict:
-    """Every cell of every sheet: value, type, number format, font, fill, alignment, border."""
+    """Every stored cell (:func:`tests.report._readback.stored_cells`), and each sheet's
+    column widths and tables, and the sheets' order."""
+    out = stored_cells(data)
     wb = load_workbook(io.BytesIO(data))
-    out = {}
     for ws in wb.worksheets:
-        for (r, c), cell in ws._cells.items():
-            out[(ws.title, r, c)] = (
-                repr(cell.value),
-                cell.data_type,
-                cell.number_format,
-                repr(cell.font),
-                repr(cell.fill),
-                repr(cell.alignment),
-                repr(cell.border),
-                cell.comment.text if cell.comment else None,
-            )
         out[(ws.title, "widths")] = {k: v.width for k, v in ws.column_dimensions.items()}
         out[(ws.title, "tables")] = sorted((t.displayName, t.ref) for t in ws.tables.values())
     out["sheets"] = wb.sheetnames
