@@ -308,6 +308,29 @@ def _value_copy(
     return out
 
 
+def _stored_rows(ws, max_row: int | None, cuts: list[int]):
+    """The stored values of read-only sheet ``ws``, a row at a time.
+
+    Yields, per row holding a value, its ``(cell, value, number format or
+    None for General)``; rows after ``max_row`` are not read. A text longer
+    than a cell holds is cut to fit (:func:`fit_cell`), counted in
+    ``cuts[0]``.
+    """
+    for row in ws.iter_rows(max_row=max_row):
+        got = []
+        for c in row:
+            v = getattr(c, "value", None)
+            if v is None:
+                continue
+            if isinstance(v, str) and len(v) > CELL_CHARS:
+                v, _ = fit_cell(v)
+                cuts[0] += 1
+            fmt = c.number_format
+            got.append((c, v, fmt if fmt and fmt != "General" else None))
+        if got:
+            yield got
+
+
 def _copy_cells(ws, target, max_row: int | None) -> int:
     """Copy the values and number formats of read-only sheet ``ws`` into ``target``.
 
@@ -315,22 +338,15 @@ def _copy_cells(ws, target, max_row: int | None) -> int:
     General is kept. Rows after ``max_row`` are not read. Returns how many
     texts were cut to fit a cell [-].
     """
-    cut = 0
-    for row in ws.iter_rows(max_row=max_row):
-        for c in row:
-            v = getattr(c, "value", None)
-            if v is None:
-                continue
-            if isinstance(v, str) and len(v) > CELL_CHARS:
-                v, _ = fit_cell(v)
-                cut += 1
+    cuts = [0]
+    for cells in _stored_rows(ws, max_row, cuts):
+        for c, v, fmt in cells:
             cell = target.cell(row=c.row, column=c.column, value=v)
             if isinstance(v, str):
                 cell.data_type = "s"  # text stays text, whatever it starts with
-            fmt = c.number_format
-            if fmt and fmt != "General":
+            if fmt:
                 cell.number_format = fmt
-    return cut
+    return cuts[0]
 
 
 def _copy_as_text(ws, target, max_row: int | None) -> int:
@@ -348,41 +364,29 @@ def _copy_as_text(ws, target, max_row: int | None) -> int:
 
     xml = CellText(target)
     rows: dict[int, str] = {}
-    cut = 0
+    cuts = [0]
     c0 = r0 = 1 << 30
     c1 = r1 = 0
     plain = (str, int, float, bool)
-    for row in ws.iter_rows(max_row=max_row):
+    for cells in _stored_rows(ws, max_row, cuts):
         parts = []
-        for c in row:
-            v = getattr(c, "value", None)
-            if v is None:
-                continue
-            if isinstance(v, str) and len(v) > CELL_CHARS:
-                v, _ = fit_cell(v)
-                cut += 1
-            fmt = c.number_format
-            fmt = fmt if fmt and fmt != "General" else None
-            r, col = c.row, c.column
+        for c, v, fmt in cells:
             if type(v) in plain:
                 parts.append(xml.value(c.coordinate, v, xml.style(fmt), text=True))
             else:
-                cell = Cell(target, row=r, column=col, value=v)
+                cell = Cell(target, row=c.row, column=c.column, value=v)
                 if isinstance(v, str):
                     cell.data_type = "s"
                 if fmt:
                     cell.number_format = fmt
                 parts.append(xml.cell(cell))
-            if col < c0:
-                c0 = col
-            if col > c1:
-                c1 = col
-        if parts:
-            rows[r] = "".join(parts)
-            r0, r1 = min(r0, r), max(r1, r)
+        r = cells[0][0].row
+        rows[r] = "".join(parts)
+        c0, c1 = min(c0, cells[0][0].column), max(c1, cells[-1][0].column)
+        r0, r1 = min(r0, r), max(r1, r)
     if rows:
         add_rows(target, rows, (c0, r0, c1, r1))
-    return cut
+    return cuts[0]
 
 
 #: How a result sheet of this tool begins its second row (``SheetWriter.sheet``).
