@@ -226,6 +226,7 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
             edges = np.diff(np.concatenate([[0], tied[r].astype(np.int8), [0]]))
             runs[r] = int((np.nonzero(edges < 0)[0] - np.nonzero(edges > 0)[0]).max()) + 1
     moves = np.abs(np.diff(pos, axis=0)).max(axis=1) if len(grid) > 1 else np.zeros(1, int)
+    known: dict[int, tuple[int, np.ndarray]] = {}  # grid cell -> its far movers, found once
     for side, rows in ((1, np.arange(g0 + 1, len(grid))), (-1, np.arange(g0 - 1, -1, -1))):
         if not rows.size:
             continue
@@ -238,7 +239,8 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
         step = max(1, NARROW_BUDGET // n)
         for start in range(0, who.size, step):
             block = who[start : start + step]
-            for i, window in _windows(order, (pos, runs, moves), first[block] - side, block, side):
+            places = (pos, runs, moves, known)
+            for i, window in _windows(order, places, first[block] - side, block, side):
                 ra, rb = first[i] - side, first[i]
                 cols = _partners(g, thresholds, ra, rb, i, window)
                 t, by, after = _narrow(
@@ -324,8 +326,10 @@ def _windows(order, places, ra, i, side):
     a cell has fewer). The far movers narrowed themselves form a second
     group, with ``W = 2 D + T + 1`` (``D`` the largest move of the cell).
     ``places`` is (place of each corridor in each row's order, each row's
-    longest tied run, each pair of adjacent rows' largest move). A window is
-    None where it would cover most corridors anyway.
+    longest tied run, each pair of adjacent rows' largest move, and a dict
+    of each grid cell's far movers, filled as cells are met so a cell's are
+    found once per sweep). A window is None where it would cover most
+    corridors anyway.
 
     Yields
     ------
@@ -334,23 +338,26 @@ def _windows(order, places, ra, i, side):
     window : ndarray of int, shape (len(i), q), or None
         Candidate partners per corridor (duplicates possible).
     """
-    pos, runs, moves = places
+    pos, runs, moves, known = places
     n = order.shape[1]
     rb = ra + side
     cell = np.minimum(ra, rb)  # adjacent rows: moves[r] is between rows r and r + 1
     tie = int(np.maximum(runs[ra], runs[rb]).max())
     own = np.abs(pos[rb, i] - pos[ra, i])
-    split = {int(c): _far_movers(pos, int(c)) for c in np.unique(cell)}
-    d = np.array([split[int(c)][0] for c in cell])
+    cells = np.unique(cell).tolist()
+    for c in cells:
+        if c not in known:
+            known[c] = _far_movers(pos, c)
+    d = np.array([known[c][0] for c in cell.tolist()])
     near = own <= d
     groups = []
     if near.any():
         width = int((own[near] + d[near]).max()) + tie + 1
-        far = np.full((int(near.sum()), max(len(v[1]) for v in split.values())), -1)
-        for row, c in enumerate(cell[near]):
-            movers = split[int(c)][1]
-            far[row, : movers.size] = movers
-        groups.append((near, width, far))
+        extra = np.full((int(near.sum()), max(known[c][1].size for c in cells)), -1)
+        for row, c in enumerate(cell[near].tolist()):
+            movers = known[c][1]
+            extra[row, : movers.size] = movers
+        groups.append((near, width, extra))
     if not near.all():
         groups.append((~near, 2 * int(moves[cell[~near]].max()) + tie + 1, None))
     for sel, width, far in groups:
