@@ -92,7 +92,7 @@ def count_parts(snapshot: bytes) -> dict[str, tuple[int, int, int | None]]:
 
 
 def carry_input_sheets(
-    inputs, drop: set[str], *, as_text: bool = False
+    inputs, drop: set[str], *, as_text: bool = False, unwritable: Exception | None = None
 ) -> tuple[Workbook, list[str]]:
     """Return a workbook holding the input's sheets as values, and warnings to report.
 
@@ -107,6 +107,10 @@ def carry_input_sheets(
         Write the streamed copy's cells as XML text
         (:func:`ranker.report.fastsave.add_rows`), the same cells once saved,
         instead of cell objects; for a workbook saved right away.
+    unwritable : Exception, optional
+        What a results workbook built on the full copy raised when it was
+        saved: then the copy is streamed, with the note a part that cannot be
+        loaded gets (:func:`ranker.report.workbook.build_workbook` retries so).
 
     Returns
     -------
@@ -114,8 +118,6 @@ def carry_input_sheets(
         The workbook (input sheets only) and one warning per thing that was
         converted, left out or not carried.
     """
-    from .fastsave import save_bytes
-
     snapshot = inputs.snapshot
     counts = count_parts(snapshot)
     total = sum(c[0] for c in counts.values())
@@ -123,18 +125,15 @@ def carry_input_sheets(
     big = max((c[0] for c in counts.values()), default=0)
     notes: list[str] = []
     wb = None
-    if total <= FULL_COPY_CELLS and big <= SHEET_CELLS:
+    if unwritable is not None:
+        notes.append(_not_whole(unwritable))
+    elif total <= FULL_COPY_CELLS and big <= SHEET_CELLS:
         try:
             wb = _full_copy(snapshot, drop, notes)
-            save_bytes(wb)  # what loads but cannot be written again fails here, not later
         except Exception as exc:  # noqa: BLE001 - a part openpyxl cannot load: stream instead
             wb = None
             notes.clear()
-            notes.append(
-                "the input sheets were copied into the results workbook as values and number "
-                f"formats only, without their formatting and comments: a part of the input "
-                f"could not be loaded whole ({type(exc).__name__})"
-            )
+            notes.append(_not_whole(exc))
     else:
         notes.append(
             f"the input sheets were copied into the results workbook as values and number "
@@ -153,6 +152,14 @@ def carry_input_sheets(
             "value each showed when the input was last saved, not the formula"
         )
     return wb, notes
+
+
+def _not_whole(exc: Exception) -> str:
+    return (
+        "the input sheets were copied into the results workbook as values and number "
+        f"formats only, without their formatting and comments: a part of the input "
+        f"could not be loaded whole ({type(exc).__name__})"
+    )
 
 
 def _load(snapshot: bytes, **kw):
@@ -407,6 +414,8 @@ def earlier_result_sheets(snapshot: bytes) -> set[str]:
     listed = _custom_properties(snapshot).get(SHEETS_PROPERTY, "")
     titles = [t for t in listed.split("\n") if t]
     out: set[str] = set()
+    if not titles and not _may_name(snapshot, STATE_SHEET):
+        return out  # nothing listed and no state sheet: no need to open the workbook
     try:
         src = _load(snapshot, read_only=True)
     except Exception:  # noqa: BLE001 - the reader read it; keep every sheet if this cannot
@@ -429,6 +438,19 @@ def earlier_result_sheets(snapshot: bytes) -> set[str]:
     finally:
         src.close()
     return out
+
+
+def _may_name(snapshot: bytes, title: str) -> bool:
+    """Might the workbook have a sheet called ``title``? (Its text is in the workbook part.)
+
+    True when the part cannot be read, so that the caller looks properly;
+    ``title`` must need no XML escaping.
+    """
+    try:
+        with zipfile.ZipFile(io.BytesIO(snapshot)) as zf:
+            return title.encode() in zf.read("xl/workbook.xml")
+    except Exception:  # noqa: BLE001 - an odd package: let openpyxl decide
+        return True
 
 
 def _custom_properties(snapshot: bytes) -> dict[str, str]:

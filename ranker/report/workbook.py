@@ -389,25 +389,44 @@ def build_workbook(result, *, extra_writers: Sequence = ()) -> bytes:
     """Return the bytes of the results workbook for ``result``.
 
     The workbook (:func:`results_workbook`, its big blocks of cells as XML
-    text) saved with :func:`ranker.report.fastsave.save_bytes`.
+    text) saved with :func:`ranker.report.fastsave.save_bytes`. Where the
+    save fails (a carried part of the input that openpyxl loads but cannot
+    write), the workbook is built once more on the streamed copy of the
+    input's sheets, with the warning that says so; a failure of that one is
+    raised.
     """
-    return save_bytes(results_workbook(result, extra_writers=extra_writers, text=True))
+    before = list(result.warnings)
+    try:
+        return save_bytes(results_workbook(result, extra_writers=extra_writers, text=True))
+    except Exception as exc:  # noqa: BLE001 - retried on the streamed copy, raised if that fails
+        result.warnings[:] = before  # the first build's notes on its copy no longer hold
+        book = results_workbook(result, extra_writers=extra_writers, text=True, unwritable=exc)
+        return save_bytes(book)
 
 
-def results_workbook(result, *, extra_writers: Sequence = (), text: bool = False):
+def results_workbook(
+    result,
+    *,
+    extra_writers: Sequence = (),
+    text: bool = False,
+    unwritable: Exception | None = None,
+):
     """Return the results workbook for ``result``, not yet saved.
 
     With ``text``, the table bodies and the streamed copy of the input's
     sheets are written as XML text, not cell objects (the same cells once
     saved with :func:`ranker.report.fastsave.save_bytes`, which alone can
-    save them); without, every cell is a cell object.
+    save them); without, every cell is a cell object. ``unwritable``: see
+    :func:`ranker.report.carry.carry_input_sheets`.
     """
     from . import sheets
     from .carry import carry_input_sheets, earlier_result_sheets
 
     # The input's sheets as values, from the bytes the reader read (never the file again).
     snapshot = result.inputs.snapshot
-    wb, notes = carry_input_sheets(result.inputs, earlier_result_sheets(snapshot), as_text=text)
+    wb, notes = carry_input_sheets(
+        result.inputs, earlier_result_sheets(snapshot), as_text=text, unwritable=unwritable
+    )
     result.warnings.extend(n for n in notes if n not in result.warnings)
     wb.template = False  # an .xltx input still gives an ordinary workbook
     writer = SheetWriter(wb, result.tool_version, result.started, text_bodies=text)

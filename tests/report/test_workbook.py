@@ -75,6 +75,38 @@ def test_input_sheets_kept_exactly(workbooks, tmp_path):
     assert out.sheetnames[: len(before.sheetnames)] == before.sheetnames
 
 
+def test_input_that_loads_but_cannot_be_written_is_streamed(workbooks, tmp_path, monkeypatch):
+    # A part openpyxl loads whole but cannot write back: the results workbook is
+    # built again on the values-only copy, with the note a part that cannot be
+    # loaded gets, and the first build's notes on the whole copy are dropped.
+    from ranker.report import carry
+
+    path = _planner_workbook(workbooks, tmp_path)
+    whole = carry._full_copy
+
+    class Unwritable:
+        def to_tree(self, *args, **kwargs):
+            raise ValueError("cannot be written")
+
+    def broken(snapshot, drop, notes):
+        wb = whole(snapshot, drop, notes)
+        notes.append("a note on the whole copy")
+        wb["Board notes"].sheet_properties = Unwritable()
+        return wb
+
+    monkeypatch.setattr(carry, "_full_copy", broken)
+    result = ranker.rank_workbook(path, samples=0)
+    out = load_workbook(ranker.write_outputs(result, tmp_path)["workbook"])
+    assert out["Board notes"]["A1"].value == "Meeting of the planning committee"
+    assert not out["Board notes"]["A1"].font.bold  # values and number formats only
+    assert "a note on the whole copy" not in result.warnings
+    assert [w for w in result.warnings if "could not be loaded whole" in w] == [
+        "the input sheets were copied into the results workbook as values and number formats "
+        "only, without their formatting and comments: a part of the input could not be "
+        "loaded whole (ValueError)"
+    ]
+
+
 def test_rerun_of_output_replaces_result_sheets(workbooks, tmp_path):
     path = _planner_workbook(workbooks, tmp_path)
     first = ranker.write_outputs(ranker.rank_workbook(path, samples=0), tmp_path)["workbook"]
