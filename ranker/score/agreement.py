@@ -192,19 +192,20 @@ def rank_correlations(ranks: pd.DataFrame) -> tuple[pd.DataFrame, pd.DataFrame]:
     np.float64(0.333)
     """
     keys = list(ranks.columns)
-    kendall = pd.DataFrame(np.nan, index=keys, columns=keys, dtype=float)
-    spearman = kendall.copy()
-    for i, a in enumerate(keys):
-        for b in keys[i:]:
-            x = ranks[a].to_numpy(dtype=float)
-            y = ranks[b].to_numpy(dtype=float)
-            tau = _correlation(kendall_tau_b, x, y)  # tau-b of [1]
-            rho = _correlation(spearman_rho, x, y)  # rho of [2]
-            if a == b and np.isfinite(tau):
-                tau = rho = 1.0
-            kendall.loc[a, b] = kendall.loc[b, a] = tau
-            spearman.loc[a, b] = spearman.loc[b, a] = rho
-    return kendall, spearman
+    cols = ranks.to_numpy(dtype=float).T
+    tau, rho = np.full((2, len(keys), len(keys)), np.nan)
+    for i in range(len(keys)):
+        for j in range(i, len(keys)):
+            t = _correlation(kendall_tau_b, cols[i], cols[j])  # tau-b of [1]
+            r = _correlation(spearman_rho, cols[i], cols[j])  # rho of [2]
+            if i == j and np.isfinite(t):
+                t = r = 1.0
+            tau[i, j] = tau[j, i] = t
+            rho[i, j] = rho[j, i] = r
+    return (
+        pd.DataFrame(tau, index=keys, columns=keys),
+        pd.DataFrame(rho, index=keys, columns=keys),
+    )
 
 
 def movers(ranks: pd.DataFrame, primary: str, *, more_than: int = 1) -> list[dict]:
