@@ -14,7 +14,9 @@ the pairs that tie, and the first disagreements with the full order.
 * TOPSIS on vector-normalised values has a closed-form winner for two
   corridors (:func:`topsis_pair_signs`); a pair whose closed form is too
   close to a tie to be sure of is scored by the kernel, so the verdicts are
-  the kernel's.
+  the kernel's. With it the pairs are taken a corridor at a time against
+  the corridors after it (contiguous rows, nothing gathered); the other
+  kernels score blocks of pair indices.
 * The 3-cycles are counted from the win counts: in a tournament (no tied
   pair) a triple is a cycle unless one corridor beats both others, so there
   are ``C(n, 3) - sum_i C(w_i, 2)`` cycles (Kendall & Babington Smith [2]_);
@@ -138,28 +140,47 @@ def topsis_pair_signs(x, weights, is_benefit, a, b, *, normalization="vector"):
     """
     if normalization != "vector":
         return None
-    cols = np.ascontiguousarray(np.asarray(x, dtype=float).T)
-    w2 = np.asarray(weights, dtype=float) ** 2
+    xs, w2 = _oriented(x, weights, is_benefit)
     sign = np.empty(len(a), dtype=np.int8)
     sure = np.empty(len(a), dtype=bool)
-    for start in range(0, len(a), PAIR_CHUNK):  # cache-sized pieces, criterion by criterion
-        pa, pb = a[start : start + PAIR_CHUNK], b[start : start + PAIR_CHUNK]
-        margin, scale = np.zeros(len(pa)), np.zeros(len(pa))
-        for j in np.nonzero(w2 > 0)[0]:
-            xa, xb = cols[j][pa], cols[j][pb]
-            d = xa - xb
-            den = xa * xa
-            den += xb * xb
-            den[den == 0] = 1.0
-            term = d * d
-            term /= den
-            term *= w2[j]
-            scale += term
-            np.copysign(term, d if is_benefit[j] else -d, out=term)
-            margin += term
-        sign[start : start + len(pa)] = np.sign(margin)
-        sure[start : start + len(pa)] = np.abs(margin) > PAIR_SURE * scale
+    for start in range(0, len(a), PAIR_CHUNK):  # cache-sized pieces
+        piece = slice(start, start + PAIR_CHUNK)
+        sign[piece], sure[piece] = _verdicts(xs[a[piece]], xs[b[piece]], w2)
     return sign, sure
+
+
+def _oriented(x, weights, is_benefit) -> tuple[np.ndarray, np.ndarray]:
+    """The matrix with cost criteria negated (more is better on every column), and w^2."""
+    direction = np.where(np.asarray(is_benefit, dtype=bool), 1.0, -1.0)
+    xs = np.ascontiguousarray(np.asarray(x, dtype=float) * direction)
+    return xs, np.asarray(weights, dtype=float) ** 2
+
+
+def _verdicts(xa, xb, w2) -> tuple[np.ndarray, np.ndarray]:
+    """Sign and sureness of ``S`` (see :func:`topsis_pair_signs`) for rows xa against xb.
+
+    ``xa`` (m, k) or (k,) and ``xb`` (m, k): oriented values (:func:`_oriented`),
+    so ``s_j`` is the sign of ``xa_j - xb_j``.
+    """
+    d = xa - xb
+    den = xb * xb
+    den += xa * xa
+    den[den == 0] = 1.0  # both zero: d is zero too, the term is 0
+    term = d * d
+    term /= den
+    scale = term @ w2
+    np.copysign(term, d, out=term)
+    margin = term @ w2
+    return np.sign(margin).astype(np.int8), np.abs(margin) > PAIR_SURE * scale
+
+
+def topsis_row_signs(xs, w2, u: int) -> tuple[np.ndarray, np.ndarray]:
+    """:func:`topsis_pair_signs` of corridor u against u + 1 .. n - 1, from the oriented matrix.
+
+    One row against the rows after it (contiguous, so nothing is gathered);
+    ``xs, w2`` from :func:`_oriented`.
+    """
+    return _verdicts(xs[u], xs[u + 1 :], w2)
 
 
 def _topsis_signs(scorer, x, weights, a, b):
@@ -272,42 +293,96 @@ def pair_relation(
     """
     n = x.shape[0]
     count = n * (n - 1) // 2
-    wins = np.zeros(n, dtype=np.int64)
-    ties_a, ties_b, bad = [], [], []
-    disagree = 0
-    for start in range(0, count, block):
-        stop = min(count, start + block)
-        a, b = pair_index(start, stop, n)
-        sg = pair_signs(scorer, x, weights, a, b)
-        wins += np.bincount(a[sg > 0], minlength=n) + np.bincount(b[sg < 0], minlength=n)
-        tie = sg == 0
-        if tie.any():
-            ties_a.append(a[tie])
-            ties_b.append(b[tie])
-        off = np.nonzero(sg != np.sign(ranks[b] - ranks[a]))[0]
-        disagree += off.size
-        room = limit - sum(len(p[0]) for p in bad)
-        if room > 0 and off.size:
-            keep = off[:room]
-            bad.append((a[keep], b[keep], sg[keep]))
-    tie_a = np.concatenate(ties_a) if ties_a else np.zeros(0, dtype=np.int64)
-    tie_b = np.concatenate(ties_b) if ties_b else np.zeros(0, dtype=np.int64)
-
-    def cat(i, dtype):
-        return np.concatenate([p[i] for p in bad]) if bad else np.zeros(0, dtype=dtype)
-
-    cycles = cycle_count(wins, tie_a, tie_b, lambda u: signs_row(scorer, x, weights, u))
+    acc = _Stream(ranks, limit)
+    row = _row_form(scorer, x, weights)
+    if row is not None:
+        for u in range(n - 1):
+            acc.add(u, None, row(u))
+    else:
+        for start in range(0, count, block):
+            a, b = pair_index(start, min(count, start + block), n)
+            acc.add(a, b, pair_signs(scorer, x, weights, a, b))
+    tie_a, tie_b = acc.cat(acc.ties, 0, np.int64), acc.cat(acc.ties, 1, np.int64)
+    cycles = cycle_count(acc.wins, tie_a, tie_b, lambda u: signs_row(scorer, x, weights, u))
     return PairRelation(
         count,
-        wins,
+        acc.wins,
         tie_a,
         tie_b,
-        disagree,
-        cat(0, np.int64),
-        cat(1, np.int64),
-        cat(2, np.int8),
+        acc.disagree,
+        acc.cat(acc.bad, 0, np.int64),
+        acc.cat(acc.bad, 1, np.int64),
+        acc.cat(acc.bad, 2, np.int8),
         cycles,
     )
+
+
+def _row_form(scorer, x, weights):
+    """``f(u)``: verdicts of corridor u against u + 1 .. n - 1, where the kernel has a
+    closed form (TOPSIS on vector-normalised values); else None. Unsure verdicts
+    are scored by the kernel, as in :func:`pair_signs`."""
+    if scorer.kernel is not topsis or not scorer.higher_is_better:
+        return None
+    if scorer.options.get("normalization", "vector") != "vector":
+        return None
+    xs, w2 = _oriented(x, weights, scorer.is_benefit)
+
+    def row(u: int) -> np.ndarray:
+        sign, sure = topsis_row_signs(xs, w2, u)
+        if not sure.all():
+            unsure = np.nonzero(~sure)[0]
+            b = u + 1 + unsure
+            sign[unsure] = _kernel_signs(scorer, x, weights, np.full(b.size, u), b)
+        return sign
+
+    return row
+
+
+class _Stream:
+    """What :func:`pair_relation` keeps of the verdicts, added a block of pairs at a time."""
+
+    def __init__(self, ranks: np.ndarray, limit: int):
+        self.ranks = np.asarray(ranks)
+        self.wins = np.zeros(self.ranks.size, dtype=np.int64)
+        self.ties: list[tuple] = []
+        self.bad: list[tuple] = []
+        self.limit = limit
+        self.kept = 0
+        self.disagree = 0
+
+    def add(self, a, b, sg: np.ndarray) -> None:
+        """Verdicts ``sg`` of pairs (a, b); or, with ``a`` an int and ``b`` None, of
+        corridor a against a + 1 .. n - 1 (a row: nothing gathered)."""
+        n = self.wins.size
+        if b is None:
+            self.wins[a] += np.count_nonzero(sg > 0)
+            self.wins[a + 1 :] += sg < 0
+            full = np.sign(self.ranks[a + 1 :] - self.ranks[a])
+
+            def pick(i):
+                return np.full(i.size, a, dtype=np.int64), a + 1 + i
+        else:
+            self.wins += np.bincount(a[sg > 0], minlength=n)
+            self.wins += np.bincount(b[sg < 0], minlength=n)
+            full = np.sign(self.ranks[b] - self.ranks[a])
+
+            def pick(i):
+                return a[i], b[i]
+
+        tie = np.nonzero(sg == 0)[0]
+        if tie.size:
+            self.ties.append(pick(tie))
+        off = np.nonzero(sg != full)[0]
+        self.disagree += off.size
+        room = self.limit - self.kept
+        if room > 0 and off.size:
+            keep = off[:room]
+            self.bad.append((*pick(keep), sg[keep]))
+            self.kept += keep.size
+
+    @staticmethod
+    def cat(parts: list[tuple], i: int, dtype) -> np.ndarray:
+        return np.concatenate([p[i] for p in parts]) if parts else np.zeros(0, dtype=dtype)
 
 
 def cycle_count(wins, tie_a, tie_b, row) -> int:

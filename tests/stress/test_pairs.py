@@ -190,6 +190,29 @@ def test_pair_relation_equals_brute_force(n, k, seed, block, limit):
         assert s != np.sign(ranks[q] - ranks[p])
 
 
+@pytest.mark.parametrize("coarse", [True, False])
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_pair_relation_rows_equal_blocks_of_pairs(seed, coarse, monkeypatch):
+    # The row-by-row closed form (TOPSIS) against the same relation streamed in
+    # blocks of pairs scored one pair index at a time (the path of every other kernel).
+    rng = np.random.default_rng(seed)
+    n, k = 160, 5
+    x = rng.integers(0, 3, size=(n, k)).astype(float) if coarse else rng.random((n, k))
+    x[7] = x[3]  # identical corridors tie
+    benefit = rng.random(k) < 0.5
+    w = rng.dirichlet(np.ones(k))
+    ranks = rank_scores(topsis(x, w, benefit))
+    sc = Scorer(topsis, benefit, True, {"normalization": "vector"})
+    rows = pairs.pair_relation(sc, x, w, ranks, block=997, limit=50)
+    monkeypatch.setattr(pairs, "_row_form", lambda *args: None)
+    blocks = pairs.pair_relation(sc, x, w, ranks, block=997, limit=50)
+    for field in ("count", "disagree", "cycles"):
+        assert getattr(rows, field) == getattr(blocks, field), field
+    for field in ("wins", "tie_a", "tie_b", "bad_a", "bad_b", "bad_sign"):
+        assert getattr(rows, field).tolist() == getattr(blocks, field).tolist(), field
+    assert rows.tie_a.size  # the identical pair at least
+
+
 def test_pair_relation_one_corridor():
     sc = Scorer(topsis, np.array([True]), True, {"normalization": "vector"})
     rel = pairs.pair_relation(
