@@ -41,6 +41,7 @@ def _cards(result, shown) -> list[dict]:
     d = result.derivation
     rob = result.robustness
     cards = []
+    tips = narrative.cards_tips(result, list(shown))
     for cid, row in result.ranking.loc[shown].iterrows():
         strong, weak = narrative.strongest_weakest(result, cid)
         facts = []
@@ -59,7 +60,6 @@ def _cards(result, shown) -> list[dict]:
                     facts.append(
                         (label, narrative.fmt(s[key]) if key != "governing_rule" else s[key])
                     )
-        changes = narrative.card_tips(result, cid)
         cards.append(
             {
                 "id": cid,
@@ -71,7 +71,7 @@ def _cards(result, shown) -> list[dict]:
                 "strong": strong,
                 "weak": weak,
                 "facts": facts,
-                "changes": changes,
+                "changes": tips[cid],
             }
         )
     return cards
@@ -127,7 +127,7 @@ def build_html(result) -> str:
     others = [m for m in methods if m != primary]
     first = rob.first_rank if has_samples(rob) else None
     rows = []
-    for cid, r in full.iterrows():
+    for cid, r in full.to_dict("index").items():
         rows.append(
             {
                 "rank": int(r["rank"]),

@@ -316,12 +316,12 @@ def tier_groups(result) -> list[dict]:
     """Each tier with its corridors in order: ``{"tier", "ids", "names"}``."""
     ranking = result.ranking
     out: list[dict] = []
-    for cid, row in ranking.iterrows():
-        tier = int(row["tier"])
+    for cid, tier, name in zip(ranking.index, ranking["tier"], ranking["name"], strict=True):
+        tier = int(tier)
         if not out or out[-1]["tier"] != tier:
             out.append({"tier": tier, "ids": [], "names": []})
         out[-1]["ids"].append(str(cid))
-        out[-1]["names"].append(str(row["name"]))
+        out[-1]["names"].append(str(name))
     return out
 
 
@@ -398,21 +398,33 @@ def card_tips(result, cid) -> list[str]:
     Nearest by the weight change needed; one per criterion and direction
     (a second crossing further along the same sweep says nothing new).
     """
+    return cards_tips(result, [cid])[cid]
+
+
+def cards_tips(result, ids) -> dict:
+    """:func:`card_tips` of each corridor of ``ids``, from one pass over the tipping points."""
     rob = result.robustness
+    mine: dict = {cid: [] for cid in ids}
     if rob is None:
-        return []
-    mine = [t for t in rob.tipping_points if cid in (t.get("corridor_id"), t.get("other_id"))]
-    mine.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
+        return mine
+    for t in rob.tipping_points:
+        for cid in {t.get("corridor_id"), t.get("other_id")}:
+            if cid in mine:
+                mine[cid].append(t)
     namer = _namer(result)
-    out, seen = [], set()
-    for t in mine:
-        key = (t["criterion"], t["direction"])
-        if key in seen:
-            continue
-        seen.add(key)
-        out.append(tipping_sentence(t, namer))
-        if len(out) == CARD_TIPS:
-            break
+    out = {}
+    for cid, tips in mine.items():
+        tips.sort(key=lambda t: abs(t["weight_at"] - t["current_weight"]))
+        said, seen = [], set()
+        for t in tips:
+            key = (t["criterion"], t["direction"])
+            if key in seen:
+                continue
+            seen.add(key)
+            said.append(tipping_sentence(t, namer))
+            if len(said) == CARD_TIPS:
+                break
+        out[cid] = said
     return out
 
 
