@@ -8,7 +8,9 @@ analyses and ``docs/robustness.md`` for their rules.
 
 from __future__ import annotations
 
+import dataclasses
 import math
+import threading
 from collections.abc import Callable
 from dataclasses import dataclass, field
 
@@ -300,6 +302,33 @@ def _input_warnings(x, ids, keys, w, spread, sampling, scorer):
     return warns, identical
 
 
+class Beside:
+    """Run ``fn(*args)`` on a thread of its own; :meth:`result` waits for it.
+
+    A daemon thread, so a run that is stopped (an error, Ctrl-C, SIGTERM)
+    does not wait for it; an exception in ``fn`` is raised by :meth:`result`.
+    """
+
+    def __init__(self, fn: Callable, *args):
+        self._out = None
+        self._error: BaseException | None = None
+        self._thread = threading.Thread(target=self._run, args=(fn, args), daemon=True)
+        self._thread.start()
+
+    def _run(self, fn, args) -> None:
+        try:
+            self._out = fn(*args)
+        except BaseException as exc:  # noqa: BLE001 - handed to the caller by result()
+            self._error = exc
+
+    def result(self):
+        """Wait for ``fn`` and return what it returned, or raise what it raised."""
+        self._thread.join()
+        if self._error is not None:
+            raise self._error
+        return self._out
+
+
 def stress_test(
     matrix: pd.DataFrame,
     weights: dict[str, float],
@@ -425,6 +454,10 @@ def stress_test(
     pairs = adjacent_pairs(g0)
     order = np.lexsort((np.arange(n), r0))  # the order of the ranking table
     store = RankStore(order, samples) if samples else None
+    # The rank-reversal checks need nothing of the samples: they run on a second
+    # thread (numpy lets go of the interpreter in its loops, so a second core helps)
+    # while the samples are drawn and scored; their own scorer, nothing shared.
+    checks_job = Beside(all_checks, dataclasses.replace(scorer), x, w, ids)
     ss_w, ss_v, ss_c = np.random.SeedSequence(seed).spawn(3)
     index = pd.Index(ids, name="corridor_id")
     draws = None
@@ -481,9 +514,9 @@ def stress_test(
             "entering": [ids[i] for i in change["entering"]],
             "leaving": [ids[i] for i in change["leaving"]],
         }
-    checks = all_checks(scorer, x, w, ids)
-    tick()
     sweeps = [sweep_criterion(scorer, x, w, c) for c in range(k)] if k > 1 else []
+    checks = checks_job.result()
+    tick()
     records, rows = tipping_records(sweeps, ids, keys)
     intervals = pd.DataFrame(rows, columns=INTERVAL_COLUMNS)
     tick()

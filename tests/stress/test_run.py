@@ -232,3 +232,42 @@ def test_weight_sample_scores_are_the_kernel_under_the_draws(key):
     assert np.array_equal(got, expected)
     off = stress_test(m, {"k0": 1.0, "k1": 1.0, "k2": 1.0}, benefit, kernel=topsis, samples=0)
     assert off.weight_sample_scores() is None
+
+
+def test_beside_returns_raises_and_never_holds_the_run():
+    # The rank-reversal checks run on a second thread while the samples are scored
+    # (common practice: numpy releases the interpreter lock in its array loops).
+    import threading
+
+    from ranker.stress.run import Beside
+
+    assert Beside(lambda a, b: a + b, 2, 3).result() == 5
+    with pytest.raises(ZeroDivisionError):
+        Beside(lambda: 1 / 0).result()
+    gate = threading.Event()
+    job = Beside(gate.wait)
+    assert job._thread.daemon  # a stopped run does not wait for it
+    gate.set()
+    assert job.result() is True
+
+
+def test_checks_on_their_own_thread_give_what_they_give_alone():
+    from ranker.stress.reversal import all_checks
+    from ranker.stress.run import stress_test
+
+    rng = np.random.default_rng(3)
+    m = pd.DataFrame(
+        rng.random((40, 3)), columns=["a", "b", "c"],
+        index=pd.Index([f"C{i}" for i in range(40)], name="corridor_id"),
+    )  # fmt: skip
+    w = {"a": 0.5, "b": 0.3, "c": 0.2}
+    benefit = {"a": True, "b": False, "c": True}
+    got = stress_test(m, w, benefit, kernel=topsis, samples=50)
+    from ranker.stress.batch import Scorer
+
+    alone = all_checks(
+        Scorer(topsis, np.array([True, False, True])), m.to_numpy(), np.array([0.5, 0.3, 0.2]),
+        list(m.index),
+    )  # fmt: skip
+    assert got.rank_reversal == [c.to_json() for c in alone]
+    assert any(not c.passed for c in alone)  # something to compare
