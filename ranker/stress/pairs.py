@@ -214,10 +214,18 @@ def pair_signs(scorer: Scorer, x: np.ndarray, weights: np.ndarray, a, b) -> np.n
     got = fast(scorer, x, weights, a, b) if fast is not None and scorer.higher_is_better else None
     if got is None:
         return _kernel_signs(scorer, x, weights, a, b)
-    sign, sure = got
+    return _settle(scorer, x, weights, *got, lambda i: (a[i], b[i]))
+
+
+def _settle(scorer, x, weights, sign, sure, pairs) -> np.ndarray:
+    """Closed-form verdicts ``sign``, those not ``sure`` scored by the kernel.
+
+    ``pairs(i)``: the corridors ``(a, b)`` of the verdicts at positions ``i``
+    (built only for the few unsure ones).
+    """
     if not sure.all():
         unsure = np.nonzero(~sure)[0]
-        sign[unsure] = _kernel_signs(scorer, x, weights, a[unsure], b[unsure])
+        sign[unsure] = _kernel_signs(scorer, x, weights, *pairs(unsure))
     return sign
 
 
@@ -329,11 +337,7 @@ def _row_form(scorer, x, weights):
 
     def row(u: int) -> np.ndarray:
         sign, sure = topsis_row_signs(xs, w2, u)
-        if not sure.all():
-            unsure = np.nonzero(~sure)[0]
-            b = u + 1 + unsure
-            sign[unsure] = _kernel_signs(scorer, x, weights, np.full(b.size, u), b)
-        return sign
+        return _settle(scorer, x, weights, sign, sure, lambda i: (np.full(i.size, u), u + 1 + i))
 
     return row
 
