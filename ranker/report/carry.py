@@ -400,22 +400,25 @@ def _copy_as_text(ws, target, max_row: int | None) -> int:
 RESULT_NOTE = "Written by ranker "
 
 
-def earlier_result_sheets(snapshot: bytes) -> set[str]:
+def earlier_result_sheets(snapshot: bytes, sheet_names=()) -> set[str]:
     """Return the titles of the sheets an earlier run of this tool wrote into the input.
 
     A sheet counts only when the workbook's ``ranker-sheets`` property lists
     it *and* the sheet itself begins as a result sheet does (its A2 note), so
     a forged or stale property cannot make the planner's own sheets vanish.
     The hidden state sheet counts when it is very hidden (the reader refuses
-    a planner's visible sheet of that name).
+    a planner's visible sheet of that name). ``sheet_names``, optional: every
+    sheet as the reader found them (``Inputs.sheet_names``); where the
+    property lists none and none is the state sheet, the workbook is not
+    opened again.
     """
     from .workbook import SHEETS_PROPERTY, STATE_SHEET
 
     listed = _custom_properties(snapshot).get(SHEETS_PROPERTY, "")
     titles = [t for t in listed.split("\n") if t]
     out: set[str] = set()
-    if not titles and not _may_name(snapshot, STATE_SHEET):
-        return out  # nothing listed and no state sheet: no need to open the workbook
+    if sheet_names and not titles and STATE_SHEET not in sheet_names:
+        return out
     try:
         src = _load(snapshot, read_only=True)
     except Exception:  # noqa: BLE001 - the reader read it; keep every sheet if this cannot
@@ -438,19 +441,6 @@ def earlier_result_sheets(snapshot: bytes) -> set[str]:
     finally:
         src.close()
     return out
-
-
-def _may_name(snapshot: bytes, title: str) -> bool:
-    """Might the workbook have a sheet called ``title``? (Its text is in the workbook part.)
-
-    True when the part cannot be read, so that the caller looks properly;
-    ``title`` must need no XML escaping.
-    """
-    try:
-        with zipfile.ZipFile(io.BytesIO(snapshot)) as zf:
-            return title.encode() in zf.read("xl/workbook.xml")
-    except Exception:  # noqa: BLE001 - an odd package: let openpyxl decide
-        return True
 
 
 def _custom_properties(snapshot: bytes) -> dict[str, str]:

@@ -424,9 +424,8 @@ def results_workbook(
 
     # The input's sheets as values, from the bytes the reader read (never the file again).
     snapshot = result.inputs.snapshot
-    wb, notes = carry_input_sheets(
-        result.inputs, earlier_result_sheets(snapshot), as_text=text, unwritable=unwritable
-    )
+    drop = earlier_result_sheets(snapshot, result.inputs.sheet_names)
+    wb, notes = carry_input_sheets(result.inputs, drop, as_text=text, unwritable=unwritable)
     result.warnings.extend(n for n in notes if n not in result.warnings)
     wb.template = False  # an .xltx input still gives an ordinary workbook
     writer = SheetWriter(wb, result.tool_version, result.started, text_bodies=text)

@@ -271,10 +271,14 @@ def test_earlier_result_sheets_without_the_property():
     wb.active["A2"] = "Written by ranker 0.1.0"
     assert carry.earlier_result_sheets(_save(wb)) == set()
     assert carry.earlier_result_sheets(b"not a zip") == set()
-    # No property, but our very hidden state sheet: it still counts (it is not opened
-    # for nothing when neither is there).
+    # No property, but our very hidden state sheet: it still counts, also when the
+    # reader's sheet names are given.
     data = _result_book(listed=[], note_a2="my own note")
     assert carry.earlier_result_sheets(data) == {STATE_SHEET}
+    names = ["Corridors", "Ranking", "My notes", STATE_SHEET]
+    assert carry.earlier_result_sheets(data, names) == {STATE_SHEET}
+    # The reader's names say there is nothing to look for: the workbook is not opened.
+    assert carry.earlier_result_sheets(data, names[:-1]) == set()
 
 
 def test_a_copy_without_the_earlier_results_loads_back():
