@@ -41,7 +41,7 @@ def _cards(result, shown) -> list[dict]:
     d = result.derivation
     rob = result.robustness
     cards = []
-    tips = narrative.cards_tips(result, list(shown))
+    tips = narrative.card_tips(result, list(shown))
     for cid, row in result.ranking.loc[shown].iterrows():
         strong, weak = narrative.strongest_weakest(result, cid)
         facts = []

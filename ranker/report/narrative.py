@@ -392,17 +392,14 @@ def tipping_sentence(record: dict, namer) -> str:
 CARD_TIPS = 3
 
 
-def card_tips(result, cid) -> list[str]:
-    """At most :data:`CARD_TIPS` tipping sentences for a corridor, nearest first, none alike.
+def card_tips(result, ids) -> dict:
+    """At most :data:`CARD_TIPS` tipping sentences for each corridor of ``ids``, nearest
+    first, none alike: ``{corridor id: [sentence, ...]}``.
 
     Nearest by the weight change needed; one per criterion and direction
-    (a second crossing further along the same sweep says nothing new).
+    (a second crossing further along the same sweep says nothing new). One
+    pass over the tipping points serves every corridor asked for.
     """
-    return cards_tips(result, [cid])[cid]
-
-
-def cards_tips(result, ids) -> dict:
-    """:func:`card_tips` of each corridor of ``ids``, from one pass over the tipping points."""
     rob = result.robustness
     mine: dict = {cid: [] for cid in ids}
     if rob is None:

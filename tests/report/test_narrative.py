@@ -321,10 +321,12 @@ def test_card_tips_nearest_first_one_per_criterion_and_direction():
     r = _result()
     r.robustness.tipping_points = tips
     namer = Namer(NAMES, {c.key: c.label for c in CRITERIA})
-    assert N.card_tips(r, "A") == [N.tipping_sentence(tips[i], namer) for i in (1, 3, 4)]
-    assert N.card_tips(r, "B") == N.card_tips(r, "A")  # B is the other corridor of each
-    assert N.card_tips(r, "D") == [N.tipping_sentence(tips[5], namer)]
-    assert N.card_tips(_result(robustness=None), "A") == []
+    got = N.card_tips(r, ["A", "B", "D"])
+    assert got["A"] == [N.tipping_sentence(tips[i], namer) for i in (1, 3, 4)]
+    assert got["B"] == got["A"]  # B is the other corridor of each
+    assert got["D"] == [N.tipping_sentence(tips[5], namer)]
+    assert N.card_tips(r, ["D"]) == {"D": got["D"]}  # the same asked alone
+    assert N.card_tips(_result(robustness=None), ["A"]) == {"A": []}
 
 
 def test_strongest_weakest_positions(run):
