@@ -8,11 +8,10 @@ analyses and ``docs/robustness.md`` for their rules.
 
 from __future__ import annotations
 
-import dataclasses
 import math
 import threading
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import pandas as pd
@@ -457,7 +456,7 @@ def stress_test(
     # The rank-reversal checks need nothing of the samples: they run on a second
     # thread (numpy lets go of the interpreter in its loops, so a second core helps)
     # while the samples are drawn and scored; their own scorer, nothing shared.
-    checks_job = Beside(all_checks, dataclasses.replace(scorer), x, w, ids)
+    checks_job = Beside(all_checks, replace(scorer), x, w, ids)
     ss_w, ss_v, ss_c = np.random.SeedSequence(seed).spawn(3)
     index = pd.Index(ids, name="corridor_id")
     draws = None
