@@ -189,14 +189,14 @@ class Scorer:
         """Closed-form scorer of chosen corridors on the weight line ``t e_c + (1 - t) s``.
 
         ``share`` is ``s`` (0 at ``c``). Returns ``f(t (m,), cols (m, p)) ->
-        (m, p)`` oriented scores [-], or None when the kernel's row scorer has
-        no closed form along a line (then use :meth:`rows`).
+        (m, p)`` oriented scores [-], with ``f.take(cols)`` the same over
+        corridors ``cols`` only, or None when the kernel's row scorer has no
+        closed form along a line (then use :meth:`rows`).
         """
         rows = self._row_scorer(matrix)
         if rows is None or not hasattr(rows, "along"):
             return None
-        line = rows.along(share, c)
-        return lambda t, cols: self._orient(line(t, cols))
+        return _Oriented(rows.along(share, c), self._orient)
 
     def stack(self, matrices: np.ndarray, weights: np.ndarray) -> np.ndarray:
         """Score matrices (s, m, k) under weights (s, k) or one (k,); oriented (s, m) [-].
@@ -226,6 +226,20 @@ class Scorer:
                 )
             out[start:stop] = self._orient(raw)
         return out
+
+
+class _Oriented:
+    """A row scorer's closed form along a line, its scores oriented (see :meth:`Scorer.along`)."""
+
+    def __init__(self, line, orient):
+        self.line, self.orient = line, orient
+        self.bound = line.bound  # largest magnitude of a score [-]
+
+    def __call__(self, t: np.ndarray, cols: np.ndarray) -> np.ndarray:
+        return self.orient(self.line(t, cols))
+
+    def take(self, cols: np.ndarray) -> _Oriented:
+        return _Oriented(self.line.take(cols), self.orient)
 
 
 def score_variants(scorer: Scorer, weights, count, rows, k, build) -> np.ndarray:

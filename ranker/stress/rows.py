@@ -90,22 +90,41 @@ class TopsisRows:
 
         Returns
         -------
-        callable ``(t (m,), cols (m, p)) -> (m, p)``
-            Relative closeness, higher is better [-].
+        TopsisLine
+            Called as ``(t (m,), cols (m, p)) -> (m, p)``: relative
+            closeness, higher is better [-].
         """
         s2 = np.asarray(share, dtype=float) ** 2
-        p_plus, q_plus = self.to_ideal[:, c], self.to_ideal @ s2
-        p_minus, q_minus = self.to_anti[:, c], self.to_anti @ s2
+        terms = (self.to_ideal[:, c], self.to_ideal @ s2, self.to_anti[:, c], self.to_anti @ s2)
+        return TopsisLine(terms)
 
-        def score(t: np.ndarray, cols: np.ndarray) -> np.ndarray:
-            t = np.asarray(t, dtype=float)[:, None]
-            a, b = t * t, (1.0 - t) ** 2
-            d_plus = np.sqrt(np.maximum(a * p_plus[cols] + b * q_plus[cols], 0.0))
-            d_minus = np.sqrt(np.maximum(a * p_minus[cols] + b * q_minus[cols], 0.0))
-            total = d_plus + d_minus
-            return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
 
-        return score
+class TopsisLine:
+    """TOPSIS closeness of chosen rows along one weight line (:meth:`TopsisRows.along`).
+
+    ``terms`` is ``(P+, Q+, P-, Q-)``, one entry per row; the squared
+    distances at ``t`` are ``t^2 P + (1 - t)^2 Q``.
+    """
+
+    #: Largest magnitude of a score [-] (relative closeness lies in [0, 1]).
+    bound = 1.0
+
+    def __init__(self, terms: tuple):
+        self.terms = terms
+
+    def __call__(self, t: np.ndarray, cols: np.ndarray) -> np.ndarray:
+        """Closeness of rows ``cols`` (m, p) at weights ``t`` (m,) [-]."""
+        t = np.asarray(t, dtype=float)[:, None]
+        a, b = t * t, (1.0 - t) ** 2
+        p_plus, q_plus, p_minus, q_minus = (u[cols] for u in self.terms)
+        d_plus = np.sqrt(np.maximum(a * p_plus + b * q_plus, 0.0))
+        d_minus = np.sqrt(np.maximum(a * p_minus + b * q_minus, 0.0))
+        total = d_plus + d_minus
+        return np.divide(d_minus, total, out=np.full_like(total, 0.5), where=total > 0)
+
+    def take(self, cols: np.ndarray) -> TopsisLine:
+        """The same line over rows ``cols`` only: row ``j`` of the result is ``cols[j]``."""
+        return TopsisLine(tuple(u[cols] for u in self.terms))
 
 
 #: Kernel to ``factory(matrix, is_benefit, **options) -> scorer(weights, cols)``.

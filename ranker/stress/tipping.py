@@ -23,6 +23,10 @@ rule of :mod:`ranker.stress.batch` decides what counts as crossed).
   search (false position with a bisection fall-back, stopping when the
   bracket is at most :data:`TOLERANCE` wide). A pair that crosses twice
   inside one grid cell (0.005 wide) is not seen.
+* Kernels scored along the sweep in closed form (TOPSIS,
+  :meth:`Scorer.along`): the same first cells, and each crossing solved
+  rather than narrowed (:mod:`ranker.stress.along`); corridors near a tie
+  there are narrowed as above, with the tie rule.
 
 References
 ----------
@@ -39,6 +43,7 @@ import numpy as np
 
 from ranker.score.ranks import TIE_RTOL
 
+from .along import crossings_along
 from .batch import Scorer, beat_thresholds, rank_batch
 
 #: Grid points over [0, 1] that bracket crossings for non-linear kernels [-].
@@ -113,7 +118,9 @@ class Sweep:
     notes: list[str] = field(default_factory=list)
 
 
-def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: int) -> Sweep:
+def sweep_criterion(
+    scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: int, *, solve: bool = True
+) -> Sweep:
     """Find, for every corridor, the weight interval of criterion ``c`` keeping its rank.
 
     Parameters
@@ -126,6 +133,10 @@ def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: 
         Current weights summing to 1 [-].
     c : int
         Index of the criterion swept.
+    solve : bool
+        Solve the crossings along the sweep where the kernel scores it in
+        closed form (:mod:`ranker.stress.along`); False narrows every one
+        by the bracketed search, as for any other kernel (for checks).
 
     Returns
     -------
@@ -144,8 +155,13 @@ def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: 
     w = np.asarray(weights, dtype=float)
     t0 = float(w[c])
     grid = np.unique(np.concatenate([np.linspace(0.0, 1.0, GRID_POINTS), [t0]]))
-    g = scorer.weights(x, sweep_weights(w, c, grid))
     g0 = int(np.searchsorted(grid, t0))
+    along = _closed_line(scorer, x, w, c) if solve else None
+    if along is not None and _bent(scorer, x, w, c, grid, along.bound):
+        ends = _crossings_solved(scorer, x, w, c, grid, g0, along)
+        if ends is not None:
+            return Sweep(c, t0, *ends, exact=False)
+    g = scorer.weights(x, sweep_weights(w, c, grid))
     a, b = g[0], g[-1] - g[0]
     line = a[None, :] + b[None, :] * grid[:, None]
     scale = max(1.0, float(np.abs(g).max()))
@@ -160,6 +176,60 @@ def sweep_criterion(scorer: Scorer, matrix: np.ndarray, weights: np.ndarray, c: 
         )
         exact = False
     return Sweep(c, t0, ranks, low, high, low_by, high_by, low_rank, high_rank, exact)
+
+
+#: Grid rows scored to show a sweep is not affine before scoring the whole grid [-].
+BEND_ROWS = 9
+#: Share of corridors near a tie above which the grid search does the whole sweep [-].
+TIED_SHARE = 0.25
+
+
+def _bent(scorer, x, w, c, grid, bound: float) -> bool:
+    """Whether a few grid rows already show the sweep's scores are not affine.
+
+    The affine test of :func:`sweep_criterion` on :data:`BEND_ROWS` rows,
+    the two ends among them: a deviation beyond ``LINEAR_RTOL * max(1,
+    bound)`` there exceeds it on the whole grid too (``bound`` bounds every
+    score's magnitude), so the answer is the whole grid's.
+    """
+    rows = np.unique(np.linspace(0, grid.size - 1, BEND_ROWS).round().astype(int))
+    g = scorer.weights(x, sweep_weights(w, c, grid[rows]))
+    line = g[0][None, :] + (g[-1] - g[0])[None, :] * grid[rows][:, None]
+    return bool(np.abs(g - line).max() > LINEAR_RTOL * max(1.0, bound))
+
+
+def _crossings_solved(scorer, x, w, c, grid, g0, along):
+    """Ranks and interval ends solved along the sweep (:mod:`ranker.stress.along`), or None.
+
+    The corridors that search leaves near a tie are narrowed here, in the
+    first cell it found for each, on every corridor as a partner candidate.
+    None where more than :data:`TIED_SHARE` of the ends are near a tie
+    (then :func:`_crossings_grid` is cheaper).
+    """
+
+    def scores(rows):
+        return scorer.weights(x, sweep_weights(w, c, grid[rows]))
+
+    at_t0 = scores(np.array([g0]))
+    ranks = rank_batch(at_t0)[0]
+    found = crossings_along(along, at_t0[0], grid, g0, ranks)
+    n = ranks.size
+    if found is None or sum(v.size for v in found.tied.values()) > TIED_SHARE * 2 * n:
+        return None
+    step = max(1, NARROW_BUDGET // n)
+    for side, who in found.tied.items():
+        end, by, after = found.ends[side]
+        for s in range(0, who.size, step):
+            i = who[s : s + step]
+            rb = found.cells[side][i]
+            rows, back = np.unique(np.concatenate([rb - side, rb]), return_inverse=True)
+            g = scores(rows)
+            cell = (i, back[: i.size], back[i.size :])
+            end[i], by[i], after[i] = _narrow_cells(
+                scorer, x, w, c, (grid[rows], g, beat_thresholds(g)), cell, ranks[i], None
+            )
+    (high, high_by, high_rank), (low, low_by, low_rank) = found.ends[1], found.ends[-1]
+    return ranks, low, high, low_by, high_by, low_rank, high_rank
 
 
 def _crossings_affine(a: np.ndarray, b: np.ndarray, t0: float):
@@ -241,24 +311,28 @@ def _crossings_grid(scorer, x, w, c, grid, g, g0):
             block = who[start : start + step]
             places = (pos, runs, moves, known)
             for i, window in _windows(order, places, first[block] - side, block, side):
-                ra, rb = first[i] - side, first[i]
-                cols = _partners(g, thresholds, ra, rb, i, window)
-                t, by, after = _narrow(
-                    scorer,
-                    x,
-                    w,
-                    c,
-                    i,
-                    grid[ra],
-                    grid[rb],
-                    g[ra[:, None], cols],
-                    g[rb[:, None], cols],
-                    ranks[g0, i],
-                    cols,
-                )
+                cell = (i, first[i] - side, first[i])
+                scores = (grid, g, thresholds)
+                t, by, after = _narrow_cells(scorer, x, w, c, scores, cell, ranks[g0, i], window)
                 ends[side][0][i], ends[side][1][i], ends[side][2][i] = t, by, after
     (high, high_by, high_rank), (low, low_by, low_rank) = ends[1], ends[-1]
     return low, high, low_by, high_by, low_rank, high_rank
+
+
+def _narrow_cells(scorer, x, w, c, scores, cells, rank0, window):
+    """Narrow each corridor's first cell to its crossing, on its flipping partners.
+
+    ``scores`` is (grid, its scores ``g``, their :func:`beat_thresholds`);
+    ``cells`` is (corridors ``i``, grid row ``ra`` where each is as at the
+    current weight, the next row ``rb`` where it has changed); ``rank0``
+    their current ranks; ``window`` as for :func:`_partners`. Returns
+    :func:`_narrow`'s (t, by, after).
+    """
+    grid, g, thresholds = scores
+    i, ra, rb = cells
+    cols = _partners(g, thresholds, ra, rb, i, window)
+    ga, gb = g[ra[:, None], cols], g[rb[:, None], cols]
+    return _narrow(scorer, x, w, c, i, grid[ra], grid[rb], ga, gb, rank0, cols)
 
 
 def _partners(g, thresholds, ra, rb, i, window=None) -> np.ndarray:
@@ -459,14 +533,22 @@ def _line(scorer, x, w, c):
     """Scores of chosen corridors at swept weights: ``f(t (m,), cols (m, p))``, oriented.
 
     In closed form along the sweep where the kernel allows
-    (:meth:`~ranker.stress.batch.Scorer.along`: TOPSIS), else by scoring the
-    rows at :func:`sweep_weights`.
+    (:func:`_closed_line`), else by scoring the rows at :func:`sweep_weights`.
     """
-    share = sweep_weights(w, c, np.zeros(1))[0]  # the others' shares, 0 at c
-    along = scorer.along(x, share, c)
+    along = _closed_line(scorer, x, w, c)
     if along is not None:
         return along
     return lambda t, cols: scorer.rows(x, sweep_weights(w, c, t), cols)
+
+
+def _closed_line(scorer, x, w, c):
+    """The kernel's closed-form scorer along the sweep of c, or None.
+
+    :meth:`~ranker.stress.batch.Scorer.along` (TOPSIS) on the other
+    criteria's shares at ``t = 0``.
+    """
+    share = sweep_weights(w, c, np.zeros(1))[0]  # the others' shares, 0 at c
+    return scorer.along(x, share, c)
 
 
 def _beaten(h: np.ndarray) -> np.ndarray:

@@ -6,7 +6,11 @@ ranks beyond as the earlier search, kept verbatim in
 ``_reference_tipping.py``, which re-scored every corridor at every step;
 it is compared on many random cases for every method (TOPSIS through its
 row scorer, the others scored whole). The TOPSIS row scorer itself is
-proven equal to the kernel :func:`ranker.score.topsis.topsis`.
+proven equal to the kernel :func:`ranker.score.topsis.topsis`. TOPSIS
+sweeps are solved along the weight line by default
+(:mod:`ranker.stress.along`, proven equal to this search run to
+convergence in ``test_along.py``); here ``solve=False`` asks for the
+bracketed search, which every other kernel takes.
 """
 
 from __future__ import annotations
@@ -67,7 +71,7 @@ def test_sweeps_equal_reference(n, k, seed, coarse, method, normalization, budge
     for c in range(k):
         with pytest.MonkeyPatch.context() as mp:
             mp.setattr(tipping, "NARROW_BUDGET", budget)
-            new = tipping.sweep_criterion(sc, x, w, c)
+            new = tipping.sweep_criterion(sc, x, w, c, solve=False)
         old = ref.sweep_criterion(sc, x, w, c)
         for name in FIELDS:
             got, want = getattr(new, name), getattr(old, name)
@@ -116,7 +120,7 @@ def test_large_sweep_equals_reference():
     for c in (0, 3):
         with pytest.MonkeyPatch.context() as mp:
             mp.setattr(tipping, "_windows", spy)
-            new = tipping.sweep_criterion(sc, x, w, c)
+            new = tipping.sweep_criterion(sc, x, w, c, solve=False)
         old = ref.sweep_criterion(sc, x, w, c)
         for name in FIELDS:
             got, want = getattr(new, name), getattr(old, name)
