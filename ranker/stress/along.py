@@ -58,14 +58,18 @@ from ranker.score.ranks import beat_thresholds
 NEAR_TIE = 1e-9
 #: Crossings this close along the sweep count as one, for the rank beyond [-] (weight).
 SAME_CROSSING = 1e-12
-#: Grid rows read at once [-].
+#: Grid rows read at once, at least [-].
 ROW_BLOCK = 16
+#: Scores per block of grid rows read at once (more rows where corridors are few) [-].
+ROW_BUDGET = 160_000
 #: Most corridors sharing one rank at the current weight for this search [-].
 MAX_TIED = 64
 #: Corridors changing in one cell up to which each is compared with all [-].
 FEW = 64
 #: Most booleans in one block of one-against-all comparisons [-].
 BLOCK = 4_000_000
+#: Most booleans (changed corridors x corridors) for taking a block's cells at once [-].
+AT_ONCE = 40_000
 #: Rounds of the root search at most [-].
 ROOT_ROUNDS = 100
 #: Width of the root search's final bracket [-] (weight).
@@ -103,7 +107,7 @@ def crossings_along(line, at_t0: np.ndarray, grid: np.ndarray, g0: int, ranks: n
     g0 : int
         Row of the current weight.
     ranks : ndarray of int, shape (n,)
-        Ranks at the current weight, from ``g[g0]`` [-].
+        Ranks at the current weight, from ``at_t0`` [-].
 
     Returns
     -------
@@ -188,33 +192,26 @@ def _side(line, grid, rows, side, order, start, row0, clear0):
     seen = np.zeros(n, dtype=bool)
     prev = (row0[0], *(u[0] for u in _bounds(row0, start, tied_before)))
     found = []  # per cell: owner, partner, straight-line crossing (sweep order), partner ahead
-    for s0 in range(0, rows.size, ROW_BLOCK):
-        block = rows[s0 : s0 + ROW_BLOCK]
+    out = (cell, tied, found)
+    size = max(ROW_BLOCK, ROW_BUDGET // n)
+    for s0 in range(0, rows.size, size):
+        block = rows[s0 : s0 + size]
         v = line(grid[block], order[None, :])
         ahead, others = _bounds(v, start, tied_before)
         thr = beat_thresholds(v)
         changed = ~((ahead > thr) & (others <= thr)) & ~seen
         hit = changed.any(axis=0)
         at = np.argmax(changed, axis=0)
-        for r in np.unique(at[hit]).tolist():
-            fresh = np.flatnonzero(hit & (at == r))
-            now = v[r]
-            was, up, down = (v[r - 1], ahead[r - 1], others[r - 1]) if r else prev
-            clear = clear0[fresh] & _apart(up[fresh], was[fresh]) & _apart(was[fresh], down[fresh])
-            clear &= _alone_in(now, fresh)
-            cell[fresh] = block[r]
-            tied[fresh[~clear]] = True
-            mine = np.zeros(n, dtype=bool)
-            mine[fresh[clear]] = True
-            if not mine.any():
-                continue
-            lo, hi = grid[block[r] - side], grid[block[r]]
-            a, b = _inversions(now, mine)
-            for own, oth in ((a, b), (b, a)):
-                k = mine[own]
-                i, j = own[k], oth[k]
-                d_lo, d_hi = was[i] - was[j], now[i] - now[j]
-                found.append((i, j, side * (lo + (hi - lo) * d_lo / (d_lo - d_hi)), j < i))
+        rows_of = (v, ahead, others, prev, block)
+        if not hit.any():
+            pass
+        elif hit.sum() * n <= AT_ONCE:  # few corridors: every cell of the block at once
+            _owners_at_once(rows_of, np.flatnonzero(hit), at, clear0, (grid, side), out)
+        else:
+            for r in np.unique(at[hit]).tolist():
+                _owners_of_cell(
+                    rows_of, np.flatnonzero(hit & (at == r)), r, clear0, (grid, side), out
+                )
         seen |= hit
         prev = (v[-1], ahead[-1], others[-1])
         if seen.all():
@@ -225,11 +222,80 @@ def _side(line, grid, rows, side, order, start, row0, clear0):
     return end, by, after, tied, cell
 
 
+def _owners_of_cell(rows_of, fresh, r, clear0, sweep, out):
+    """Corridors ``fresh``, changed first at block row ``r``: tied ones, and the others' pairs.
+
+    ``rows_of`` is (block scores laid out in the current order, their
+    :func:`_bounds`, the row before the block with its bounds, the block's
+    grid rows); ``sweep`` is (grid, side); ``out`` is (cell, tied, found)
+    of :func:`_side`, filled here.
+    """
+    v, ahead, others, prev, block = rows_of
+    grid, side = sweep
+    cell, tied, found = out
+    n = v.shape[1]
+    now = v[r]
+    was, up, down = (v[r - 1], ahead[r - 1], others[r - 1]) if r else prev
+    clear = clear0[fresh] & _apart(up[fresh], was[fresh]) & _apart(was[fresh], down[fresh])
+    clear &= _alone_in(now, fresh)
+    cell[fresh] = block[r]
+    tied[fresh[~clear]] = True
+    mine = np.zeros(n, dtype=bool)
+    mine[fresh[clear]] = True
+    if not mine.any():
+        return
+    lo, hi = grid[block[r] - side], grid[block[r]]
+    a, b = _inversions(now, mine)
+    for own, oth in ((a, b), (b, a)):
+        k = mine[own]
+        i, j = own[k], oth[k]
+        d_lo, d_hi = was[i] - was[j], now[i] - now[j]
+        found.append((i, j, side * (lo + (hi - lo) * d_lo / (d_lo - d_hi)), j < i))
+
+
+def _owners_at_once(rows_of, fresh, at, clear0, sweep, out):
+    """As :func:`_owners_of_cell` for every cell of a block at once (``at``: each one's row).
+
+    Each corridor is compared with every other in its own row: for few
+    corridors, cheaper than a pass per cell.
+    """
+    v, ahead, others, prev, block = rows_of
+    grid, side = sweep
+    cell, tied, found = out
+    n = v.shape[1]
+    r = at[fresh]
+    first = r == 0
+    before = np.maximum(r - 1, 0)
+    was_rows = v[before]
+    was_rows[first] = prev[0]
+    up = np.where(first, prev[1][fresh], ahead[before, fresh])
+    down = np.where(first, prev[2][fresh], others[before, fresh])
+    now_rows = v[r]
+    mine = np.arange(fresh.size)
+    was, now = was_rows[mine, fresh], now_rows[mine, fresh]
+    band = (2 * NEAR_TIE * np.abs(now))[:, None]
+    near = (now_rows >= now[:, None] - band) & (now_rows <= now[:, None] + band)
+    clear = clear0[fresh] & _apart(up, was) & _apart(was, down) & (near.sum(axis=1) <= 1)
+    cell[fresh] = block[r]
+    tied[fresh[~clear]] = True
+    q = np.arange(n)
+    flip = (q[None, :] < fresh[:, None]) != (now_rows > now[:, None])
+    flip[mine, fresh] = False
+    flip &= clear[:, None]
+    k, j = np.nonzero(flip)
+    i = fresh[k]
+    lo, hi = grid[block[r[k]] - side], grid[block[r[k]]]
+    d_lo, d_hi = was[k] - was_rows[k, j], now[k] - now_rows[k, j]
+    found.append((i, j, side * (lo + (hi - lo) * d_lo / (d_lo - d_hi)), j < i))
+
+
 def _solve(line, grid, side, order, cell, rank0, pairs, ends):
     """Fill ``ends`` (end, by, after, by place) from the flipping pairs of each owner."""
     o, p, key, ahead = pairs
     end, by, after = ends
     n = end.size
+    if not o.size:
+        return
     lo_of, hi_of = grid[cell - side], grid[cell]  # an owner's pairs share its cell
 
     def roots(sel):
