@@ -119,7 +119,7 @@ def crossings_along(line, at_t0: np.ndarray, grid: np.ndarray, g0: int, ranks: n
     order = np.argsort(-at_t0, kind="stable")
     start = ranks[order] - 1  # corridors ahead of each place, by the tie rule
     tied_before = np.arange(n) - start  # same-rank corridors placed before it
-    if tied_before.max(initial=0) > MAX_TIED:
+    if tied_before.max(initial=0) >= MAX_TIED:  # a rank shared by more than MAX_TIED
         return None
     row0 = line(grid[g0 : g0 + 1], order[None, :])
     clear0 = _clear(row0[0])
