@@ -30,7 +30,7 @@ the figures (the reproduce line echoes it when set).
 
 Run from the repository root::
 
-    PYTHONPATH=. /work/venv/bin/python bench/robustness.py [--with-200] [--mc-samples N]
+    PYTHONPATH=. python bench/robustness.py [--with-200] [--mc-samples N]
         [--skip-large] [--skip-full]
 """
 
@@ -270,7 +270,7 @@ def main(argv=None) -> int:
     print(
         "reproduce: "
         + (f"OPENBLAS_NUM_THREADS={threads} " if threads else "")
-        + "PYTHONPATH=. /work/venv/bin/python bench/robustness.py"
+        + "PYTHONPATH=. python bench/robustness.py"
         + (" --with-200" if args.with_200 else "")
         + (f" --mc-samples {args.mc_samples}" if args.mc_samples != 10_000 else "")
         + (" --skip-large" if args.skip_large else "")
