@@ -365,20 +365,32 @@ def tipping_sentence(record: dict, namer) -> str:
     namer : Namer
         Corridor names and criterion labels.
     """
+    from ranker.stress.tipping import TOLERANCE
+
     from .words import ordinal, weight_text
 
     label = namer.criterion(record["criterion"])
     now = weight_text(record["current_weight"])
-    at = weight_text(record["weight_at"], record["current_weight"])
-    moves = "rises above" if record["direction"] == "above" else "falls below"
-    when = f"If the weight on {label} {moves} {at} (it is {now} now), "
+    t = record["weight_at"]
+    if record["direction"] == "above" and t >= 1.0 - TOLERANCE:
+        when = f"If {label} takes all of the weight (it has {now} now), "
+    elif record["direction"] == "below" and t <= TOLERANCE:
+        when = f"If the weight on {label} falls to 0 (it is {now} now), "
+    else:
+        at = weight_text(t, record["current_weight"], ends=True)
+        moves = "rises above" if record["direction"] == "above" else "falls below"
+        when = f"If the weight on {label} {moves} {at} (it is {now} now), "
     who = namer.corridor(record["corridor_id"])
     other = namer.corridor(record["other_id"])
-    if record["kind"] == "top":
-        return when + f"{other} takes first place from {who}."
-    r, after = int(record["rank_before"]), int(record["rank_after"])
+    r, after = int(record.get("rank_before", 1)), int(record.get("rank_after", 0))
     o_now = int(record.get("other_rank_before", 0))
-    o_after = int(record.get("other_rank_after", 0))
+    o_after = int(record.get("other_rank_after", -1))
+    if record["kind"] == "top":
+        if o_after == after:  # the two tie there (Sweep.level)
+            return when + f"{other} draws level with {who} for first place."
+        return when + f"{other} takes first place from {who}."
+    if o_after == after:
+        return when + f"{who} moves up from {ordinal(r)} to {ordinal(after)}, level with {other}."
     verb = "moves up" if after < r else "drops"
     link = "passing" if after < r else "behind"
     text = when + f"{who} {verb} from {ordinal(r)} to {ordinal(after)}, {link} {other}"

@@ -103,6 +103,13 @@ class Sweep:
         Rank just beyond each end (the current rank where it reaches 0 or 1).
     exact : bool
         True when the crossings are closed-form (affine kernel).
+    level : dict of int to ndarray of bool
+        ``{1: (n,), -1: (n,)}``: True where the end above (1) or below (-1)
+        lies at the end of the sweep (within :data:`TOLERANCE` of 1 or 0)
+        and the corridor ties with the one named there, by the tie rule of
+        :mod:`ranker.score.ranks`: it draws level there rather than passing
+        (corridors with equal values on the swept criterion tie when it has
+        all of the weight). Filled by :func:`sweep_criterion`.
     """
 
     criterion: int
@@ -116,6 +123,7 @@ class Sweep:
     high_rank: np.ndarray
     exact: bool
     notes: list[str] = field(default_factory=list)
+    level: dict = field(default_factory=dict)
 
 
 def sweep_criterion(
@@ -160,7 +168,7 @@ def sweep_criterion(
     if along is not None and _bent(scorer, x, w, c, grid, along.bound):
         ends = _crossings_solved(scorer, x, w, c, grid, g0, along)
         if ends is not None:
-            return Sweep(c, t0, *ends, exact=False)
+            return _with_level(scorer, x, w, Sweep(c, t0, *ends, exact=False))
     g = scorer.weights(x, sweep_weights(w, c, grid))
     a, b = g[0], g[-1] - g[0]
     line = a[None, :] + b[None, :] * grid[:, None]
@@ -175,7 +183,23 @@ def sweep_criterion(
             scorer, x, w, c, grid, g, g0
         )
         exact = False
-    return Sweep(c, t0, ranks, low, high, low_by, high_by, low_rank, high_rank, exact)
+    sweep = Sweep(c, t0, ranks, low, high, low_by, high_by, low_rank, high_rank, exact)
+    return _with_level(scorer, x, w, sweep)
+
+
+def _with_level(scorer, x, w, sweep: Sweep) -> Sweep:
+    """Fill ``sweep.level``: which ends at 0 or 1 are ties with the corridor named there."""
+    for side, end, by in ((1, sweep.high, sweep.high_by), (-1, sweep.low, sweep.low_by)):
+        edge = 1.0 if side > 0 else 0.0
+        near = (by >= 0) & (np.abs(end - edge) <= TOLERANCE)
+        level = np.zeros(end.size, dtype=bool)
+        if near.any():
+            g = scorer.weights(x, sweep_weights(w, sweep.criterion, np.array([edge])))[0]
+            i = np.flatnonzero(near)
+            a, b = g[i], g[by[i]]
+            level[i] = ~(a > beat_thresholds(b)) & ~(b > beat_thresholds(a))
+        sweep.level[side] = level
+    return sweep
 
 
 #: Grid rows scored to show a sweep is not affine before scoring the whole grid [-].
@@ -622,8 +646,10 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str]) -> tup
         ``rank`` otherwise), ``corridor_id``, ``other_id``, ``weight_at``,
         ``direction`` (``above`` or ``below``), ``rank_before``,
         ``rank_after`` (of ``corridor_id``), ``other_rank_before``,
-        ``other_rank_after`` (of ``other_id``, just past ``weight_at``). A
-        crossing that ends the intervals of both corridors is listed once.
+        ``other_rank_after`` (of ``other_id``, just past ``weight_at``; at
+        it where that is an end of the sweep, 0 or 1, and the two tie there:
+        then both ranks are the shared one, ``Sweep.level``). A crossing
+        that ends the intervals of both corridors is listed once.
     intervals : list of list
         Rows for :data:`INTERVAL_COLUMNS` (numbers only; the words are
         :func:`ranker.report.words.tipping.with_interval_sentences`).
@@ -637,11 +663,12 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str]) -> tup
         # up, so a crossing is told by the corridor that moves up.
         order = np.argsort(sw.ranks, kind="stable")
         order = np.concatenate([order[sw.ranks[order] == 1], order[sw.ranks[order] > 1][::-1]])
+        level = {s: sw.level.get(s, np.zeros(len(ids), dtype=bool)) for s in (1, -1)}
         for i in order:
             r = int(sw.ranks[i])
-            for direction, t, by, after in (
-                ("above", sw.high[i], sw.high_by[i], sw.high_rank[i]),
-                ("below", sw.low[i], sw.low_by[i], sw.low_rank[i]),
+            for direction, t, by, after, tie in (
+                ("above", sw.high[i], sw.high_by[i], sw.high_rank[i], level[1][i]),
+                ("below", sw.low[i], sw.low_by[i], sw.low_rank[i], level[-1][i]),
             ):
                 if by < 0:
                     continue
@@ -662,9 +689,10 @@ def tipping_records(sweeps: list[Sweep], ids: list[str], keys: list[str]) -> tup
                         "rank_before": r,
                         "rank_after": int(after),
                         # The passed corridor sits next to it just past the crossing
-                        # (no other crossing at the same weight).
+                        # (no other crossing at the same weight), or shares its rank
+                        # where the two draw level at the end of the sweep.
                         "other_rank_before": int(sw.ranks[by]),
-                        "other_rank_after": int(after) + (1 if after < r else -1),
+                        "other_rank_after": int(after) + (0 if tie else 1 if after < r else -1),
                         "exact": bool(sw.exact),
                     }
                 )

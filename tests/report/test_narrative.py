@@ -20,7 +20,7 @@ import pytest
 
 from ranker import rank_workbook
 from ranker.report import narrative as N
-from ranker.report.words import Namer, ordinal
+from ranker.report.words import Namer, ordinal, weight_text
 from ranker.report.workbook import CAUTION
 from ranker.workbook.tables import CriterionSpec
 from tests.conftest import make_workbook
@@ -180,6 +180,33 @@ def test_tipping_sentence():
     # 0.2000 read as the 0.2 of now, 0.2004 does not.
     near = {**top, "weight_at": 0.2004}
     assert "rises above 0.2004 (it is 0.20 now)" in N.tipping_sentence(near, namer)
+    # A weight short of 1 or above 0 never reads as 1.00 or 0.00 (it could not rise
+    # above 1.00); one within the search's tolerance of an end is that end (common
+    # practice: a weight is a share of the whole, from none to all of it).
+    assert "rises above 0.996 (it is" in N.tipping_sentence({**top, "weight_at": 0.996}, namer)
+    assert "falls below 0.004 (it is" in N.tipping_sentence({**up, "weight_at": 0.004}, namer)
+    assert N.tipping_sentence({**top, "weight_at": 1 - 4e-7}, namer).startswith(
+        "If Delivery risk takes all of the weight (it has 0.20 now), "
+    )
+    assert N.tipping_sentence({**up, "weight_at": 4e-7}, namer).startswith(
+        "If the weight on Delivery risk falls to 0 (it is 0.20 now), "
+    )
+    # Two corridors that tie there draw level: the record gives both the same rank.
+    level = {**up, "weight_at": 1 - 4e-7, "direction": "above", "other_rank_after": 2}
+    assert N.tipping_sentence(level, namer).endswith(
+        "Charlie link (C) moves up from 3rd to 2nd, level with Bravo link (B)."
+    )
+    first = {**top, "weight_at": 1 - 4e-7, "rank_before": 1, "rank_after": 1}
+    assert N.tipping_sentence({**first, "other_rank_after": 1}, namer).endswith(
+        "Bravo link (B) draws level with Alpha link (A) for first place."
+    )
+
+
+def test_weight_text_keeps_off_the_ends_when_asked():
+    assert weight_text(0.996) == "1.00" and weight_text(0.996, ends=True) == "0.996"
+    assert weight_text(0.0004, 0.2, ends=True) == "0.0004"
+    assert weight_text(1.0, ends=True) == "1.00" and weight_text(0.0, ends=True) == "0.00"
+    assert weight_text(0.35, 0.2, ends=True) == "0.35"
 
 
 # -- tiers and the decision summary ---------------------------------------------------

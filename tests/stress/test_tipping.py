@@ -208,3 +208,41 @@ def test_sentences_a_board_can_read():
             assert row["sentence"].startswith(f"{who} stays ")
             assert f"the weight on {label} is between" in row["sentence"]
             assert row["sentence"].endswith(f"it is {now} now.")
+
+
+@pytest.mark.parametrize("kernel", [topsis, weighted_sum])
+@pytest.mark.parametrize("solve", [True, False])
+def test_equal_values_draw_level_when_the_criterion_has_all_the_weight(kernel, solve):
+    """Two corridors with the same value on the swept criterion tie at w_c = 1 (each is
+    scored on that criterion alone there), so the one behind draws level: its interval
+    ends at 1 with the other named, the record gives both the shared rank, and the
+    sentence says "level with", not "passing"; a crossing inside the sweep stays a pass."""
+    from ranker.report import narrative
+    from ranker.report.words import Namer, ordinal
+    from ranker.stress.tipping import TOLERANCE, tipping_records
+
+    # A and B share criterion 0's value and beat C and D on both; B is better on
+    # criterion 1. C and D cross each other inside the sweep.
+    x = np.array([[5.0, 3.5], [5.0, 4.0], [1.0, 2.0], [2.0, 1.0]])
+    benefit = np.array([True, True])
+    w = np.array([0.3, 0.7])
+    sw = sweep_criterion(Scorer(kernel, benefit), x, w, 0, solve=solve)
+    at_one = rank_scores(kernel(x, sweep_weights(w, 0, np.array([1.0]))[0], benefit))
+    assert at_one[0] == at_one[1]  # the tie the check is about
+    a = 0  # A, behind B now
+    assert sw.ranks[a] > sw.ranks[1]
+    assert abs(sw.high[a] - 1.0) <= TOLERANCE and sw.high_by[a] == 1 and sw.level[1][a]
+    # Only A and B draw level (the weighted sum's closed form also ends B's interval there).
+    assert not sw.level[-1].any() and set(np.flatnonzero(sw.level[1])) <= {0, 1}
+    records, _ = tipping_records([sw], ["A", "B", "C", "D"], ["k0", "k1"])
+    (tie,) = [r for r in records if {r["corridor_id"], r["other_id"]} == {"A", "B"}]
+    assert tie["weight_at"] >= 1 - TOLERANCE
+    assert tie["rank_after"] == tie["other_rank_after"] == at_one[0]
+    text = narrative.tipping_sentence(tie, Namer())
+    assert text.startswith("If k0 takes all of the weight (it has 0.30 now), corridor ")
+    assert "level with corridor" in text and "passing" not in text and "takes first" not in text
+    assert text.endswith(f"{ordinal(int(at_one[0]))}, level with corridor B.") or text.endswith(
+        "draws level with corridor B for first place."
+    )
+    inside = [r for r in records if TOLERANCE < r["weight_at"] < 1 - TOLERANCE]
+    assert inside and all(r["other_rank_after"] != r["rank_after"] for r in inside)

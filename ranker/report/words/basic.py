@@ -42,11 +42,17 @@ def ordinal(n: int) -> str:
     return f"{n}{suffix}"
 
 
-def weight_text(value: float, reference: float | None = None) -> str:
-    """Format a weight with two decimals, more where needed to differ from ``reference``."""
+def weight_text(value: float, reference: float | None = None, *, ends: bool = False) -> str:
+    """Format a weight with two decimals, more where needed to differ from ``reference``.
+
+    With ``ends``, a weight strictly between 0 and 1 also takes the decimals
+    needed not to read as 0 or 1 (0.996 is ``0.996``, not ``1.00``).
+    """
     for decimals in range(2, 7):
         text = f"{value:.{decimals}f}"
-        if reference is None or text != f"{reference:.{decimals}f}":
+        same = reference is not None and text == f"{reference:.{decimals}f}"
+        edge = ends and 0.0 < value < 1.0 and float(text) in (0.0, 1.0)
+        if not same and not edge:
             return text
     return f"{value:.6f}"
 

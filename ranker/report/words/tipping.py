@@ -21,8 +21,18 @@ def interval_sentence(row, namer: Namer) -> str:
         return f"{who} stays {ordinal(r)} whatever the weight on {label} (0 to 1)."
     return (
         f"{who} stays {ordinal(r)} while the weight on {label} is between "
-        f"{weight_text(lo, now)} and {weight_text(hi, now)}; it is {weight_text(now)} now."
+        f"{_end_text(lo, now)} and {_end_text(hi, now)}; it is {weight_text(now)} now."
     )
+
+
+def _end_text(value: float, now: float) -> str:
+    """An interval's end: 0 or 1 where it is within the search's tolerance of one, else
+    as many decimals as it takes not to read as the current weight, 0 or 1."""
+    from ranker.stress.tipping import TOLERANCE
+
+    if value <= TOLERANCE or value >= 1.0 - TOLERANCE:
+        return f"{round(value):.2f}"
+    return weight_text(value, now, ends=True)
 
 
 def with_interval_sentences(intervals: pd.DataFrame, namer: Namer) -> pd.DataFrame:

@@ -76,3 +76,12 @@ def test_with_interval_sentences_empty_table():
     table = pd.DataFrame(columns=list(_row()))
     out = with_interval_sentences(table, NAMER)
     assert len(out) == 0 and list(out.columns)[-1] == "sentence"
+
+
+def test_interval_ends_near_zero_or_one():
+    # An end just short of 1 keeps the decimals that set it apart from 1; one within
+    # the tipping search's tolerance (1e-6) of an end is that end.
+    text = interval_sentence(_row(lo=0.004, hi=0.996), NAMER)
+    assert "between 0.004 and 0.996;" in text
+    text = interval_sentence(_row(lo=0.25, hi=1 - 4e-7), NAMER)
+    assert "between 0.25 and 1.00;" in text
