@@ -171,10 +171,9 @@ def sweep_criterion(
             return _with_level(scorer, x, w, Sweep(c, t0, *ends, exact=False))
     g = scorer.weights(x, sweep_weights(w, c, grid))
     a, b = g[0], g[-1] - g[0]
-    line = a[None, :] + b[None, :] * grid[:, None]
     scale = max(1.0, float(np.abs(g).max()))
     ranks = rank_batch(g[g0])
-    if np.abs(g - line).max() <= LINEAR_RTOL * scale:
+    if _off_line(g, grid) <= LINEAR_RTOL * scale:
         low, high, low_by, high_by = _crossings_affine(a, b, t0)
         low_rank, high_rank = _ranks_beyond(scorer, x, w, c, ranks, low, high, low_by, high_by)
         exact = True
@@ -218,8 +217,14 @@ def _bent(scorer, x, w, c, grid, bound: float) -> bool:
     """
     rows = np.unique(np.linspace(0, grid.size - 1, BEND_ROWS).round().astype(int))
     g = scorer.weights(x, sweep_weights(w, c, grid[rows]))
-    line = g[0][None, :] + (g[-1] - g[0])[None, :] * grid[rows][:, None]
-    return bool(np.abs(g - line).max() > LINEAR_RTOL * max(1.0, bound))
+    return _off_line(g, grid[rows]) > LINEAR_RTOL * max(1.0, bound)
+
+
+def _off_line(g: np.ndarray, t: np.ndarray) -> float:
+    """Largest distance of scores ``g`` (rows at weights ``t``, 0 and 1 first and last)
+    from each corridor's straight line between its first and last row [-]."""
+    line = g[0][None, :] + (g[-1] - g[0])[None, :] * t[:, None]
+    return float(np.abs(g - line).max())
 
 
 def _crossings_solved(scorer, x, w, c, grid, g0, along):
