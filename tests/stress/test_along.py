@@ -8,7 +8,11 @@ is proven equal to the earlier all-corridor search in
 1e-13 so that it converges, it must give the same rank intervals as the
 solved search: ends to 1e-12, the same partners and the same ranks beyond,
 on random continuous and coarse (tied) matrices, every normalisation and
-mixed directions. At the product's ``TOLERANCE`` the two ends differ by at
+mixed directions. Below the product's resolution two differences are
+rounding, not error, and are checked for what they are: near twins crossed
+at one weight (either may be named: they must be level there), and a rank
+beyond read across a second crossing within the 2e-13 step (the solved
+search's must be the full re-ranking's). At the product's ``TOLERANCE`` the two ends differ by at
 most half of it. The root search is checked against
 :func:`scipy.optimize.brentq` (Brent 1973), the closed form's ``take``
 against the line it came from. TOPSIS: Hwang & Yoon (1981), pp. 128-134;
@@ -19,10 +23,11 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
+from ranker.score.ranks import beat_thresholds
 from ranker.score.topsis import topsis
 from ranker.stress import along, tipping
 from ranker.stress.batch import Scorer
@@ -65,6 +70,8 @@ def _sweeps(sc, x, w, c, tolerance):
     st.sampled_from(["continuous", "coarse", "twins", "near"]),
     st.sampled_from(["vector", "minmax", "sum", "max"]),
 )
+@example(5, 2, 2, "near", "vector")  # near twins crossed at one weight: either may be named
+@example(8, 2, 0, "near", "minmax")  # a second crossing within 1e-12 of where the rank is read
 def test_solved_equals_converged_search(n, k, seed, kind, normalization):
     x, w, benefit = _case(n, k, seed, kind)
     sc = Scorer(topsis, benefit, True, {"normalization": normalization})
@@ -74,7 +81,52 @@ def test_solved_equals_converged_search(n, k, seed, kind, normalization):
             got, want = getattr(solved, name), getattr(searched, name)
             assert np.allclose(got, want, rtol=0, atol=1e-12), (name, c)
         for name in FIELDS:
-            assert np.array_equal(getattr(solved, name), getattr(searched, name)), (name, c)
+            got, want = getattr(solved, name), getattr(searched, name)
+            if name in ("low_by", "high_by"):
+                end = getattr(solved, "low" if name == "low_by" else "high")
+                got = _same_partner(sc, x, w, c, end, got, want)
+            if name in ("low_rank", "high_rank"):
+                side = -1 if name == "low_rank" else 1
+                end = getattr(solved, "low" if side < 0 else "high")
+                got = _rank_near_end(sc, x, w, c, end, side, got, want, 1e-13)
+            assert np.array_equal(got, want), (name, c)
+
+
+def _same_partner(sc, x, w, c, end, got, want):
+    """``got`` where the two searches name partners level with each other at the end.
+
+    Near twins (1e-14 apart: tied by the tie rule) are crossed at one weight;
+    which of them a search names is decided by rounding, and either is true.
+    Elsewhere ``got`` is returned unchanged, so a different partner still fails.
+    """
+    got = got.copy()
+    for i in np.flatnonzero((got != want) & (got >= 0) & (want >= 0)):
+        g = sc.weights(x, tipping.sweep_weights(w, c, np.array([end[i]])))[0]
+        a, b = g[[got[i]]], g[[want[i]]]
+        if not (a > beat_thresholds(b) or b > beat_thresholds(a)):
+            got[i] = want[i]
+    return got
+
+
+def _rank_near_end(sc, x, w, c, end, side, got, want, tolerance):
+    """``got`` where it is the full re-ranking's rank at the point it is read.
+
+    The rank beyond an end is read ``2 tolerance`` past it. With near twins
+    (1e-14 apart, tied with each other by the tie rule) and the search taken
+    down to 1e-13, a second crossing can lie within that step, where the
+    bracketed search counts the corridors beaten one by one at its bracket's
+    far end while the solved search re-ranks the corridors (``rank_batch``,
+    the rule of the ranking table). Where the two differ, the solved one must
+    be that re-ranking's rank; any other difference still fails.
+    """
+    from ranker.stress.batch import rank_batch
+
+    got = got.copy()
+    for i in np.flatnonzero(got != want):
+        at = np.clip([end[i] + side * 2 * tolerance], 0.0, 1.0)
+        if rank_batch(sc.weights(x, tipping.sweep_weights(w, c, at)))[0, i] == got[i]:
+            got[i] = want[i]
+    return got
 
 
 @settings(max_examples=20, deadline=None, derandomize=True)
