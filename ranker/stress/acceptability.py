@@ -372,7 +372,7 @@ def _confidence(scorer, x, central, spread, rng, samples, notes):
         c = min(step, draws - start)
         mats = perturb_values(x, spread, c, rng=rng)
         # Every winner's central weights score the same value draws.
-        for r, i in enumerate(winners):
-            wins[r] += first_share(scorer.stack(mats, cw[r]), i).sum()
+        for r, scores in enumerate(scorer.stack_each(mats, cw)):
+            wins[r] += first_share(scores, winners[r]).sum()
     confidence[winners] = wins / draws
     return confidence, draws

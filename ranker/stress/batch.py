@@ -227,6 +227,27 @@ class Scorer:
             out[start:stop] = self._orient(raw)
         return out
 
+    def stack_each(self, matrices: np.ndarray, weights: np.ndarray):
+        """Score one stack (s, m, k) under each weight row (r, k) in turn; yields oriented (s, m) [-].
+
+        Value for value what ``stack(matrices, w)`` gives for each row ``w``.
+        A kernel with a shared form (:data:`ranker.stress.rows.EACH_SCORERS`)
+        does the work that does not depend on the weights once for all rows;
+        the shared form holds that work for the whole stack at once, so the
+        caller passes a stack of at most :func:`chunk_size` matrices. Any
+        other kernel is called once per row.
+        """
+        from .rows import EACH_SCORERS
+
+        each = EACH_SCORERS.get(self.kernel)
+        if each is None:
+            for w in np.asarray(weights, dtype=float):
+                yield self.stack(matrices, w)
+            return
+        mats = np.asarray(matrices, dtype=float)
+        for raw in each(mats, weights, self.is_benefit, **self.options):
+            yield self._orient(raw)
+
 
 class _Oriented:
     """A row scorer's closed form along a line, its scores oriented (see :meth:`Scorer.along`)."""

@@ -30,8 +30,7 @@ from collections.abc import Callable
 
 import numpy as np
 
-from ranker.score.normalize import BENEFIT_SCALED, normalize
-from ranker.score.topsis import topsis
+from ranker.score.topsis import deviations, topsis, topsis_each
 
 
 class TopsisRows:
@@ -48,13 +47,9 @@ class TopsisRows:
     """
 
     def __init__(self, matrix, is_benefit, *, normalization: str = "vector"):
-        is_benefit = np.asarray(is_benefit, dtype=bool)
-        norm = normalize(np.asarray(matrix, dtype=float), is_benefit, normalization)
-        direction = np.ones_like(is_benefit) if normalization in BENEFIT_SCALED else is_benefit
-        hi = norm.max(axis=-2, keepdims=True)
-        lo = norm.min(axis=-2, keepdims=True)
-        self.to_ideal = (norm - np.where(direction, hi, lo)) ** 2  # Step 4 of [1]
-        self.to_anti = (norm - np.where(direction, lo, hi)) ** 2
+        self.to_ideal, self.to_anti = deviations(  # Steps 2-4 of [1]
+            np.asarray(matrix, dtype=float), is_benefit, normalization
+        )
 
     def __call__(self, weights: np.ndarray, cols: np.ndarray) -> np.ndarray:
         """Score corridors ``cols[m]`` under weight row ``weights[m]`` [-].
@@ -129,3 +124,9 @@ class TopsisLine:
 
 #: Kernel to ``factory(matrix, is_benefit, **options) -> scorer(weights, cols)``.
 ROW_SCORERS: dict[Callable, Callable] = {topsis: TopsisRows}
+
+#: Kernel to ``each(matrix, weights (r, k), is_benefit, **options)``, yielding
+#: the kernel's scores of the whole matrix or stack under each weight row in
+#: turn, value for value, with the work that does not depend on the weights
+#: done once (:meth:`ranker.stress.batch.Scorer.stack_each`).
+EACH_SCORERS: dict[Callable, Callable] = {topsis: topsis_each}

@@ -101,6 +101,63 @@ def test_scorer_stacks_every_method_in_one_call_per_chunk(key, monkeypatch):
     np.testing.assert_allclose(shared, one_w, rtol=1e-12, atol=1e-13)
 
 
+@pytest.mark.parametrize("normalization", ["vector", "minmax", "max", "linear"])
+@pytest.mark.parametrize("key", sorted(METHODS))
+def test_stack_each_equals_one_stack_per_weight_row(key, normalization, monkeypatch):
+    """Scoring one stack under each weight row gives, value for value, one stack() per row.
+
+    TOPSIS's shared form (rows.EACH_SCORERS) normalises the stack once for all
+    rows; every other kernel is called once per row. Both layouts of the
+    stack, a constant column and exact ties between corridors are included.
+    """
+    import ranker.score.topsis as topsis_module
+    from ranker.stress.acceptability import perturb_values
+
+    method = METHODS[key]
+    rng = np.random.default_rng(3)
+    b = np.array([True, False, True, False])
+    x = rng.uniform(1, 9, size=(6, 4))
+    x[:, 2] = 4.0  # a constant column
+    x[3] = x[1]  # two corridors tied on every criterion
+    drawn = perturb_values(x, np.array([0.2, 0.1, 0.0, 0.3]), 9, rng=rng)  # criterion-major
+    rows = rng.dirichlet(np.ones(4), size=5)
+    rows[0] = [0.0, 0.0, 1.0, 0.0]  # all of the weight on the constant column
+    opts = method.kernel_options(resolve({"topsis_normalization": normalization}))
+    sc = Scorer(method.kernel, b, method.higher_is_better, opts)
+    real_normalize = topsis_module.normalize
+    for mats in (drawn, np.ascontiguousarray(drawn)):
+        expected = [sc.stack(mats, w) for w in rows]
+        calls = []
+        monkeypatch.setattr(topsis_module, "normalize", _counted(calls, real_normalize))
+        got = list(sc.stack_each(mats, rows))
+        monkeypatch.setattr(topsis_module, "normalize", real_normalize)
+        assert len(got) == len(rows)
+        for g, e in zip(got, expected, strict=True):
+            assert np.array_equal(g, e)
+        if method.kernel is topsis:
+            assert len(calls) == 1  # the weight-free work done once for the five rows
+
+
+def _counted(calls, func):
+    def wrapper(*args, **kwargs):
+        calls.append(1)
+        return func(*args, **kwargs)
+
+    return wrapper
+
+
+def test_topsis_each_equals_topsis_on_one_matrix():
+    """On one (n, k) matrix each weight row scores like topsis(matrix, w), exactly."""
+    from ranker.score.topsis import topsis_each
+
+    rng = np.random.default_rng(4)
+    b = np.array([True, True, False])
+    x = rng.uniform(1, 9, size=(8, 3))
+    rows = rng.dirichlet(np.ones(3), size=4)
+    for got, w in zip(topsis_each(x, rows, b), rows, strict=True):
+        assert np.array_equal(got, topsis(x, w, b))
+
+
 def test_scorer_names_a_kernel_that_cannot_take_a_stack():
     """A kernel written for one (n, k) matrix only is refused with a message, not misused."""
 
