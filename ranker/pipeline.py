@@ -514,7 +514,10 @@ def _futures(inputs: Inputs, used, scores):
             kept, _ = screen(matrix, inputs.included, inputs)
             levels = full_credit_levels(inputs.included, assumptions)
             scored = saturate(matrix, inputs.included, levels)
-            return score_matrix(scored.loc[kept], inputs.included, used, assumptions).rank
+            # A future is ranked by the primary method alone: the others' scores and
+            # their agreement would be computed only to be dropped.
+            primary = {**assumptions, "methods": (assumptions["primary_method"],)}
+            return score_matrix(scored.loc[kept], inputs.included, used, primary).rank
         except InputError as exc:  # name the Scenarios cells, not the Assumptions sheet
             from .workbook.scenario_cells import in_scenario
 

@@ -120,3 +120,38 @@ def test_the_runs_warnings_are_words_of_records_in_stage_order(tmp_path):
     monte_carlo = next(i for i, x in enumerate(w) if x.startswith("Monte Carlo is off"))
     budget = w.index("Budget: the budget is zero in every year, so nothing can be funded.")
     assert correlated < monte_carlo < budget
+
+
+@pytest.mark.parametrize("primary", ["topsis", "weighted_sum", "vikor", "weighted_product"])
+def test_futures_rank_as_a_full_scoring_of_each_scenario_does(tmp_path, primary):
+    """A future is scored by the primary method alone; its ranks equal scoring with every method.
+
+    The reference re-derives the demo's criteria under each scenario's
+    overrides and scores them with all four methods (the run's ``methods``
+    list), then takes the primary's rank.
+    """
+    from ranker.assumptions import resolve
+    from ranker.demo import write_demo
+    from ranker.pipeline import rank_inputs
+    from ranker.score import score_matrix
+    from ranker.score.saturation import full_credit_levels, saturate
+    from ranker.score.screen import screen
+
+    inputs = read_workbook(write_demo(tmp_path))
+    inputs.assumptions = {**inputs.assumptions, "primary_method": primary}
+    result = rank_inputs(inputs, samples=0)
+    scenarios: dict[str, dict] = {}
+    for _, row in inputs.scenarios.iterrows():
+        scenarios.setdefault(str(row["scenario"]), {})[str(row["key"])] = row["value"]
+    assert len(scenarios) >= 2
+    every = ("topsis", "weighted_sum", "vikor", "weighted_product")
+    for name, overrides in scenarios.items():
+        a = {**resolve(inputs.assumptions, overrides), "methods": every}
+        matrix, _, _ = build_matrix(inputs, a)
+        kept, _ = screen(matrix, inputs.included, inputs)
+        scored = saturate(matrix, inputs.included, full_credit_levels(inputs.included, a))
+        want = score_matrix(scored.loc[kept], inputs.included, result.chosen_weights, a).rank
+        got = result.futures["ranks"][name]
+        assert {str(k): int(v) for k, v in want.items()} == {
+            str(k): int(v) for k, v in got.items()
+        }
