@@ -249,3 +249,29 @@ def test_one_blas_thread_unless_set(tmp_path, given, want):
         [sys.executable, "-c", code], env=env, capture_output=True, text=True, check=True
     )
     assert out.stdout.strip().splitlines()[-1] == want
+
+
+def test_the_command_line_leaves_its_objects_out_of_the_exit_collection(direct_workbook):
+    """The real command line freezes the collector at its end; a call from code does not.
+
+    Frozen objects are skipped by the collection at interpreter exit (the
+    ``gc.freeze`` documentation); a program or test calling ``main(argv)``
+    keeps its collector as it was, so repeated calls free their cycles.
+    """
+    import gc
+
+    before = gc.get_freeze_count()
+    assert main(["check", str(direct_workbook)]) == 0
+    assert gc.get_freeze_count() == before
+    probe = (
+        "import atexit, gc, sys\n"
+        "atexit.register(lambda: print('frozen', gc.get_freeze_count() > 0))\n"
+        "from ranker.cli import main\n"
+        "sys.argv = ['ranker', 'check', sys.argv[1]]\n"
+        "sys.exit(main())\n"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", probe, str(direct_workbook)], capture_output=True, text=True
+    )
+    assert out.returncode == 0, out.stderr
+    assert out.stdout.strip().endswith("frozen True")
