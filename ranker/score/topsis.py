@@ -138,10 +138,8 @@ def deviations(
     matrix : ndarray, shape (n, k) or (s, n, k)
         Decision matrix or stack, in the criteria's own units; a stack is
         taken along axis -2, matrix by matrix [unit of each criterion].
-    is_benefit : ndarray of bool, shape (k,)
-        True where more is better [-].
-    normalization : str
-        A key of :data:`ranker.score.normalize.NORMALIZATIONS` [-].
+    is_benefit, normalization
+        As for :func:`topsis`.
 
     Returns
     -------
