@@ -61,17 +61,21 @@ FLOOR = (
 )
 
 
-def timed(args: list[str]) -> tuple[float, float]:
-    """Run a process; return (wall seconds, peak resident memory [MB])."""
+def timed(args: list[str], *, inside: list | None = None) -> tuple[float, float]:
+    """Run a process; return (wall seconds, peak resident memory [MB]).
+
+    ``inside``, when given, gets the seconds from the start of the measured
+    code to its end (imports and work, not the interpreter's start and exit).
+    """
     t = time.perf_counter()
     run = subprocess.run([PY, "-c", MEASURE, *args], capture_output=True, text=True)
     wall = time.perf_counter() - t
     if run.returncode != 0:
         raise SystemExit(f"failed: {args}\n{run.stderr[-2000:]}")
-    peak = float(
-        [line for line in run.stderr.splitlines() if line.startswith("@@")][-1].split()[2]
-    )
-    return wall, peak
+    mark = [line for line in run.stderr.splitlines() if line.startswith("@@")][-1].split()
+    if inside is not None:
+        inside.append(float(mark[1]))
+    return wall, float(mark[2])
 
 
 def main() -> None:
@@ -98,15 +102,19 @@ def main() -> None:
         for label in labels[: 1 + bool(made)]:
             # Floor and run alternate, so a machine that slows down or speeds up
             # during the benchmark moves both; the ratio is taken pair by pair.
-            floor, full = [], []
+            floor, full, inside = [], [], []
             for _ in range(opts.runs):
                 floor.append(timed(["-c", FLOOR, str(demo), str(tmp / "copy.xlsx")])[0])
-                full.append(timed(["run", str(demo), "--quiet", "--out", str(tmp)])[0])
+                full.append(
+                    timed(["run", str(demo), "--quiet", "--out", str(tmp)], inside=inside)[0]
+                )
             ratios = sorted(r / f for r, f in zip(full, floor, strict=True))
+            outside = statistics.median(w - i for w, i in zip(full, inside, strict=True))
             print(
                 f"   ranker run ({label}) {statistics.median(full):.2f} s; read+write floor "
                 f"{statistics.median(floor):.2f} s; ratio {statistics.median(ratios):.1f} "
-                f"(pairs {ratios[0]:.1f}-{ratios[-1]:.1f}; target <= 4)"
+                f"(pairs {ratios[0]:.1f}-{ratios[-1]:.1f}; target <= 4); "
+                f"interpreter start and exit {outside:.2f} s of the run"
             )
             for folder in made:  # the second pass starts without bytecode
                 shutil.rmtree(folder, ignore_errors=True)
