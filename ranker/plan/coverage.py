@@ -22,31 +22,31 @@ References
 
 from __future__ import annotations
 
-import re
-
 import numpy as np
 import pandas as pd
 
 from ..input_warnings import warning
-
-_DASHES = re.compile("[\u2010-\u2015\u2212]")  # hyphen, en dash, em dash, minus sign ...
+from ..workbook.schema import split_connects
 
 
 def parse_connects(text: object) -> tuple[str, str] | None:
-    """Split a ``connects`` text into the two places it joins.
+    """Split a ``connects`` text into the two places it joins, as the reader does.
+
+    One rule for the whole product: :func:`ranker.workbook.schema.split_connects`,
+    which the reader checks every Corridors cell with (a spaced dash splits
+    first, so a name may hold a hyphen; en and em dashes count as the
+    joining dash). Blank or NaN: no places.
 
     Parameters
     ----------
     text : object
-        ``"A-B"`` (one dash), or ``"A - B"`` (a dash with spaces around it,
-        needed when a place name holds a dash itself: ``"Port-Ville -
-        Lakeside"``). En and em dashes count as dashes. Blank or NaN: no
-        places.
+        The cell's value.
 
     Returns
     -------
     tuple of str or None
-        The two place names, spaces tidied; None when blank.
+        The two place names, runs of spaces inside a name made one; None
+        when blank.
 
     Raises
     ------
@@ -62,25 +62,10 @@ def parse_connects(text: object) -> tuple[str, str] | None:
     """
     if text is None or (isinstance(text, float) and np.isnan(text)):
         return None
-    s = " ".join(_DASHES.sub("-", str(text)).split())
-    if not s:
+    if not str(text).strip():
         return None
-    if s.count(" - ") == 1:
-        a, b = s.split(" - ")
-    elif s.count("-") == 1:
-        a, b = s.split("-")
-    else:
-        raise ValueError(
-            f"'{text}' must name two places joined by one dash, such as Northport-Lakeside; "
-            "where a place name holds a dash, put spaces around the joining dash "
-            "(Port-Ville - Lakeside)"
-        )
-    a, b = a.strip(), b.strip()
-    if not a or not b:
-        raise ValueError(f"'{text}' must name a place on each side of the dash")
-    if a.casefold() == b.casefold():
-        raise ValueError(f"'{text}' joins {a} to itself; name the two different places it joins")
-    return a, b
+    a, b = split_connects(str(text))
+    return " ".join(a.split()), " ".join(b.split())  # "North  port" is "North port"
 
 
 def first_joined(
@@ -189,7 +174,7 @@ def coverage_view(
         try:
             pairs.append(parse_connects(t))
         except ValueError as err:
-            raise ValueError(f"connects of corridor {cid}: {err}") from None
+            raise ValueError(f"connects of corridor {cid}, '{t}': {err}") from None
     spelling: dict[str, str] = {}
     for p in pairs:
         for name in p or ():

@@ -309,3 +309,34 @@ def test_command_line_ends_with_default_ctrl_c_and_plain_library_warnings(monkey
     err = capsys.readouterr().err
     assert "warning: RuntimeWarning: divide by zero encountered" in err
     assert ".py:" not in err and "site-packages" not in err
+
+
+@pytest.mark.parametrize("hyphen", ["\u2010", "\u2011"])
+def test_a_place_name_with_a_typographic_hyphen_runs_end_to_end(tmp_path, hyphen):
+    """A word processor's hyphen (U+2010) or non-breaking hyphen (U+2011) inside a place name.
+
+    The reader takes "Port<hyphen>Quarrow-Zelmont Junction" as two places (the
+    plain dash joins them); the build plan's coverage view once split the same
+    cell by another rule and stopped the run with an internal error after
+    `check` had passed. Now both read it by one rule, and the plan names the
+    place as written.
+    """
+    from ranker.demo import write_demo
+
+    demo = write_demo(tmp_path)
+    wb = load_workbook(demo)
+    for ws in wb.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                if isinstance(cell.value, str) and "Port Quarrow" in cell.value:
+                    cell.value = cell.value.replace("Port Quarrow", f"Port{hyphen}Quarrow")
+    path = tmp_path / "hyphen.xlsx"
+    wb.save(path)
+    (tmp_path / "out").mkdir()
+    assert run("check", path).code == 0
+    outcome = run("run", path, "--samples", "200", "--quiet", "--out", tmp_path / "out")
+    assert_no_traceback(outcome)
+    assert outcome.code == 0, outcome.err
+    result = ranker.rank_workbook(path, samples=0)
+    assert result.plan is not None and result.plan.coverage is not None
+    assert f"Port{hyphen}Quarrow" in str(result.plan.coverage)
