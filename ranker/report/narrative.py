@@ -365,16 +365,16 @@ def tipping_sentence(record: dict, namer) -> str:
     namer : Namer
         Corridor names and criterion labels.
     """
-    from ranker.stress.tipping import TOLERANCE
+    from ranker.stress.tipping import at_end
 
     from .words import ordinal, weight_text
 
     label = namer.criterion(record["criterion"])
     now = weight_text(record["current_weight"])
     t = record["weight_at"]
-    if record["direction"] == "above" and t >= 1.0 - TOLERANCE:
+    if record["direction"] == "above" and at_end(t, 1):
         when = f"If {label} takes all of the weight (it has {now} now), "
-    elif record["direction"] == "below" and t <= TOLERANCE:
+    elif record["direction"] == "below" and at_end(t, -1):
         when = f"If the weight on {label} falls to 0 (it is {now} now), "
     else:
         at = weight_text(t, record["current_weight"], ends=True)

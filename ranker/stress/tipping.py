@@ -186,11 +186,21 @@ def sweep_criterion(
     return _with_level(scorer, x, w, sweep)
 
 
+def at_end(t, side: int):
+    """True where a weight ``t`` [-] is the sweep's end on ``side``, to :data:`TOLERANCE`.
+
+    ``side`` 1 is the end where the swept criterion has all of the weight
+    (``t`` = 1), -1 the end where it has none (``t`` = 0). Works on a number
+    or an array; the ends of :class:`Sweep` lie in [0, 1].
+    """
+    return t >= 1.0 - TOLERANCE if side > 0 else t <= TOLERANCE
+
+
 def _with_level(scorer, x, w, sweep: Sweep) -> Sweep:
     """Fill ``sweep.level``: which ends at 0 or 1 are ties with the corridor named there."""
     for side, end, by in ((1, sweep.high, sweep.high_by), (-1, sweep.low, sweep.low_by)):
         edge = 1.0 if side > 0 else 0.0
-        near = (by >= 0) & (np.abs(end - edge) <= TOLERANCE)
+        near = (by >= 0) & at_end(end, side)
         level = np.zeros(end.size, dtype=bool)
         if near.any():
             g = scorer.weights(x, sweep_weights(w, sweep.criterion, np.array([edge])))[0]

@@ -28,9 +28,9 @@ def interval_sentence(row, namer: Namer) -> str:
 def _end_text(value: float, now: float) -> str:
     """An interval's end: 0 or 1 where it is within the search's tolerance of one, else
     as many decimals as it takes not to read as the current weight, 0 or 1."""
-    from ranker.stress.tipping import TOLERANCE
+    from ranker.stress.tipping import at_end
 
-    if value <= TOLERANCE or value >= 1.0 - TOLERANCE:
+    if at_end(value, -1) or at_end(value, 1):
         return f"{round(value):.2f}"
     return weight_text(value, now, ends=True)
 
