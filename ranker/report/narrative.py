@@ -302,14 +302,18 @@ def tier_rule(result) -> str:
         )
     return (
         f"Tiers: every corridor of a higher tier ranks above every corridor of a lower "
-        f"tier in at least {t.confidence:.0%} of {t.samples:,} samples (weights"
-        + (" and values" if _values_shaken(result) else "")
-        + " shaken); inside a tier the order is not settled by the evidence."
+        f"tier in at least {t.confidence:.0%} of {shaken_samples(result, t.samples)}; "
+        "inside a tier the order is not settled by the evidence."
     )
 
 
-def _values_shaken(result) -> bool:
-    return any(c.uncertainty_pct for c in result.criteria)
+def shaken_samples(result, samples: int) -> str:
+    """``10,000 samples (weights and values shaken)``: the samples and what they vary.
+
+    Values are shaken where a criterion has an ``uncertainty_pct`` (Criteria).
+    """
+    values = any(c.uncertainty_pct for c in result.criteria)
+    return f"{samples:,} samples (weights{' and values' if values else ''} shaken)"
 
 
 def tier_groups(result) -> list[dict]:

@@ -25,6 +25,7 @@ from .narrative import (
     plan_warnings,
     rank_intervals,
     reversal_sentences,
+    shaken_samples,
     stakeholders,
     tipping_sentences,
     vikor_note,
@@ -338,7 +339,12 @@ def robustness_sheet(writer, result) -> None:
     keep = detail_corridors(result)
     ws = writer.sheet(
         "Robustness",
-        f"How sure is the order? ({rob.samples} weight samples, seed {rob.seed})",
+        "How sure is the order? "
+        + (
+            f"{shaken_samples(result, rob.samples)}, seed {rob.seed}"
+            if rob.samples
+            else "No Monte Carlo samples (--samples 0)"
+        ),
         ""
         if keep is None
         else summary_note(result, "the acceptability and tipping-point tables", JSON_HAS_ALL),

@@ -64,6 +64,22 @@ def test_every_result_sheet_and_chart(demo_run):
     assert wb["ranker_state"].sheet_state == "veryHidden"
 
 
+def test_robustness_title_says_the_samples_as_the_sheet_does(demo_run, tmp_path):
+    """The Robustness sheet's title counts the samples as every output does (2,000, not
+    2000) and says what they shake, in the words of the tiers' rule; without samples it
+    says there were none."""
+    from ranker.report.narrative import tier_rule
+
+    result, paths = demo_run
+    title = load_workbook(paths["workbook"], read_only=True)["Robustness"]["A1"].value
+    assert title == "How sure is the order? 2,000 samples (weights and values shaken), seed 11"
+    assert "2,000 samples (weights and values shaken)" in tier_rule(result)
+    none = ranker.rank_workbook(result.inputs.path, samples=0)
+    out = ranker.write_outputs(none, tmp_path)
+    title = load_workbook(out["workbook"], read_only=True)["Robustness"]["A1"].value
+    assert title == "How sure is the order? No Monte Carlo samples (--samples 0)"
+
+
 def test_workbook_ranking_equals_json(demo_run):
     result, paths = demo_run
     summary = result.to_json()
