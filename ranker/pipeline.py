@@ -14,15 +14,15 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-import pandas as pd
-
 from .assumptions import resolve
 from .errors import InputError, Problem, Problems
 from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
 
-if TYPE_CHECKING:  # annotations only
+if TYPE_CHECKING:  # annotations only (pandas is loaded once a workbook has been read)
+    import pandas as pd
+
     from .derive.run import Derivation
     from .score.weights import ResolvedWeights
 
@@ -311,6 +311,8 @@ def build_matrix(inputs: Inputs, assumptions: dict):
         ``"given"`` or ``"derived"`` per criterion.
     derivation : Derivation or None
     """
+    import pandas as pd
+
     from .derive import BUILT_IN, derive_criteria
 
     corridors = inputs.corridors
@@ -387,6 +389,8 @@ def apply_overrides(
 
 def _diagnostics(matrix: pd.DataFrame, scores) -> dict:
     """Spread share per criterion and strongly rank-correlated pairs (ranker.score.diagnostics)."""
+    import pandas as pd
+
     from .score.diagnostics import rank_correlations, spread_shares, strong_pairs
 
     used = [k for k in scores.weights if k in matrix.columns]

@@ -10,8 +10,6 @@ is refused naming both rows. Nothing here opens files.
 
 from __future__ import annotations
 
-import pandas as pd
-
 from ranker.assumptions import ASSUMPTIONS, Assumption, current_key, suggest
 from ranker.errors import Problems
 from ranker.workbook import schema as S
@@ -156,7 +154,7 @@ def _unit_warning(t: Table, r: int, a: Assumption, warnings: list[str]) -> None:
             )
 
 
-def read_scenarios(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+def read_scenarios(t: Table, problems: Problems, inputs: T.Inputs) -> T.SheetRows | None:
     """Type the Scenarios sheet: each value typed like its assumption."""
     recs = read_records(t, problems, skip=("value", "key"))
     if not recs or "key" not in t.cols:
@@ -200,11 +198,7 @@ def read_scenarios(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFra
         first = given.setdefault(pair, (typed, r, rec["value"]))
         if named and first[0] != typed and first[2] != rec["value"]:  # former and current name
             _clash(t, a.key, (typed, r), first[:2], rec["scenario"], problems)
-    df = pd.DataFrame(
-        {
-            k: pd.Series([rec.get(k) for rec in recs], dtype=object)
-            for k in ("scenario", "key", "value")
-        }
-    )
     inputs.rows[T.SCENARIOS] = {i: rec["_row"] for i, rec in enumerate(recs)}
-    return df
+    keys = ("scenario", "key", "value")
+    data = {k: [rec.get(k) for rec in recs] for k in keys}
+    return T.SheetRows(data, dtypes=dict.fromkeys(keys, "object"))

@@ -16,7 +16,6 @@ from __future__ import annotations
 import datetime as _dt
 import math
 
-import pandas as pd
 from openpyxl.utils import get_column_letter
 
 from ranker.errors import Problems
@@ -465,7 +464,7 @@ def _pairwise_reciprocals(
                 )
 
 
-def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> T.SheetRows | None:
     """Type the Pairwise matrix; None when no judgment is typed off the diagonal."""
     sheet = grid.sheet
     before = len(problems.items)  # any problem added below leaves the matrix unread
@@ -496,9 +495,8 @@ def read_pairwise(grid: Grid, problems: Problems, inputs: T.Inputs) -> pd.DataFr
     inputs.columns[T.PAIRWISE] = {k: get_column_letter(c) for k, c in cols.items()}
     if len(problems.items) > before:
         return None
-    return pd.DataFrame(
-        [[values.get((i, j), math.nan) for j in keys] for i in keys],
-        index=pd.Index(keys, name="criterion"),
-        columns=keys,
-        dtype=float,
-    )
+    # The index column's name must not be a criterion's (a Corridors column may be one).
+    name = "criterion" if "criterion" not in keys else "criterion key"
+    data = {name: list(keys)}
+    data.update({j: [float(values.get((i, j), math.nan)) for i in keys] for j in keys})
+    return T.SheetRows(data, key=name, numbers=tuple(keys), key_objects=False)

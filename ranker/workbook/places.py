@@ -8,8 +8,6 @@ with either, corridors have positions for the map and the GeoJSON output.
 
 from __future__ import annotations
 
-import pandas as pd
-
 from ranker.errors import Problems
 from ranker.workbook import schema as S
 from ranker.workbook import tables as T
@@ -22,7 +20,7 @@ def place_key(text: object) -> str:
     return " ".join(str(text).split()).casefold()
 
 
-def read_places(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+def read_places(t: Table, problems: Problems, inputs: T.Inputs) -> T.SheetRows | None:
     """Type the Places sheet (None when it has no rows).
 
     Every place must be unique (compared case-insensitively); latitude and
@@ -49,17 +47,12 @@ def read_places(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame 
     for rec in recs:
         if rec.get("name") is None:
             rec["name"] = rec.get("place")
-    df = pd.DataFrame(
-        {k: [rec.get(k) for rec in recs] for k in ("place", "name", "lat", "lon")}
-    ).set_index("place")
-    df.index = df.index.astype(object)
-    for k in ("lat", "lon"):
-        df[k] = pd.to_numeric(df[k], errors="coerce").astype(float)
     inputs.rows[T.PLACES] = {rec["place"]: rec["_row"] for rec in recs if rec.get("place")}
-    return df
+    data = {k: [rec.get(k) for rec in recs] for k in ("place", "name", "lat", "lon")}
+    return T.SheetRows(data, key="place", numbers=("lat", "lon"))
 
 
-def check_connects_places(corridors: Table, places: pd.DataFrame, problems: Problems) -> None:
+def check_connects_places(corridors: Table, places: T.SheetRows, problems: Problems) -> None:
     """Report every ``connects`` end that the Places sheet does not list."""
     if "connects" not in corridors.cols:
         return
@@ -85,7 +78,7 @@ def check_connects_places(corridors: Table, places: pd.DataFrame, problems: Prob
 
 
 def read_geometry(
-    t: Table, problems: Problems, inputs: T.Inputs, corridors: pd.DataFrame | None
+    t: Table, problems: Problems, inputs: T.Inputs, corridors: T.SheetRows | None
 ) -> dict | None:
     """Type the Geometry sheet into corridor id -> parts -> ``(lon, lat)`` points.
 

@@ -33,7 +33,6 @@ from pathlib import Path
 from typing import NamedTuple
 
 import openpyxl
-import pandas as pd
 from openpyxl.utils import column_index_from_string, get_column_letter, range_boundaries
 
 from ranker.errors import InputError, Problems
@@ -106,12 +105,38 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     inputs = build(grids, problems, warn)
     problems.items.sort(key=lambda p: _place_order(p.where))
     problems.raise_if_any()
+    _as_frames(inputs)
     inputs.path = path
     inputs.sha256 = sha
     inputs.snapshot = pre.data
     inputs.sheet_names = sheet_names
     inputs.warnings = warn
     return inputs
+
+
+#: The fields of :class:`Inputs` the reader fills with :class:`~ranker.workbook.tables.SheetRows`.
+TABLE_FIELDS = (
+    "corridors",
+    "jurisdictions",
+    "corridor_miles",
+    "adoption",
+    "pairwise",
+    "budget",
+    "scenarios",
+    "places",
+)
+
+
+def _as_frames(inputs: Inputs) -> None:
+    """Make every table the reader typed into the DataFrame the later stages read.
+
+    Called only once every cell has passed, so a refused workbook never
+    imports pandas.
+    """
+    for name in TABLE_FIELDS:
+        rows = getattr(inputs, name)
+        if rows is not None:
+            setattr(inputs, name, rows.frame())
 
 
 _PLACE = re.compile(r"^([A-Z]*)(\d*)(?::([A-Z]*)(\d*))?$")
@@ -294,13 +319,13 @@ def build(grids: dict[str, _sheets.Grid], problems: Problems, warnings: list[str
     the criteria, the places and lines, last the build plan's inputs and the
     formulas no field reported.
     """
-    inputs = Inputs(path=Path(), sha256="", corridors=pd.DataFrame(), criteria=[], weight_sets=[])
+    inputs = Inputs(path=Path(), sha256="", corridors=T.SheetRows({}), criteria=[], weight_sets=[])
     tables = _tables(grids, problems, inputs)
     corridors = _read_corridor_sheet(tables, problems, inputs)
-    _read_jurisdiction_sheets(tables, problems, inputs, corridors.frame)
+    _read_jurisdiction_sheets(tables, problems, inputs, corridors.rows)
     _read_settings(tables, problems, inputs, warnings)
     _read_criteria_sheets(grids, tables, problems, inputs, warnings, corridors)
-    _read_positions(tables, problems, inputs, corridors.frame)
+    _read_positions(tables, problems, inputs, corridors.rows)
     _plan_inputs.check_plan_inputs(inputs, tables, problems)
     for grid in grids.values():
         _sheets.formula_outside(grid, problems)
@@ -328,13 +353,13 @@ class _Corridors(NamedTuple):
     """What the other sheets' cross-checks need from the Corridors sheet.
 
     Where the sheet cannot be read (missing, or no corridor_id column),
-    ``frame`` and ``numeric`` are None and criteria keys and corridor ids
+    ``rows`` and ``numeric`` are None and criteria keys and corridor ids
     are not cross-checked, so one missing sheet or header does not echo
     through the others.
     """
 
     #: The corridors, indexed by id (None: ids cannot be checked).
-    frame: pd.DataFrame | None
+    rows: T.SheetRows | None
     #: Numeric columns a criterion may name (None: not checked).
     numeric: set[str] | None
     #: Columns read as text, with the first cell that is not a number.

@@ -14,7 +14,6 @@ from __future__ import annotations
 import datetime as _dt
 from dataclasses import dataclass, field
 
-import pandas as pd
 from openpyxl.utils import get_column_letter
 
 from ranker.errors import Problems
@@ -301,16 +300,17 @@ def unique(t: Table, recs: list[dict], key: str, problems: Problems) -> None:
             first[k] = rec["_row"]
 
 
-def _frame(recs: list[dict], keys: list[str]) -> pd.DataFrame:
-    return pd.DataFrame({k: [rec.get(k) for rec in recs] for k in keys})
+def _columns(recs: list[dict], keys: list[str]) -> dict[str, list]:
+    """Each key's value in every record, in record order (None where absent)."""
+    return {k: [rec.get(k) for rec in recs] for k in keys}
 
 
 def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
-    """Type the Corridors sheet; return the DataFrame and each extra column's kind.
+    """Type the Corridors sheet; return its rows and each extra column's kind.
 
     Returns
     -------
-    DataFrame
+    SheetRows
         Index ``corridor_id``; ``name``, ``connects`` (when the sheet has
         it), the schema's numeric columns [their units], then every extra
         column, numeric or text.
@@ -336,21 +336,20 @@ def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
             text_cols[key] = not_a_number
     keys = ["name"] + (["connects"] if "connects" in t.cols else [])
     keys += [f.key for f in S.CORRIDOR_FIELDS[3:] if f.key in t.cols]
-    df = _frame(recs, ["corridor_id"] + keys)
-    for k in keys[1:]:
-        if k != "connects":
-            df[k] = pd.to_numeric(df[k], errors="coerce").astype(float)
-    for key, vals in extra_values.items():
-        df[key] = pd.Series(vals, dtype=object if key in text_cols else float)
-    df = df.set_index("corridor_id")
-    df.index = df.index.astype(object)
-    df.index.name = "corridor_id"
+    data = _columns(recs, ["corridor_id"] + keys)
+    data.update(extra_values)
+    rows = T.SheetRows(
+        data,
+        key="corridor_id",
+        numbers=tuple(k for k in keys[1:] if k != "connects"),
+        dtypes={k: "object" if k in text_cols else "float" for k in extra_values},
+    )
     inputs.rows[T.CORRIDORS] = {
         rec["corridor_id"]: rec["_row"] for rec in recs if rec.get("corridor_id") is not None
     }
     numeric = {k for k in keys if k not in ("name", "connects")}
     numeric |= {k for k in extra_values if k not in text_cols}
-    return df, numeric, text_cols
+    return rows, numeric, text_cols
 
 
 def _check_connects(t: Table, recs: list[dict], problems: Problems) -> None:
@@ -410,7 +409,7 @@ def _text_or_none(cell: Cell | None) -> str | None:
     return None if cell is None or cell.kind in "fe" else U.parse_text(cell.value)
 
 
-def read_jurisdictions(t: Table, problems: Problems, inputs: T.Inputs) -> pd.DataFrame | None:
+def read_jurisdictions(t: Table, problems: Problems, inputs: T.Inputs) -> T.SheetRows | None:
     """Type the Jurisdictions sheet (None when it has no rows)."""
     recs = read_records(t, problems)
     unique(t, recs, "jurisdiction", problems)
@@ -419,16 +418,14 @@ def read_jurisdictions(t: Table, problems: Problems, inputs: T.Inputs) -> pd.Dat
     for rec in recs:
         if rec.get("name") is None:
             rec["name"] = rec.get("jurisdiction")
-    df = _frame(recs, ["jurisdiction", "name", "readiness"]).set_index("jurisdiction")
-    df.index = df.index.astype(object)
-    df["readiness"] = pd.to_numeric(df["readiness"], errors="coerce").astype(float)
     inputs.rows[T.JURISDICTIONS] = {
         rec["jurisdiction"]: rec["_row"] for rec in recs if rec.get("jurisdiction") is not None
     }
-    return df
+    data = _columns(recs, ["jurisdiction", "name", "readiness"])
+    return T.SheetRows(data, key="jurisdiction", numbers=("readiness",))
 
 
-def read_corridor_miles(t, problems, inputs, corridors, jurisdictions) -> pd.DataFrame | None:
+def read_corridor_miles(t, problems, inputs, corridors, jurisdictions) -> T.SheetRows | None:
     """Type Corridor miles; every corridor and jurisdiction must be listed elsewhere."""
     recs = read_records(t, problems)
     if not recs:
@@ -477,13 +474,12 @@ def read_corridor_miles(t, problems, inputs, corridors, jurisdictions) -> pd.Dat
                 )
             else:
                 seen[pair] = r
-    df = _frame(recs, ["corridor_id", "jurisdiction", "miles"])
-    df["miles"] = pd.to_numeric(df["miles"], errors="coerce").astype(float)
     inputs.rows[T.CORRIDOR_MILES] = {i: rec["_row"] for i, rec in enumerate(recs)}
-    return df
+    data = _columns(recs, ["corridor_id", "jurisdiction", "miles"])
+    return T.SheetRows(data, numbers=("miles",))
 
 
-def read_by_year(t, problems, inputs, value_key: str) -> pd.DataFrame | None:
+def read_by_year(t, problems, inputs, value_key: str) -> T.SheetRows | None:
     """Type Adoption or Budget: unique years, sorted; rows map sorted position to row."""
     recs = read_records(t, problems)
     if not recs:
@@ -503,12 +499,8 @@ def read_by_year(t, problems, inputs, value_key: str) -> pd.DataFrame | None:
             first[y] = rec["_row"]
     recs = sorted(recs, key=lambda rec: (rec.get("year") is None, rec.get("year") or 0))
     keys = ["year", value_key] + (["note"] if "note" in t.cols else [])
-    df = _frame(recs, keys)
-    df[value_key] = pd.to_numeric(df[value_key], errors="coerce").astype(float)
-    if df["year"].notna().all():
-        df["year"] = df["year"].astype(int)
     inputs.rows[t.sheet] = {i: rec["_row"] for i, rec in enumerate(recs)}
-    return df
+    return T.SheetRows(_columns(recs, keys), numbers=(value_key,), whole=("year",))
 
 
 def formula_outside(grid: Grid, problems: Problems) -> None:

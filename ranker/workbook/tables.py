@@ -9,8 +9,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-import pandas as pd
+if TYPE_CHECKING:  # annotations only: the reader itself never imports pandas
+    import pandas as pd
 
 #: Names of the contract's sheets, as the reader and the template spell them.
 CORRIDORS = "Corridors"
@@ -93,9 +95,88 @@ class WeightSet:
     kind: str = "points"
 
 
+@dataclass(frozen=True)
+class SheetRows:
+    """One table sheet's typed rows in plain Python, before they become a DataFrame.
+
+    The reader types every cell and cross-checks the sheets on these; only
+    a workbook with no problem is made into DataFrames (:meth:`frame`, the
+    one place the reader uses pandas), so a workbook the reader refuses
+    never loads pandas and ``ranker check`` answers it sooner.
+
+    Attributes
+    ----------
+    data : dict of str to list
+        Column key to one value per row, in column order and row order
+        (None where blank).
+    key : str or None
+        The column that becomes the DataFrame's index; None for rows
+        numbered from 0.
+    numbers : tuple of str
+        Columns made float (NaN where blank).
+    dtypes : dict of str to str
+        Columns built with this dtype as they stand (``"object"`` keeps
+        text as Python strings); the others' dtypes are inferred.
+    whole : tuple of str
+        Columns made int when no row is blank (years).
+    key_objects : bool
+        Keep the index's values as Python objects (ids as typed); False
+        lets pandas infer its dtype (the Pairwise matrix's criterion keys).
+    """
+
+    data: dict[str, list]
+    key: str | None = None
+    numbers: tuple[str, ...] = ()
+    dtypes: dict[str, str] = field(default_factory=dict)
+    whole: tuple[str, ...] = ()
+    key_objects: bool = True
+
+    def __len__(self) -> int:
+        return len(next(iter(self.data.values()), ()))
+
+    def __getitem__(self, column: str) -> list:
+        return self.data[column]
+
+    @property
+    def index(self) -> list:
+        """The values of the index column (row positions when there is none)."""
+        return self.data[self.key] if self.key is not None else list(range(len(self)))
+
+    @property
+    def columns(self) -> list[str]:
+        """The column keys but the index's, in order (as the DataFrame's columns)."""
+        return [k for k in self.data if k != self.key]
+
+    def frame(self) -> pd.DataFrame:
+        """Return the rows as the DataFrame every later stage reads."""
+        import pandas as pd
+
+        df = pd.DataFrame(
+            {
+                k: pd.Series(v, dtype=self.dtypes[k]) if k in self.dtypes else v
+                for k, v in self.data.items()
+            }
+        )
+        for k in self.numbers:
+            df[k] = pd.to_numeric(df[k], errors="coerce").astype(float)
+        for k in self.whole:
+            if df[k].notna().all():
+                df[k] = df[k].astype(int)
+        if self.key is not None:
+            df = df.set_index(self.key)
+            if self.key_objects:
+                df.index = df.index.astype(object)
+            df.index.name = self.key
+        return df
+
+
 @dataclass
 class Inputs:
     """Everything the workbook says, typed and checked.
+
+    The tables are DataFrames once :func:`ranker.workbook.read_workbook`
+    returns; while the reader types and cross-checks them they are
+    :class:`SheetRows`.
 
     Attributes
     ----------

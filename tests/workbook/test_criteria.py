@@ -241,7 +241,7 @@ def _pairwise(rows, keys=("a", "b", "c")):
     problems, inputs = Problems(), _inputs()
     inputs.criteria = [T.CriterionSpec(k, k, "benefit") for k in keys]
     out = C.read_pairwise(_grid("Pairwise", rows), problems, inputs)
-    return out, problems, inputs
+    return (out.frame() if out is not None else None), problems, inputs
 
 
 def test_read_pairwise_upper_triangle_and_fractions():

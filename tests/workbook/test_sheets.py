@@ -231,7 +231,8 @@ def test_read_corridors():
     )
     problems, inputs = Problems(), _inputs()
     t = W.read_header(g, problems)
-    df, numeric, text_cols = W.read_corridors(t, problems, inputs)
+    rows, numeric, text_cols = W.read_corridors(t, problems, inputs)
+    df = rows.frame()
     assert not problems
     assert list(df.index) == ["C1", "C2"] and df.index.name == "corridor_id"
     assert df["length_mi"].tolist() == [10.0, 20.0]
@@ -270,7 +271,7 @@ def test_read_jurisdictions_name_defaults_to_code():
         [["jurisdiction", "name", "readiness"], ["NP", None, 70], ["LK", "Lake", "55%"]],
     )
     problems, inputs = Problems(), _inputs()
-    df = W.read_jurisdictions(W.read_header(g, problems), problems, inputs)
+    df = W.read_jurisdictions(W.read_header(g, problems), problems, inputs).frame()
     assert not problems
     assert df.loc["NP", "name"] == "NP" and df.loc["LK", "readiness"] == 55.0
     assert inputs.rows["Jurisdictions"] == {"NP": 2, "LK": 3}
@@ -279,8 +280,8 @@ def test_read_jurisdictions_name_defaults_to_code():
 
 
 def test_read_corridor_miles_cross_checks():
-    corridors = pd.DataFrame({"name": ["A", "B"]}, index=["C01", "C02"])
-    juris = pd.DataFrame({"name": ["Np"]}, index=["NP"])
+    corridors = T.SheetRows({"corridor_id": ["C01", "C02"], "name": ["A", "B"]}, key="corridor_id")
+    juris = T.SheetRows({"jurisdiction": ["NP"], "name": ["Np"]}, key="jurisdiction")
     g = _grid(
         "Corridor miles",
         [
@@ -293,7 +294,7 @@ def test_read_corridor_miles_cross_checks():
     )
     problems, inputs = Problems(), _inputs()
     t = W.read_header(g, problems)
-    df = W.read_corridor_miles(t, problems, inputs, corridors, juris)
+    df = W.read_corridor_miles(t, problems, inputs, corridors, juris).frame()
     assert df.loc[0, "corridor_id"] == "C01" and df.loc[0, "jurisdiction"] == "NP"
     got = _by_where(problems)
     assert got["Corridor miles!A3"].what == "corridor_id 'C03' is not on the Corridors sheet"
@@ -313,7 +314,7 @@ def test_read_by_year_sorts_and_refuses_repeats():
         [["year", "capital_usd", "note"], [2029, 5e6, "b"], [2027, 3e6, None], [2029, 1, "x"]],
     )
     problems, inputs = Problems(), _inputs()
-    df = W.read_by_year(W.read_header(g, problems), problems, inputs, "capital_usd")
+    df = W.read_by_year(W.read_header(g, problems), problems, inputs, "capital_usd").frame()
     assert df["year"].tolist() == [2027, 2029, 2029]
     assert df["capital_usd"].tolist() == [3e6, 5e6, 1.0]
     assert inputs.rows["Budget"] == {0: 3, 1: 2, 2: 4}  # sorted position to sheet row
@@ -350,7 +351,8 @@ def test_read_corridors_extra_columns_of_each_kind():
     )
     problems, inputs = Problems(), _inputs()
     t = W.read_header(g, problems)
-    df, numeric, text_cols = W.read_corridors(t, problems, inputs)
+    rows, numeric, text_cols = W.read_corridors(t, problems, inputs)
+    df = rows.frame()
     assert df["gaps"].dtype == float and df["gaps"].tolist()[::2] == pytest.approx([1.0, 0.12])
     assert math.isnan(df.loc["C2", "gaps"])
     assert df["calc"].dtype == object and df["calc"].tolist() == [None, "3", None]

@@ -111,3 +111,73 @@ def test_where_names_cell_column_row_or_sheet():
     assert inputs.where("Budget", None, 0) == "Budget!2:2"  # row key 0 is a key, not "none"
     assert inputs.where("Criteria", "weight", "a") == "Criteria"  # nothing known: the sheet
     assert inputs.where("Criteria") == "Criteria"
+
+
+# -- SheetRows: the reader's plain rows, made into DataFrames once all is checked -------------
+
+
+def test_sheet_rows_frame_types_each_column_as_the_stages_read_it():
+    """Numbers float (NaN where blank), text as typed, years int only when none is blank,
+    the index kept as Python objects unless asked otherwise; columns keep their order."""
+    rows = T.SheetRows(
+        {
+            "corridor_id": ["C1", "C2", "C3"],
+            "name": ["A", None, "C"],
+            "length_mi": [10.0, None, 30.5],
+            "owner": ["state", None, "7"],
+            "depots": [1.0, float("nan"), 3.0],
+        },
+        key="corridor_id",
+        numbers=("length_mi",),
+        dtypes={"owner": "object", "depots": "float"},
+    )
+    assert len(rows) == 3 and rows.index == ["C1", "C2", "C3"]
+    assert rows.columns == ["name", "length_mi", "owner", "depots"]
+    assert rows["owner"] == ["state", None, "7"]
+    df = rows.frame()
+    assert list(df.columns) == rows.columns
+    assert df.index.name == "corridor_id" and df.index.dtype == object
+    assert df["length_mi"].dtype == float and df["length_mi"].isna().tolist() == [
+        False,
+        True,
+        False,
+    ]
+    assert df["owner"].dtype == object and df["owner"].tolist() == ["state", None, "7"]
+    assert df["depots"].dtype == float
+    # The same columns built by pandas directly (its own inference for the text column).
+    assert df["name"].dtype == pd.DataFrame({"name": ["A", None, "C"]})["name"].dtype
+    years = T.SheetRows(
+        {"year": [2030, 2031], "share": [0.1, None]}, numbers=("share",), whole=("year",)
+    )
+    assert years.index == [0, 1] and years.frame()["year"].dtype.kind == "i"
+    gap = T.SheetRows({"year": [2030, None]}, whole=("year",)).frame()
+    assert gap["year"].dtype == float  # a blank year stays NaN; the reader has named it
+    keys = T.SheetRows(
+        {"criterion": ["a", "b"], "a": [1.0, 2.0]}, key="criterion", key_objects=False
+    )
+    assert keys.frame().index.dtype == pd.Index(["a", "b"]).dtype
+    assert len(T.SheetRows({})) == 0 and T.SheetRows({}).frame().empty
+
+
+def test_a_workbook_the_reader_refuses_never_loads_pandas(tmp_path):
+    """``ranker check`` of a workbook with a bad cell answers before pandas is imported:
+    the reader types and cross-checks plain rows and makes DataFrames only of a workbook
+    with no problem (SheetRows.frame)."""
+    import subprocess
+    import sys
+
+    from ranker.workbook.template import write_template
+
+    path = tmp_path / "empty.xlsx"
+    write_template(path)
+    probe = (
+        "import atexit, sys\n"
+        "atexit.register(lambda: print('pandas', 'pandas' in sys.modules))\n"
+        "from ranker.cli import main\n"
+        "sys.argv = ['ranker', 'check', sys.argv[1]]\n"
+        "sys.exit(main())\n"
+    )
+    out = subprocess.run([sys.executable, "-c", probe, str(path)], capture_output=True, text=True)
+    assert out.returncode == 2, out.stderr
+    assert "Corridors!A2: the sheet lists no corridors" in out.stdout + out.stderr
+    assert out.stdout.strip().endswith("pandas False")
