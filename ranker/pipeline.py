@@ -11,14 +11,18 @@ import datetime as _dt
 import numbers
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass
+from functools import cached_property
 from pathlib import Path
 from typing import TYPE_CHECKING
+
+import numpy as np
 
 from .assumptions import resolve
 from .errors import InputError, Problem, Problems
 from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
-from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs
+from .score.matrix import CriteriaMatrix
+from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs, floats
 
 if TYPE_CHECKING:  # annotations only (pandas is loaded once a workbook has been read)
     import pandas as pd
@@ -70,7 +74,7 @@ def rank_workbook(
     from .workbook.read import read_workbook
 
     started = _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
-    inputs = read_workbook(Path(path))
+    inputs = read_workbook(Path(path), frames=False)
     return rank_inputs(
         inputs,
         weights=weights,
@@ -114,6 +118,7 @@ def rank_inputs(
     started = started or _dt.datetime.now(_dt.timezone.utc).replace(microsecond=0).isoformat()
     stage(progress, "deriving the criteria")
     p = prepare(inputs)
+    inputs.as_frames()  # the tables as DataFrames, for scoring and the outputs
     # Every stage scores the saturated matrix; the outputs show the values as derived.
     assumptions, matrix, kept = p.assumptions, p.scored, p.kept
     warnings = list(p.warnings)
@@ -200,21 +205,45 @@ def rank_inputs(
 
 @dataclass
 class Prepared:
-    """What every run needs before scoring: the matrix, the screen, the weight sets."""
+    """What every run needs before scoring: the matrix, the screen, the weight sets.
+
+    The numbers are plain numpy (``ranker check`` stops here without pandas);
+    :attr:`matrix`, :attr:`kept` and :attr:`scored` are the DataFrame views
+    ``ranker run`` scores, built on first use.
+    """
 
     assumptions: dict
-    matrix: pd.DataFrame
+    #: Corridors by included criteria, as given or derived.
+    values: CriteriaMatrix
     provenance: dict[str, str]
     derivation: Derivation | None
-    kept: pd.Index
+    #: Per corridor (row of ``values``), whether it meets every must-meet limit.
+    kept_rows: np.ndarray
     excluded: list[dict]
     weight_sets: list[ResolvedWeights]
     #: Every warning so far in words (the reader's own, then the stages' records worded).
     warnings: list[str]
-    #: The matrix every method scores: values past a full-credit level clipped to it.
-    scored: pd.DataFrame | None = None
+    #: What every method scores: values past a full-credit level clipped to it.
+    scored_values: CriteriaMatrix | None = None
     #: Criterion key to its full-credit level (:mod:`ranker.score.saturation`).
     full_credit: dict | None = None
+
+    @cached_property
+    def matrix(self) -> pd.DataFrame:
+        """:attr:`values` as a DataFrame, index ``corridor_id``."""
+        return self.values.frame()
+
+    @cached_property
+    def kept(self) -> pd.Index:
+        """The corridor ids meeting every limit, in matrix order."""
+        return self.matrix.index[self.kept_rows]
+
+    @cached_property
+    def scored(self) -> pd.DataFrame | None:
+        """:attr:`scored_values` as a DataFrame (the matrix itself where nothing is clipped)."""
+        if self.scored_values is None:
+            return None
+        return self.matrix if self.scored_values is self.values else self.scored_values.frame()
 
 
 def prepare(inputs: Inputs) -> Prepared:
@@ -235,7 +264,11 @@ def prepare(inputs: Inputs) -> Prepared:
         )
     matrix, provenance, derivation = build_matrix(inputs, assumptions)
     has_budget = inputs.budget is not None and len(inputs.budget)
-    if has_budget and "capital_cost" not in matrix and "capital_cost" not in inputs.corridors:
+    if (
+        has_budget
+        and "capital_cost" not in matrix.keys
+        and "capital_cost" not in inputs.corridors.columns
+    ):
         raise InputError.one(
             "Budget",
             "a build plan needs each corridor's capital cost",
@@ -246,7 +279,7 @@ def prepare(inputs: Inputs) -> Prepared:
     levels = full_credit_levels(inputs.included, assumptions)
     scored = saturate(matrix, inputs.included, levels)
     # Objective (entropy, CRITIC) sets describe the corridors actually scored.
-    sets = resolve_weight_sets(inputs, scored.loc[kept], assumptions)
+    sets = resolve_weight_sets(inputs, scored.take(kept), assumptions)
     word_consistency(sets)
     warnings = list(inputs.warnings)  # the reader's own, about the file: already words
     namer = inputs_namer(inputs)
@@ -255,8 +288,10 @@ def prepare(inputs: Inputs) -> Prepared:
     for s in sets:
         warnings.extend(input_warnings(s.warnings, namer))
     if derivation is not None:
-        warnings.extend(input_warnings(energy_cap_warnings(derivation.sizing), namer))
-    counts = saturated_counts(matrix.loc[kept], inputs.included, levels)
+        warnings.extend(
+            input_warnings(energy_cap_warnings(derivation.ids, derivation.columns), namer)
+        )
+    counts = saturated_counts(matrix.take(kept), inputs.included, levels)
     warnings.extend(input_warnings(full_credit_warnings(counts, levels, inputs.included), namer))
     return Prepared(
         assumptions,
@@ -267,7 +302,7 @@ def prepare(inputs: Inputs) -> Prepared:
         excluded,
         sets,
         _unique(warnings),
-        scored=scored,
+        scored_values=scored,
         full_credit=levels,
     )
 
@@ -286,7 +321,7 @@ def check_workbook(path: str | Path) -> str:
     """
     from .workbook.read import read_workbook
 
-    inputs = read_workbook(Path(path))
+    inputs = read_workbook(Path(path), frames=False)
     p = prepare(inputs)
     excluded, sets, warnings = p.excluded, p.weight_sets, p.warnings
     derived = sum(1 for v in p.provenance.values() if v == "derived")
@@ -305,25 +340,24 @@ def build_matrix(inputs: Inputs, assumptions: dict):
 
     Returns
     -------
-    matrix : DataFrame
+    matrix : CriteriaMatrix
         Corridors by included criteria, in each criterion's unit.
     provenance : dict of str to str
         ``"given"`` or ``"derived"`` per criterion.
     derivation : Derivation or None
     """
-    import pandas as pd
-
     from .derive import BUILT_IN, derive_criteria
 
     corridors = inputs.corridors
+    ids = list(corridors.index)
     problems = Problems()
     provenance: dict[str, str] = {}
-    given: dict[str, pd.Series] = {}
+    given: dict[str, np.ndarray] = {}
     to_derive: list[str] = []
     for spec in inputs.included:
         if spec.key in corridors.columns:
-            column = pd.to_numeric(corridors[spec.key], errors="coerce")
-            for cid in column.index[column.isna()]:
+            column = floats(corridors[spec.key])
+            for cid in [ids[i] for i in np.flatnonzero(np.isnan(column)).tolist()]:
                 problems.add(
                     inputs.where(CORRIDORS, spec.key, cid),
                     f"criterion {spec.key} is empty for corridor {cid}",
@@ -343,11 +377,10 @@ def build_matrix(inputs: Inputs, assumptions: dict):
             )
     problems.raise_if_any()
     derivation = derive_criteria(inputs, assumptions, to_derive) if to_derive else None
-    columns = {}
-    for spec in inputs.included:
-        columns[spec.key] = given[spec.key] if spec.key in given else derivation.values[spec.key]
-    matrix = pd.DataFrame(columns, index=corridors.index).astype(float)
-    return matrix, provenance, derivation
+    keys = [spec.key for spec in inputs.included]
+    columns = [given[k] if k in given else derivation.value(k) for k in keys]
+    values = np.column_stack(columns) if columns else np.empty((len(ids), 0))
+    return CriteriaMatrix(ids, keys, values.astype(float)), provenance, derivation
 
 
 def choose_weight_set(sets: list, name: str | None):
@@ -517,11 +550,11 @@ def _futures(inputs: Inputs, used, scores):
             matrix, _, _ = build_matrix(inputs, assumptions)
             kept, _ = screen(matrix, inputs.included, inputs)
             levels = full_credit_levels(inputs.included, assumptions)
-            scored = saturate(matrix, inputs.included, levels)
+            scored = saturate(matrix, inputs.included, levels).take(kept).frame()
             # A future is ranked by the primary method alone: the others' scores and
             # their agreement would be computed only to be dropped.
             primary = {**assumptions, "methods": (assumptions["primary_method"],)}
-            return score_matrix(scored.loc[kept], inputs.included, used, primary).rank
+            return score_matrix(scored, inputs.included, used, primary).rank
         except InputError as exc:  # name the Scenarios cells, not the Assumptions sheet
             from .workbook.scenario_cells import in_scenario
 

@@ -88,3 +88,26 @@ def workbooks():
     return SimpleNamespace(
         make=make_workbook, corridors=DIRECT_CORRIDORS, criteria=DIRECT_CRITERIA
     )
+
+
+def check_in_a_fresh_process(path: Path):
+    """Run ``ranker check PATH`` as the command line does, in a new interpreter.
+
+    Returns the completed process (its stdout without the last line) and
+    whether pandas was imported by the time the interpreter exited.
+    """
+    import subprocess
+    import sys
+
+    probe = (
+        "import atexit, sys\n"
+        "atexit.register(lambda: print('pandas', 'pandas' in sys.modules))\n"
+        "from ranker.cli import main\n"
+        "sys.argv = ['ranker', 'check', sys.argv[1]]\n"
+        "sys.exit(main())\n"
+    )
+    out = subprocess.run([sys.executable, "-c", probe, str(path)], capture_output=True, text=True)
+    *text, last = out.stdout.strip().splitlines() or [""]
+    assert last in ("pandas True", "pandas False"), out.stdout + out.stderr
+    out.stdout = "\n".join(text)
+    return out, last == "pandas True"

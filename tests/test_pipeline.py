@@ -16,7 +16,7 @@ from ranker.pipeline import (
 from ranker.workbook.read import read_workbook
 from ranker.workbook.tables import CriterionSpec
 
-from .conftest import DIRECT_CORRIDORS, DIRECT_CRITERIA, make_workbook
+from .conftest import DIRECT_CORRIDORS, DIRECT_CRITERIA, check_in_a_fresh_process, make_workbook
 
 
 def test_weighted_sum_by_hand_on_the_direct_workbook(direct_workbook):
@@ -59,7 +59,7 @@ def test_given_column_overrides_derivation(tmp_path):
     matrix, provenance, derivation = build_matrix(inputs, prepare(inputs).assumptions)
     assert provenance == {"capital_cost": "given", "freight_share": "given"}
     assert derivation is None
-    assert matrix.loc["A", "capital_cost"] == 12e6
+    assert matrix.frame().loc["A", "capital_cost"] == 12e6
 
 
 def test_check_summarises_without_ranking(direct_workbook):
@@ -150,8 +150,76 @@ def test_futures_rank_as_a_full_scoring_of_each_scenario_does(tmp_path, primary)
         matrix, _, _ = build_matrix(inputs, a)
         kept, _ = screen(matrix, inputs.included, inputs)
         scored = saturate(matrix, inputs.included, full_credit_levels(inputs.included, a))
-        want = score_matrix(scored.loc[kept], inputs.included, result.chosen_weights, a).rank
+        want = score_matrix(
+            scored.take(kept).frame(), inputs.included, result.chosen_weights, a
+        ).rank
         got = result.futures["ranks"][name]
         assert {str(k): int(v) for k, v in want.items()} == {
             str(k): int(v) for k, v in got.items()
         }
+
+
+def _prepared_numbers(p):
+    d = p.derivation
+    return {
+        "ids": p.values.ids,
+        "keys": p.values.keys,
+        "values": p.values.values,
+        "scored": p.scored_values.values,
+        "kept": p.kept_rows,
+        "excluded": p.excluded,
+        "warnings": p.warnings,
+        "provenance": p.provenance,
+        "sets": [(s.name, s.weights, s.warnings, s.reference_only) for s in p.weight_sets],
+        "derived": None if d is None else (d.ids, d.columns, d.path, d.warnings),
+    }
+
+
+def _same(a, b) -> bool:
+    if isinstance(a, dict):
+        return a.keys() == b.keys() and all(_same(a[k], b[k]) for k in a)
+    if isinstance(a, (list, tuple)):
+        return len(a) == len(b) and all(_same(x, y) for x, y in zip(a, b, strict=True))
+    if isinstance(a, np.ndarray):
+        return a.dtype == b.dtype and np.array_equal(a, b, equal_nan=a.dtype.kind == "f")
+    return a == b
+
+
+@pytest.mark.parametrize("size", [None, 40])
+def test_check_on_plain_rows_equals_the_same_work_on_dataframes(tmp_path, size):
+    """prepare() reads the tables as plain rows (ranker check, and run before it scores) or
+    as DataFrames (the futures, library callers): every number, exclusion, warning and
+    weight set is the same either way, bit for bit, on the demo and a synthetic workbook
+    of 40 corridors with eight criteria."""
+    import importlib.util
+    from pathlib import Path
+
+    from ranker.demo import write_demo
+
+    if size is None:
+        path = write_demo(tmp_path)
+    else:
+        bench = Path(__file__).resolve().parents[1] / "bench" / "synthetic.py"
+        spec = importlib.util.spec_from_file_location("synthetic", bench)
+        module = importlib.util.module_from_spec(spec)
+        spec.loader.exec_module(module)
+        path = module.synthetic(tmp_path / "s.xlsx", size, criteria=8)
+    plain = read_workbook(path, frames=False)
+    assert type(plain.corridors).__name__ == "SheetRows"
+    frames = read_workbook(path)
+    assert type(frames.corridors).__name__ == "DataFrame"
+    a, b = _prepared_numbers(prepare(plain)), _prepared_numbers(prepare(frames))
+    assert _same(a, b)
+    assert a["derived"] is not None and len(a["ids"]) == len(frames.corridors)
+
+
+def test_check_of_a_workbook_that_passes_never_loads_pandas(tmp_path):
+    """``ranker check`` reads, derives, screens and weighs the demo on plain rows and numpy
+    arrays; pandas is loaded only when a run scores (SheetRows, CriteriaMatrix,
+    Derivation's and Prepared's DataFrame views on first use)."""
+    from ranker.demo import write_demo
+
+    out, pandas = check_in_a_fresh_process(write_demo(tmp_path))
+    assert out.returncode == 0, out.stderr
+    assert "14 corridors (1 screened out)" in out.stdout
+    assert not pandas

@@ -23,9 +23,9 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass, field
+from typing import TYPE_CHECKING
 
 import numpy as np
-import pandas as pd
 
 from ..input_warnings import warning
 from .choice import (
@@ -36,6 +36,9 @@ from .choice import (
 )
 from .finance import capital_recovery_factor
 from .stock import stock_turnover_vintage
+
+if TYPE_CHECKING:  # annotations only: the path is numpy arrays, a DataFrame on request
+    import pandas as pd
 
 
 def new_sales_share_bass(
@@ -138,25 +141,29 @@ def _turnover_columns(share_new: np.ndarray, a: dict) -> dict[str, np.ndarray]:
     }
 
 
-def _path_table(years: np.ndarray, a: dict, table: pd.DataFrame | None):
-    t = table.sort_values("year")
+def _path_table(years: np.ndarray, a: dict, table):
+    table_years = np.asarray(list(table["year"]))
+    order = np.argsort(table_years, kind="stable")  # the years are unique (checked)
+    table_years = table_years[order]
     share, outside = electric_share_table(
-        years, table_years=t["year"].to_numpy(), table_shares=t["electric_share"].to_numpy()
+        years,
+        table_years=table_years,
+        table_shares=np.asarray(list(table["electric_share"]))[order],
     )
     warnings = []
     if outside.any():
         warnings.append(
             warning(
                 "adoption_held_flat",
-                first_year=int(t["year"].min()),
-                last_year=int(t["year"].max()),
+                first_year=int(table_years.min()),
+                last_year=int(table_years.max()),
                 years=[int(y) for y in years[outside]],
             )
         )
     return {"electric_share": share, "extrapolated": outside}, warnings
 
 
-def _path_bass(years: np.ndarray, a: dict, table: pd.DataFrame | None):
+def _path_bass(years: np.ndarray, a: dict, table):
     share_new = new_sales_share_bass(
         years - a["bass_start_year"],
         p_per_yr=a["bass_p"],
@@ -173,7 +180,7 @@ def _sold_before(electric_sales_per_yr: np.ndarray) -> np.ndarray:
     ]
 
 
-def _path_cost_logit(years: np.ndarray, a: dict, table: pd.DataFrame | None):
+def _path_cost_logit(years: np.ndarray, a: dict, table):
     t = years - years[0]
     crf = float(capital_recovery_factor(a["discount_rate"], a["service_life_years"]))
     ev_usd_per_mi = a["electricity_price_usd_per_kwh"] * a["energy_kwh_per_mi"]
@@ -257,24 +264,29 @@ class AdoptionPath:
     ----------
     model : str
         Key of :data:`ADOPTION_MODELS` used.
-    frame : DataFrame
-        One row per year: ``year`` and ``electric_share`` (of the trucks on
-        the road) always; ``new_sales_share``, ``fleet_index`` and the sales
-        indices for ``bass`` and ``cost_logit``; prices and yearly costs for
-        ``cost_logit``; ``extrapolated`` for ``table``.
+    columns : dict of str to ndarray
+        One value per year: ``year`` and ``electric_share`` (of the trucks
+        on the road) always; ``new_sales_share``, ``fleet_index`` and the
+        sales indices for ``bass`` and ``cost_logit``; prices and yearly
+        costs for ``cost_logit``; ``extrapolated`` for ``table``.
     warnings : list of dict
         Doubtful but legal choices met on the way, as records ``{"kind", ...}``
         of :data:`ranker.input_warnings.WARNING_KINDS`.
     """
 
     model: str
-    frame: pd.DataFrame
+    columns: dict[str, np.ndarray]
     warnings: list[dict] = field(default_factory=list)
 
+    @property
+    def frame(self) -> pd.DataFrame:
+        """The columns as a DataFrame, one row per year."""
+        import pandas as pd
 
-def adoption_path(
-    *, model: str, assumptions: dict, end_year: int, table: pd.DataFrame | None = None
-) -> AdoptionPath:
+        return pd.DataFrame(self.columns)
+
+
+def adoption_path(*, model: str, assumptions: dict, end_year: int, table=None) -> AdoptionPath:
     """Build the adoption path from ``analysis_year`` through ``end_year``.
 
     Parameters
@@ -285,8 +297,9 @@ def adoption_path(
         Resolved assumptions (:func:`ranker.assumptions.resolve`).
     end_year : int
         Last year of the path [year].
-    table : DataFrame, optional
-        Columns ``year``, ``electric_share``; required for ``table``.
+    table : SheetRows or DataFrame, optional
+        Columns ``year``, ``electric_share`` (the Adoption sheet); required
+        for ``table``.
 
     Returns
     -------
@@ -301,5 +314,4 @@ def adoption_path(
     """
     years = np.arange(int(assumptions["analysis_year"]), int(end_year) + 1)
     cols, warnings = ADOPTION_MODELS[model](years, assumptions, table)
-    frame = pd.DataFrame({"year": years, **cols})
-    return AdoptionPath(model=model, frame=frame, warnings=list(warnings))
+    return AdoptionPath(model=model, columns={"year": years, **cols}, warnings=list(warnings))

@@ -11,7 +11,6 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
-import pandas as pd
 
 from ..assumptions import ASSUMPTIONS, parse_default
 from ..builtin import BUILTIN_CRITERIA
@@ -23,6 +22,8 @@ from ..workbook.tables import (
     CORRIDORS,
     JURISDICTIONS,
     Inputs,
+    blank,
+    floats,
 )
 from ..workbook.tables import (
     ASSUMPTIONS as ASSUMPTIONS_SHEET,
@@ -86,7 +87,7 @@ def show_value(value: object) -> str:
     >>> show_value(float("nan")), show_value("ten"), show_value(-5.0)
     ('empty', "'ten'", '-5')
     """
-    if value is None or (not isinstance(value, str) and pd.isna(value)):
+    if value is None or (not isinstance(value, str) and value != value):
         return "empty"
     return repr(value) if isinstance(value, str) else f"{float(value):g}"
 
@@ -150,18 +151,19 @@ def _corridor_fields(inputs: Inputs, keys: Sequence[str], problems: Problems) ->
     for f in sorted(wanted):
         if f not in c.columns:
             continue
-        raw = c[f]
-        values = pd.to_numeric(raw, errors="coerce").to_numpy(dtype=float)
+        raw = list(c[f])
+        values = floats(raw)
         low, low_open, fix = FIELD_RULES[f]
-        empty = raw.isna().to_numpy()
+        empty = blank(raw)
         text = ~empty & np.isnan(values)
         bad = (values <= low) if low_open else (values < low)
-        for i in np.flatnonzero(text | bad | (empty & (f in needed_by))):
-            cid = c.index[i]
+        ids = list(c.index)
+        for i in np.flatnonzero(text | bad | (empty & (f in needed_by))).tolist():
+            cid = ids[i]
             if empty[i]:
                 what = f"{f} is empty for corridor {cid!r} (needed for {', '.join(needed_by[f])})"
             else:
-                what = f"{f} is {show_value(raw.iloc[i])} for corridor {cid!r}"
+                what = f"{f} is {show_value(raw[i])} for corridor {cid!r}"
             problems.add(inputs.where(CORRIDORS, f, cid), what, fix)
         out[f] = values
     n = len(c)
@@ -173,7 +175,7 @@ def _corridor_fields(inputs: Inputs, keys: Sequence[str], problems: Problems) ->
 
 
 def _check_adoption_table(inputs: Inputs, problems: Problems) -> None:
-    t = inputs.adoption.reset_index(drop=True)  # row keys are positions
+    t = inputs.adoption  # row keys are positions
     for f in ("year", "electric_share"):
         if f not in t.columns:
             problems.add(
@@ -182,20 +184,24 @@ def _check_adoption_table(inputs: Inputs, problems: Problems) -> None:
                 "add columns year and electric_share",
             )
             return
-    share = pd.to_numeric(t["electric_share"], errors="coerce")
-    for r in t.index[~share.between(0.0, 1.0).to_numpy()]:
+    typed = list(t["electric_share"])
+    share = floats(typed)
+    for r in np.flatnonzero(~((share >= 0.0) & (share <= 1.0))).tolist():
         problems.add(
             inputs.where(ADOPTION, "electric_share", r),
-            f"electric_share is {show_value(t.at[r, 'electric_share'])}",
+            f"electric_share is {show_value(typed[r])}",
             "type a share from 0 to 1 (for example 0.25 for 25 %)",
         )
-    years = pd.to_numeric(t["year"], errors="coerce")
-    for r in t.index[years.isna().to_numpy() | years.duplicated(keep="first").to_numpy()]:
-        problems.add(
-            inputs.where(ADOPTION, "year", r),
-            f"year {show_value(t.at[r, 'year'])} is empty or repeated",
-            "give each year once",
-        )
+    typed = list(t["year"])
+    seen: set[float] = set()
+    for r, y in enumerate(floats(typed).tolist()):
+        if y != y or y in seen:
+            problems.add(
+                inputs.where(ADOPTION, "year", r),
+                f"year {show_value(typed[r])} is empty or repeated",
+                "give each year once",
+            )
+        seen.add(y)
 
 
 def _adoption_model(
@@ -301,8 +307,10 @@ def check_inputs(
     --------
     >>> from pathlib import Path
     >>> from ranker.assumptions import resolve
+    >>> from ranker.workbook.tables import SheetRows
     >>> inp = Inputs(path=Path("x.xlsx"), sha256="0", criteria=[], weight_sets=[],
-    ...              corridors=pd.DataFrame({"length_mi": [10.0]}, index=["K1"]))
+    ...              corridors=SheetRows({"corridor_id": ["K1"], "length_mi": [10.0]},
+    ...                                  key="corridor_id"))
     >>> problems = Problems()
     >>> plan, _ = check_inputs(inp, resolve({}), ["charging_revenue"], problems)
     >>> print(problems.items[0])

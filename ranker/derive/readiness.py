@@ -5,11 +5,10 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-import pandas as pd
 
 from ..errors import Problems
 from ..input_warnings import warning
-from ..workbook.tables import CORRIDOR_MILES, CORRIDORS, JURISDICTIONS, Inputs
+from ..workbook.tables import CORRIDOR_MILES, CORRIDORS, JURISDICTIONS, Inputs, floats
 from .needs import show_value
 
 
@@ -118,75 +117,82 @@ def policy_readiness(
     ...                  problems=Problems()).columns["policy_readiness"]
     array([70.])
     """
-    corridors = inputs.corridors.index
-    rows = inputs.corridor_miles.reset_index(drop=True)  # row keys are positions
+    corridors = list(inputs.corridors.index)
+    rows = inputs.corridor_miles  # row keys are positions
     jur = inputs.jurisdictions
     n = len(corridors)
 
     def at(sheet, key, row):
         return inputs.where(sheet, key, row)
 
-    code = pd.Index(corridors).get_indexer(rows["corridor_id"])
-    known_j = rows["jurisdiction"].isin(jur.index).to_numpy()
-    miles = pd.to_numeric(rows["miles"], errors="coerce").to_numpy(dtype=float)
-    for r in rows.index[code < 0]:
+    row_ids, row_codes = list(rows["corridor_id"]), list(rows["jurisdiction"])
+    raw_miles = list(rows["miles"])
+    position = {cid: i for i, cid in enumerate(corridors)}
+    code = np.array([position.get(cid, -1) for cid in row_ids], dtype=np.intp)
+    codes = list(jur.index)
+    listed = set(codes)
+    known_j = np.array([j in listed for j in row_codes], dtype=bool)
+    miles = floats(raw_miles)
+    for r in np.flatnonzero(code < 0).tolist():
         problems.add(
             at(CORRIDOR_MILES, "corridor_id", r),
-            f"corridor {rows.at[r, 'corridor_id']!r} is not on the Corridors sheet",
+            f"corridor {row_ids[r]!r} is not on the Corridors sheet",
             "use a corridor_id of the Corridors sheet or delete the row",
         )
-    known = ", ".join(map(str, jur.index[:12])) + (" ..." if len(jur) > 12 else "")
-    for r in rows.index[~known_j]:
+    known = ", ".join(map(str, codes[:12])) + (" ..." if len(codes) > 12 else "")
+    for r in np.flatnonzero(~known_j).tolist():
         problems.add(
             at(CORRIDOR_MILES, "jurisdiction", r),
-            f"jurisdiction {rows.at[r, 'jurisdiction']!r} is not on the Jurisdictions sheet",
+            f"jurisdiction {row_codes[r]!r} is not on the Jurisdictions sheet",
             f"use one of {known} or add it to Jurisdictions",
         )
-    for r in rows.index[~(miles >= 0)]:
+    for r in np.flatnonzero(~(miles >= 0)).tolist():
         problems.add(
             at(CORRIDOR_MILES, "miles", r),
-            f"miles is {show_value(rows.at[r, 'miles'])}",
+            f"miles is {show_value(raw_miles[r])}",
             "type the miles in that jurisdiction (>= 0)",
         )
 
-    readiness = pd.to_numeric(jur["readiness"], errors="coerce")
-    used = pd.Index(rows["jurisdiction"][known_j].unique())
-    for j in used[~readiness.reindex(used).between(0, 100).to_numpy()]:
-        problems.add(
-            at(JURISDICTIONS, "readiness", j),
-            f"readiness of {j!r} is {show_value(jur.at[j, 'readiness'])}",
-            "type a readiness from 0 to 100",
-        )
+    typed = list(jur["readiness"])
+    readiness = dict(zip(codes, floats(typed).tolist(), strict=True))
+    used = dict.fromkeys(j for j, k in zip(row_codes, known_j.tolist(), strict=True) if k)
+    for j in used:
+        if not 0 <= readiness[j] <= 100:
+            problems.add(
+                at(JURISDICTIONS, "readiness", j),
+                f"readiness of {j!r} is {show_value(typed[codes.index(j)])}",
+                "type a readiness from 0 to 100",
+            )
 
     # Miles count towards the length check whatever their jurisdiction's state; only rows
     # with a known jurisdiction and a valid readiness enter the mean.
     counted = (code >= 0) & (miles >= 0)
     total = np.bincount(code[counted], weights=miles[counted], minlength=n)
-    r_row = readiness.reindex(rows["jurisdiction"]).to_numpy(dtype=float)
+    r_row = np.array([readiness.get(j, np.nan) for j in row_codes], dtype=float)
     good = counted & known_j & np.isfinite(r_row)
     mean, _ = readiness_mileage_weighted(code[good], miles[good], r_row[good], n_corridors=n)
     mean[np.bincount(code[counted & ~good], minlength=n) > 0] = np.nan
-    pairs = pd.DataFrame({"c": code[good], "j": rows["jurisdiction"].to_numpy()[good]})
-    count = np.bincount(pairs.drop_duplicates()["c"], minlength=n).astype(float)
+    pairs = {(int(code[r]), row_codes[r]) for r in np.flatnonzero(good).tolist()}
+    count = np.bincount(np.array([c for c, _ in pairs], dtype=np.intp), minlength=n).astype(float)
     has_rows = np.bincount(code[code >= 0], minlength=n) > 0
-    for cid in corridors[~has_rows]:
+    for i in np.flatnonzero(~has_rows).tolist():
         problems.add(
-            at(CORRIDORS, "corridor_id", cid),
-            f"corridor {cid!r} has no rows on the Corridor miles sheet",
+            at(CORRIDORS, "corridor_id", corridors[i]),
+            f"corridor {corridors[i]!r} has no rows on the Corridor miles sheet",
             "add its miles by jurisdiction (corridor_id, jurisdiction, miles) or give "
             "policy_readiness as a Corridors column",
         )
-    for cid in corridors[has_rows & (total <= 0)]:
+    for i in np.flatnonzero(has_rows & (total <= 0)).tolist():
         problems.add(
-            at(CORRIDORS, "corridor_id", cid),
-            f"the miles of corridor {cid!r} on Corridor miles add up to 0",
+            at(CORRIDORS, "corridor_id", corridors[i]),
+            f"the miles of corridor {corridors[i]!r} on Corridor miles add up to 0",
             "type the miles of each jurisdiction it crosses",
         )
 
     warnings: list[dict] = []
     gap = np.full(n, np.nan)
-    if "length_mi" in inputs.corridors:
-        length = pd.to_numeric(inputs.corridors["length_mi"], errors="coerce").to_numpy(float)
+    if "length_mi" in inputs.corridors.columns:
+        length = floats(inputs.corridors["length_mi"])
         ok = (length > 0) & (total > 0)
         gap[ok] = np.abs(total[ok] - length[ok]) / length[ok]
         flagged = np.flatnonzero(gap > miles_warn_tolerance)
@@ -194,7 +200,9 @@ def policy_readiness(
             row_code = np.where(counted, code, -1)
             for i in flagged:
                 cid = corridors[i]
-                cells = [at(CORRIDOR_MILES, "miles", r) for r in rows.index[row_code == i]]
+                cells = [
+                    at(CORRIDOR_MILES, "miles", r) for r in np.flatnonzero(row_code == i).tolist()
+                ]
                 if gap[i] > miles_error_tolerance:
                     what = (
                         f"the miles of corridor {cid!r} add up to {total[i]:g} but its "

@@ -23,11 +23,12 @@ into a warning record (:data:`ranker.input_warnings.WARNING_KINDS`).
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
+from functools import cached_property
+from typing import TYPE_CHECKING
 
 import numpy as np
-import pandas as pd
 
 from ..builtin import BUILTIN_CRITERIA
 from ..errors import Problems
@@ -55,6 +56,9 @@ from .revenue import (
 )
 from .sizing import charger_sizing
 
+if TYPE_CHECKING:  # annotations only: DataFrames are built on request (Derivation.sizing)
+    import pandas as pd
+
 #: Built-in criterion key to its direction (from :data:`ranker.builtin.BUILTIN_CRITERIA`).
 BUILT_IN: dict[str, str] = {k: c.direction for k, c in BUILTIN_CRITERIA.items()}
 
@@ -66,19 +70,24 @@ CRITERION_COLUMN: dict[str, str] = {k: c.column for k, c in BUILTIN_CRITERIA.ite
 class Derivation:
     """Derived criteria with everything behind them.
 
+    The numbers are numpy arrays (``columns``, ``path``); :attr:`values`,
+    :attr:`sizing` and :attr:`adoption` are the same numbers as DataFrames,
+    built on first use (``ranker check`` never builds them).
+
     Attributes
     ----------
-    values : DataFrame
-        Index ``corridor_id``; one column per requested criterion, in the
-        order asked.
-    sizing : DataFrame
-        Index ``corridor_id``; every intermediate number (energy per pass,
-        sizing, grid, cost parts, revenue parts, readiness check), the
-        criteria among them (:data:`CRITERION_COLUMN`).
-    adoption : DataFrame
-        One row per year from ``analysis_year`` to the later of
-        ``target_year`` and the last horizon year; empty when no criterion
-        needs the sizing.
+    ids : list
+        Corridor ids in sheet order (the rows of every column).
+    columns : dict of str to ndarray
+        Every intermediate number per corridor (energy per pass, sizing,
+        grid, cost parts, revenue parts, readiness check), the criteria
+        among them (:data:`CRITERION_COLUMN`), in the order derived.
+    criteria : list of str
+        The criteria asked, in the order asked.
+    path : dict of str to ndarray
+        The adoption path, one value per year from ``analysis_year`` to the
+        later of ``target_year`` and the last horizon year; empty when no
+        criterion needs the sizing.
     units : dict of str to str
         Column name (``values``, ``sizing`` and ``adoption``) to unit, like
         ``"[kWh/day]"``.
@@ -90,12 +99,43 @@ class Derivation:
         :func:`ranker.report.narrative.input_warnings`.
     """
 
-    values: pd.DataFrame
-    sizing: pd.DataFrame
-    adoption: pd.DataFrame
+    ids: list
+    columns: dict[str, np.ndarray]
+    criteria: list[str]
+    path: dict[str, np.ndarray] = field(default_factory=dict)
     units: dict[str, str] = field(default_factory=dict)
     notes: dict[str, str] = field(default_factory=dict)
     warnings: list[dict] = field(default_factory=list)
+
+    def value(self, key: str) -> np.ndarray:
+        """Return the derived criterion ``key`` of every corridor [its unit]."""
+        return self.columns[CRITERION_COLUMN[key]]
+
+    @cached_property
+    def sizing(self) -> pd.DataFrame:
+        """:attr:`columns` as a DataFrame, index ``corridor_id``."""
+        import pandas as pd
+
+        return pd.DataFrame(
+            self.columns, index=pd.Index(self.ids, dtype=object, name="corridor_id")
+        )
+
+    @cached_property
+    def values(self) -> pd.DataFrame:
+        """The criteria asked as a DataFrame, index ``corridor_id``, in the order asked."""
+        import pandas as pd
+
+        sizing = self.sizing
+        return pd.DataFrame(
+            {k: sizing[CRITERION_COLUMN[k]] for k in self.criteria}, index=sizing.index
+        )
+
+    @cached_property
+    def adoption(self) -> pd.DataFrame:
+        """:attr:`path` as a DataFrame, one row per year (empty without sizing)."""
+        import pandas as pd
+
+        return pd.DataFrame(self.path) if self.path else pd.DataFrame()
 
 
 def _energy(plan: Checked, a: dict) -> dict[str, np.ndarray]:
@@ -118,37 +158,38 @@ def _energy(plan: Checked, a: dict) -> dict[str, np.ndarray]:
     }
 
 
-def _adoption(inputs: Inputs, plan: Checked, a: dict) -> pd.DataFrame:
+def _adoption(inputs: Inputs, plan: Checked, a: dict) -> dict[str, np.ndarray]:
     start, horizon = int(a["analysis_year"]), int(a["horizon_years"])
     end = max(int(a["target_year"]), start + horizon - 1)
     path = adoption_path(
         model=plan.adoption_model, assumptions=a, end_year=end, table=inputs.adoption
     )
     plan.warnings.extend(path.warnings)
-    frame = path.frame
-    t = frame["year"].to_numpy() - start
-    frame["traffic_index"] = (1.0 + a["truck_traffic_growth_rate"]) ** t
-    frame["in_horizon"] = t < horizon
-    frame["discount_factor"] = np.where(
+    cols = dict(path.columns)
+    t = cols["year"] - start
+    cols["traffic_index"] = (1.0 + a["truck_traffic_growth_rate"]) ** t
+    cols["in_horizon"] = t < horizon
+    cols["discount_factor"] = np.where(
         t < horizon, discount_factor_compound(t, rate_per_yr=a["discount_rate"]), np.nan
     )
-    return frame
+    return cols
 
 
-def _size(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
+def _size(plan: Checked, a: dict, energy: dict, path: dict) -> dict[str, np.ndarray]:
     """Charging sites and ports for ``target_year`` (energy balance and Erlang C)."""
     f = plan.fields
-    at_target = path.loc[path["year"] == int(a["target_year"])].iloc[0]
-    tpd_target = f["trucks_per_day"] * at_target["traffic_index"]
+    at = int(np.flatnonzero(path["year"] == int(a["target_year"]))[0])
+    share = path["electric_share"][at]
+    tpd_target = f["trucks_per_day"] * path["traffic_index"][at]
     out = {
         "trucks_per_day_target": tpd_target,
-        "electric_share_target": np.full(tpd_target.size, at_target["electric_share"]),
+        "electric_share_target": np.full(tpd_target.size, share),
     }
     out.update(
         charger_sizing(
             length_mi=f["length_mi"],
             trucks_per_day=tpd_target,
-            electric_share=float(at_target["electric_share"]),
+            electric_share=float(share),
             energy_kwh_per_pass=energy["energy_per_pass_kwh"],
             assumptions=a,
         )
@@ -191,7 +232,7 @@ def _grid_and_cost(plan: Checked, a: dict, sized: dict) -> dict[str, np.ndarray]
 
 
 def _revenue(
-    plan: Checked, a: dict, energy: dict, path: pd.DataFrame, sized: dict
+    plan: Checked, a: dict, energy: dict, path: dict, sized: dict
 ) -> dict[str, np.ndarray]:
     """NPV of the charging margin over the horizon, less demand charges and operating cost.
 
@@ -200,10 +241,11 @@ def _revenue(
     later growth are not in the capital cost, so their sales are not counted.
     """
     # En-route energy of a fully electric fleet at today's traffic, scaled by year.
-    horizon = path.loc[path["in_horizon"]]
+    horizon = path["in_horizon"]
+    years_in = int(horizon.sum())
     full = plan.fields["trucks_per_day"] * energy["energy_per_pass_kwh"] * a["en_route_share"]
     wanted = en_route_energy_per_year(
-        full, horizon["electric_share"].to_numpy(), horizon["traffic_index"].to_numpy()
+        full, path["electric_share"][horizon], path["traffic_index"][horizon]
     )
     capacity = port_energy_capacity(
         sized["ports"],
@@ -213,7 +255,7 @@ def _revenue(
     )
     kwh = energy_sold_capped(wanted, capacity)
     binds = wanted > capacity[:, None] * (1.0 + 1e-12)
-    years = horizon["year"].to_numpy()
+    years = path["year"][horizon]
     first_capped = np.where(binds.any(axis=1), years[np.argmax(binds, axis=1)], np.nan)
     last_capped = np.where(
         binds.any(axis=1), years[binds.shape[1] - 1 - np.argmax(binds[:, ::-1], axis=1)], np.nan
@@ -227,13 +269,13 @@ def _revenue(
     demand = demand_charge_npv_peak(
         sized["peak_load_mw"] * 1000.0,
         demand_charge_usd_per_kw_month=a["demand_charge_usd_per_kw_month"],
-        years=len(horizon),
+        years=years_in,
         discount_rate=a["discount_rate"],
     )
     opex = operating_cost_npv_ports(
         sized["ports"],
         port_opex_usd_per_yr=a["port_opex_usd_per_yr"],
-        years=len(horizon),
+        years=years_in,
         discount_rate=a["discount_rate"],
     )
     return {
@@ -250,7 +292,7 @@ def _revenue(
     }
 
 
-def _sizing(plan: Checked, a: dict, energy: dict, path: pd.DataFrame) -> dict[str, np.ndarray]:
+def _sizing(plan: Checked, a: dict, energy: dict, path: dict) -> dict[str, np.ndarray]:
     """The sizing stage: sites and ports, then grid and cost, then revenue."""
     out = _size(plan, a, energy, path)
     out.update(_grid_and_cost(plan, a, out))
@@ -289,6 +331,7 @@ def derive_criteria(inputs: Inputs, assumptions: dict, keys: Sequence[str]) -> D
     Examples
     --------
     >>> from pathlib import Path
+    >>> import pandas as pd
     >>> from ranker.assumptions import resolve
     >>> corridors = pd.DataFrame(
     ...     {"name": ["North"], "length_mi": [120.0], "trucks_per_day": [3000.0],
@@ -321,7 +364,7 @@ def derive_criteria(inputs: Inputs, assumptions: dict, keys: Sequence[str]) -> D
 
     stages = {BUILTIN_CRITERIA[k].stage for k in keys}
     cols: dict[str, np.ndarray] = {}
-    path = pd.DataFrame()
+    path: dict[str, np.ndarray] = {}
     if stages & {"energy", "sizing"}:
         energy = _energy(plan, a)
         cols.update(energy)
@@ -332,28 +375,28 @@ def derive_criteria(inputs: Inputs, assumptions: dict, keys: Sequence[str]) -> D
         cols.update(readiness.columns)
         plan.warnings.extend(readiness.warnings)
 
-    index = inputs.corridors.index
-    sizing = pd.DataFrame(cols, index=index)
-    values = pd.DataFrame({k: sizing[CRITERION_COLUMN[k]] for k in keys}, index=index)
-    names = [*keys, *sizing.columns, *path.columns]
+    names = [*keys, *cols, *path]
     return Derivation(
-        values=values,
-        sizing=sizing,
-        adoption=path.reset_index(drop=True),
+        ids=list(inputs.corridors.index),
+        columns=cols,
+        criteria=keys,
+        path=path,
         units={k: COLUMNS[k][0] for k in names},
         notes={k: COLUMNS[k][1] for k in names},
         warnings=plan.warnings,
     )
 
 
-def energy_cap_warnings(sizing: pd.DataFrame) -> list[dict]:
+def energy_cap_warnings(ids: Sequence, columns: Mapping[str, np.ndarray]) -> list[dict]:
     """Return the ``energy_capped`` record: where the sized ports cap the energy sold.
 
     Parameters
     ----------
-    sizing : DataFrame
-        :attr:`Derivation.sizing`; its ``energy_capped_from_year`` and
-        ``energy_capped_last_year`` columns [year] (blank where never capped).
+    ids : sequence
+        Corridor ids, in the order of the columns' rows.
+    columns : mapping of str to array
+        :attr:`Derivation.columns`; its ``energy_capped_from_year`` and
+        ``energy_capped_last_year`` [year] (NaN where never capped).
 
     Returns
     -------
@@ -363,21 +406,23 @@ def energy_cap_warnings(sizing: pd.DataFrame) -> list[dict]:
         first year capped of each and the last capped year of any; empty
         when no corridor is capped or the revenue was not derived.
     """
-    if "energy_capped_from_year" not in sizing:
+    if "energy_capped_from_year" not in columns:
         return []
-    capped = sizing["energy_capped_from_year"].dropna().sort_values(kind="stable")
-    if not len(capped):
+    first = np.asarray(columns["energy_capped_from_year"], dtype=float)
+    capped = np.flatnonzero(~np.isnan(first))
+    if not capped.size:
         return []
+    capped = capped[np.argsort(first[capped], kind="stable")]
     last = (
-        int(sizing["energy_capped_last_year"].max())
-        if "energy_capped_last_year" in sizing
+        int(np.nanmax(np.asarray(columns["energy_capped_last_year"], dtype=float)))
+        if "energy_capped_last_year" in columns
         else None
     )
     return [
         warning(
             "energy_capped",
-            corridors=[str(c) for c in capped.index],
-            from_years=[int(y) for y in capped],
+            corridors=[str(ids[i]) for i in capped.tolist()],
+            from_years=[int(first[i]) for i in capped.tolist()],
             last_year=last,
         )
     ]

@@ -7,7 +7,17 @@ coverage view of the network joined, and how often each corridor is funded
 in year one across score samples.
 """
 
-from .coverage import parse_connects
-from .phasing import Plan, build_plan
+#: Public names and their modules, loaded on first use: the plan works on DataFrames, and
+#: ``ranker check`` reads the objectives' names (:mod:`ranker.plan.objectives`) without pandas.
+_PUBLIC = {"Plan": "phasing", "build_plan": "phasing", "parse_connects": "coverage"}
+
+
+def __getattr__(name: str):
+    if name in _PUBLIC:
+        from importlib import import_module
+
+        return getattr(import_module(f".{_PUBLIC[name]}", __name__), name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 __all__ = ["Plan", "build_plan", "parse_connects"]

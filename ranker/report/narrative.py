@@ -9,8 +9,9 @@ follow Kendall's tau.
 
 from __future__ import annotations
 
+from typing import TYPE_CHECKING
+
 import numpy as np
-import pandas as pd
 
 from .words import Namer, listing, share_text
 from .words.basic import fmt, method_label
@@ -18,6 +19,9 @@ from .words.methods import (
     first_tier_sentence,
     vikor_note,  # noqa: F401 (the one door for words)
 )
+
+if TYPE_CHECKING:  # annotations only: the warnings' words need no pandas (ranker check)
+    import pandas as pd
 
 
 def recommendation(result) -> list[str]:
@@ -178,6 +182,8 @@ def agreement_sentence(result) -> str:
 
 def strongest_weakest(result, cid) -> tuple[str, str]:
     """Name a corridor's strongest and weakest criteria, in words and numbers."""
+    import pandas as pd
+
     from ..score.normalize import normalize_minmax
 
     keys = [c.key for c in result.criteria if c.key in result.scores.weights]
@@ -353,8 +359,9 @@ def _namer(result) -> Namer:
 def inputs_namer(inputs) -> Namer:
     """Corridor names and included criteria's labels of the inputs, for the warnings'
     words before the run's :class:`~ranker.result.Result` exists."""
+    corridors = inputs.corridors  # SheetRows or DataFrame: ids and names alike
     return Namer(
-        inputs.corridors["name"].astype(str).to_dict(),
+        dict(zip(corridors.index, map(str, corridors["name"]), strict=True)),
         {c.key: c.label for c in inputs.included},
     )
 
@@ -571,6 +578,8 @@ def first_ranked_waits(result) -> str:
     (the sum of their scores over the sum of their capital) with the first-ranked
     corridor's [-/million USD].
     """
+    import pandas as pd
+
     plan = result.plan
     if plan is None or not len(result.ranking):
         return ""

@@ -14,9 +14,21 @@ Public entry points:
 
 from .methods import METHODS, Method
 from .ranks import TIE_RTOL, rank_scores
-from .scoring import Scores, method_order, score_matrix
 from .screen import screen
 from .weights import ResolvedWeights, resolve_weight_sets
+
+#: Names of :mod:`ranker.score.scoring`, loaded on first use: it works on DataFrames, and
+#: ``ranker check`` (which screens and weighs but does not score) runs without pandas.
+_SCORING = ("Scores", "method_order", "score_matrix")
+
+
+def __getattr__(name: str):
+    if name in _SCORING:
+        from . import scoring
+
+        return getattr(scoring, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 __all__ = [
     "METHODS",

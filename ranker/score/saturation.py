@@ -17,7 +17,8 @@ from __future__ import annotations
 import math
 
 import numpy as np
-import pandas as pd
+
+from .matrix import CriteriaMatrix
 
 
 def full_credit_levels(criteria, assumptions: dict) -> dict[str, float]:
@@ -82,32 +83,31 @@ def saturate_values(x: np.ndarray, level: np.ndarray, is_benefit: np.ndarray) ->
     return np.where(has, capped, x)
 
 
-def saturate(matrix: pd.DataFrame, criteria, levels: dict[str, float]) -> pd.DataFrame:
+def saturate(matrix: CriteriaMatrix, criteria, levels: dict[str, float]) -> CriteriaMatrix:
     """Apply :func:`saturate_values` to a criteria matrix (columns by key).
 
     Returns
     -------
-    DataFrame
-        Same index and columns; values clipped where a level is given.
+    CriteriaMatrix
+        Same corridors and criteria; values clipped where a level is given.
     """
     if not levels:
         return matrix
     spec = {c.key: c for c in criteria}
-    keys = list(matrix.columns)
+    keys = matrix.keys
     level = np.array([levels.get(k, np.nan) for k in keys])
     benefit = np.array([spec[k].is_benefit if k in spec else True for k in keys])
-    out = saturate_values(matrix.to_numpy(dtype=float), level, benefit)
-    return pd.DataFrame(out, index=matrix.index, columns=matrix.columns)
+    return matrix.with_values(saturate_values(matrix.values, level, benefit))
 
 
-def saturated_counts(matrix: pd.DataFrame, criteria, levels: dict[str, float]) -> dict[str, int]:
+def saturated_counts(matrix: CriteriaMatrix, criteria, levels: dict[str, float]) -> dict[str, int]:
     """Criterion key to the number of corridors whose value is past its level [-]."""
     spec = {c.key: c for c in criteria}
     out = {}
     for key, level in levels.items():
-        if key not in matrix.columns:
+        if key not in matrix.keys:
             continue
-        col = matrix[key].to_numpy(dtype=float)
+        col = matrix.column(key)
         past = col > level if spec[key].is_benefit else col < level
         out[key] = int(past.sum())
     return out

@@ -7,10 +7,10 @@ column is in the matrix handed in; a missing value (NaN) is not judged.
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
 
 from ..errors import InputError, Problem
 from ..workbook.tables import CRITERIA, CriterionSpec, Inputs
+from .matrix import CriteriaMatrix
 
 #: Limit field to (how a failure compares, label).
 RULES = {
@@ -31,15 +31,14 @@ def _limit_cell(inputs: Inputs, criteria: list[CriterionSpec], rule: str, key: s
 
 
 def screen(
-    matrix: pd.DataFrame, criteria: list[CriterionSpec], inputs: Inputs
-) -> tuple[pd.Index, list[dict]]:
+    matrix: CriteriaMatrix, criteria: list[CriterionSpec], inputs: Inputs
+) -> tuple[np.ndarray, list[dict]]:
     """Apply the ``at_least`` / ``at_most`` limits of the Criteria sheet.
 
     Parameters
     ----------
-    matrix : DataFrame
-        Criteria matrix, index corridor_id, one column per criterion
-        [unit of each criterion].
+    matrix : CriteriaMatrix
+        Corridors by criteria [unit of each criterion].
     criteria : list of CriterionSpec
         Criteria with their limits [unit of each criterion].
     inputs : Inputs
@@ -47,8 +46,8 @@ def screen(
 
     Returns
     -------
-    kept : Index
-        corridor_id of the corridors meeting every limit, in matrix order.
+    kept : ndarray of bool
+        Per corridor (matrix row), whether it meets every limit.
     excluded : list of dict
         One entry per limit failed (a corridor failing two limits appears
         twice), in matrix order then criteria order: ``corridor_id``,
@@ -65,12 +64,12 @@ def screen(
     Examples
     --------
     >>> from pathlib import Path
-    >>> from ranker.workbook.tables import CriterionSpec, Inputs
-    >>> m = pd.DataFrame({"trucks": [900.0, 4000.0]}, index=pd.Index(["A", "B"], name="corridor_id"))
+    >>> from ranker.workbook.tables import CriterionSpec, Inputs, SheetRows
+    >>> m = CriteriaMatrix(["A", "B"], ["trucks"], np.array([[900.0], [4000.0]]))
     >>> spec = [CriterionSpec("trucks", "Trucks", "benefit", at_least=1000.0)]
-    >>> kept, out = screen(m, spec, Inputs(Path("x.xlsx"), "", m, spec, []))
-    >>> list(kept), out[0]["shortfall"]
-    (['B'], 100.0)
+    >>> kept, out = screen(m, spec, Inputs(Path("x.xlsx"), "", SheetRows({}), spec, []))
+    >>> kept.tolist(), out[0]["corridor_id"], out[0]["shortfall"]
+    ([False, True], 'A', 100.0)
     """
     failed = np.zeros(len(matrix), dtype=bool)
     hits: list[tuple[int, int, dict]] = []
@@ -78,7 +77,7 @@ def screen(
     for c_pos, spec in enumerate(criteria):
         if spec.key not in matrix.columns:
             continue
-        values = matrix[spec.key].to_numpy(dtype=float)
+        values = matrix.column(spec.key)
         for rule, (fails, _) in RULES.items():
             limit = getattr(spec, rule)
             if limit is None:
@@ -87,13 +86,13 @@ def screen(
             if bad.any():
                 used.append((rule, spec.key))
             failed |= bad
-            for i in np.flatnonzero(bad):
+            for i in np.flatnonzero(bad).tolist():
                 hits.append(
                     (
                         i,
                         c_pos,
                         {
-                            "corridor_id": matrix.index[i],
+                            "corridor_id": matrix.ids[i],
                             "criterion": spec.key,
                             "value": float(values[i]),
                             "limit": float(limit),
@@ -115,4 +114,4 @@ def screen(
             for rule, key in used
         ]
         raise InputError(problems)
-    return matrix.index[~failed], excluded
+    return ~failed, excluded

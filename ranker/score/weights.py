@@ -29,10 +29,9 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-import pandas as pd
 
 from ..input_warnings import warning
-from ..workbook.tables import PAIRWISE, Inputs, WeightSet
+from ..workbook.tables import PAIRWISE, Inputs, WeightSet, floats
 from .ahp import (
     CR_LIMIT,
     DEFAULT_RI_TABLE,
@@ -41,6 +40,7 @@ from .ahp import (
     revise_triple,
     triple_inconsistency,
 )
+from .matrix import CriteriaMatrix
 from .objective_weights import critic_weights, entropy_weights
 from .rank_weights import RANK_WEIGHTS, weights_from_ranks
 
@@ -126,7 +126,9 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
     ]
     ri = {k: rows.index(k) for k in keys}
     ci = {k: cols.index(k) for k in keys}
-    raw = pw.to_numpy(dtype=float, na_value=np.nan)
+    raw = (
+        np.array([floats(pw[c]) for c in pw.columns], dtype=float).reshape(len(cols), len(rows)).T
+    )
 
     def typed(p: str, q: str) -> float:
         return float(raw[ri[p], ci[q]])
@@ -222,9 +224,9 @@ def _pairwise_set(inputs: Inputs, keys: list[str]) -> ResolvedWeights:
     )
 
 
-def _objective_sets(matrix: pd.DataFrame, keys: list[str], inputs: Inputs, taken: set[str]):
+def _objective_sets(matrix: CriteriaMatrix, keys: list[str], inputs: Inputs, taken: set[str]):
     benefit = {c.key: c.is_benefit for c in inputs.criteria}
-    x = matrix[keys].to_numpy(dtype=float)
+    x = matrix.select(keys)
     is_benefit = np.array([benefit.get(k, True) for k in keys])
     warns = []
     negative = x.min(axis=0) < 0
@@ -258,7 +260,7 @@ def _objective_sets(matrix: pd.DataFrame, keys: list[str], inputs: Inputs, taken
 
 
 def resolve_weight_sets(
-    inputs: Inputs, matrix: pd.DataFrame, assumptions: dict
+    inputs: Inputs, matrix: CriteriaMatrix, assumptions: dict
 ) -> list[ResolvedWeights]:
     """Resolve every weight set of the workbook, then the objective reference sets.
 
@@ -267,9 +269,8 @@ def resolve_weight_sets(
     inputs : Inputs
         The typed workbook (weight sets, criteria, pairwise matrix, cell
         coordinates for messages).
-    matrix : DataFrame
-        Criteria matrix, index corridor_id, one column per included criterion
-        [unit of each criterion].
+    matrix : CriteriaMatrix
+        Corridors by included criteria [unit of each criterion].
     assumptions : dict
         Resolved assumptions (``rank_weights``).
 
@@ -291,19 +292,19 @@ def resolve_weight_sets(
     Examples
     --------
     >>> from pathlib import Path
-    >>> from ranker.workbook.tables import CriterionSpec, Inputs, WeightSet
+    >>> from ranker.workbook.tables import CriterionSpec, Inputs, SheetRows, WeightSet
     >>> crit = [CriterionSpec("cost", "Cost", "cost", row=2),
     ...         CriterionSpec("trucks", "Trucks", "benefit", row=3)]
-    >>> inp = Inputs(Path("x.xlsx"), "", pd.DataFrame(), crit,
+    >>> inp = Inputs(Path("x.xlsx"), "", SheetRows({}), crit,
     ...              [WeightSet("default", {"cost": 1.0, "trucks": 3.0}, "D")])
-    >>> m = pd.DataFrame({"cost": [1.0, 2.0, 4.0], "trucks": [5.0, 9.0, 7.0]})
+    >>> m = CriteriaMatrix([0, 1, 2], ["cost", "trucks"], np.array([[1.0, 5.0], [2.0, 9.0], [4.0, 7.0]]))
     >>> sets = resolve_weight_sets(inp, m, {"rank_weights": "roc"})
     >>> sets[0].weights
     {'cost': 0.25, 'trucks': 0.75}
     >>> [s.name for s in sets]
     ['default', 'entropy', 'critic']
     """
-    keys = [str(k) for k in matrix.columns]
+    keys = [str(k) for k in matrix.keys]
     method = str(assumptions.get("rank_weights", "roc"))
     out = [
         _rank_set(ws, keys, method) if ws.kind == "rank" else _points_set(ws, keys)

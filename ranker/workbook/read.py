@@ -60,7 +60,7 @@ from ranker.workbook.units import nearest
 CELL_CHARS = 32_767
 
 
-def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
+def read_workbook(path: Path, *, limits: Limits = LIMITS, frames: bool = True) -> Inputs:
     """Read and check the input workbook.
 
     Parameters
@@ -69,6 +69,11 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
         The input workbook (``.xlsx``, or ``.xlsm`` whose macros are ignored).
     limits : Limits, optional
         Size limits (default :data:`LIMITS`).
+    frames : bool, optional
+        Return the tables as DataFrames (default). False leaves them the
+        plain rows the reader typed (:class:`~ranker.workbook.tables.SheetRows`;
+        ``Inputs.as_frames`` converts them later): ``ranker check`` and the
+        checks and derivation of ``ranker run`` read them so, without pandas.
 
     Returns
     -------
@@ -105,38 +110,14 @@ def read_workbook(path: Path, *, limits: Limits = LIMITS) -> Inputs:
     inputs = build(grids, problems, warn)
     problems.items.sort(key=lambda p: _place_order(p.where))
     problems.raise_if_any()
-    _as_frames(inputs)
     inputs.path = path
     inputs.sha256 = sha
     inputs.snapshot = pre.data
     inputs.sheet_names = sheet_names
     inputs.warnings = warn
+    if frames:
+        inputs.as_frames()
     return inputs
-
-
-#: The fields of :class:`Inputs` the reader fills with :class:`~ranker.workbook.tables.SheetRows`.
-TABLE_FIELDS = (
-    "corridors",
-    "jurisdictions",
-    "corridor_miles",
-    "adoption",
-    "pairwise",
-    "budget",
-    "scenarios",
-    "places",
-)
-
-
-def _as_frames(inputs: Inputs) -> None:
-    """Make every table the reader typed into the DataFrame the later stages read.
-
-    Called only once every cell has passed, so a refused workbook never
-    imports pandas.
-    """
-    for name in TABLE_FIELDS:
-        rows = getattr(inputs, name)
-        if rows is not None:
-            setattr(inputs, name, rows.frame())
 
 
 _PLACE = re.compile(r"^([A-Z]*)(\d*)(?::([A-Z]*)(\d*))?$")

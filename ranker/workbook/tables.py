@@ -7,9 +7,12 @@ twin the planner typed (``length_km`` becomes ``length_mi``).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
+
+import numpy as np
 
 if TYPE_CHECKING:  # annotations only: the reader itself never imports pandas
     import pandas as pd
@@ -95,6 +98,38 @@ class WeightSet:
     kind: str = "points"
 
 
+def floats(values) -> np.ndarray:
+    """Return a table column as floats: NaN where blank or not a number.
+
+    Takes a :class:`SheetRows` column (a list) or a DataFrame column alike,
+    and reads them as ``pandas.to_numeric(values, errors="coerce")`` does
+    the reader's values (numbers, None, text that spells a number).
+
+    Examples
+    --------
+    >>> floats([1, None, "2.5", "ten"])
+    array([1. , nan, 2.5, nan])
+    """
+    try:
+        return np.array(values, dtype=float)
+    except (TypeError, ValueError):
+        return np.array([_float_or_nan(v) for v in values], dtype=float)
+
+
+def _float_or_nan(value: object) -> float:
+    if value is None:
+        return math.nan
+    try:
+        return float(value)
+    except (TypeError, ValueError):
+        return math.nan
+
+
+def blank(values) -> np.ndarray:
+    """Return where a table column is blank (None or NaN), as a bool array."""
+    return np.array([v is None or (isinstance(v, float) and v != v) for v in values], dtype=bool)
+
+
 @dataclass(frozen=True)
 class SheetRows:
     """One table sheet's typed rows in plain Python, before they become a DataFrame.
@@ -170,13 +205,28 @@ class SheetRows:
         return df
 
 
+#: The fields of :class:`Inputs` the reader fills with :class:`SheetRows`.
+TABLE_FIELDS = (
+    "corridors",
+    "jurisdictions",
+    "corridor_miles",
+    "adoption",
+    "pairwise",
+    "budget",
+    "scenarios",
+    "places",
+)
+
+
 @dataclass
 class Inputs:
     """Everything the workbook says, typed and checked.
 
-    The tables are DataFrames once :func:`ranker.workbook.read_workbook`
-    returns; while the reader types and cross-checks them they are
-    :class:`SheetRows`.
+    The tables are DataFrames, or :class:`SheetRows` (plain Python rows)
+    where the workbook was read with ``read_workbook(path, frames=False)``:
+    ``ranker check`` and the checks and derivation of ``ranker run`` read
+    them so, and ``ranker run`` makes them DataFrames (:meth:`as_frames`)
+    before scoring. The columns and index are the same either way.
 
     Attributes
     ----------
@@ -247,6 +297,18 @@ class Inputs:
     sheet_names: list[str] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
     snapshot: bytes = field(default=b"", repr=False)
+
+    def as_frames(self) -> None:
+        """Make every table typed as :class:`SheetRows` the DataFrame later stages read.
+
+        ``ranker run`` calls it once the inputs are checked and derived;
+        ``ranker check`` never does, so it needs no pandas. Tables that are
+        DataFrames already are left as they are.
+        """
+        for name in TABLE_FIELDS:
+            rows = getattr(self, name)
+            if isinstance(rows, SheetRows):
+                setattr(self, name, rows.frame())
 
     @property
     def included(self) -> list[CriterionSpec]:

@@ -252,19 +252,19 @@ def test_doubling_length_with_everything_per_mile_equal_doubles_energy(length, c
 def test_energy_cap_record_names_the_capped_corridors_earliest_first():
     from ranker.derive.run import energy_cap_warnings
 
-    assert energy_cap_warnings(pd.DataFrame({"x": [1]})) == []  # revenue not derived
-    none = pd.DataFrame({"energy_capped_from_year": [np.nan, np.nan]}, index=["A", "B"])
-    assert energy_cap_warnings(none) == []
-    two = pd.DataFrame(
-        {"energy_capped_from_year": [2035.0, np.nan, 2031.0], "energy_capped_last_year": [2040.0, np.nan, 2045.0]},
-        index=["A", "B", "C"],
-    )  # fmt: skip
-    assert energy_cap_warnings(two) == [
+    assert energy_cap_warnings(["A"], {"x": np.array([1.0])}) == []  # revenue not derived
+    none = {"energy_capped_from_year": np.array([np.nan, np.nan])}
+    assert energy_cap_warnings(["A", "B"], none) == []
+    two = {
+        "energy_capped_from_year": np.array([2035.0, np.nan, 2031.0]),
+        "energy_capped_last_year": np.array([2040.0, np.nan, 2045.0]),
+    }
+    assert energy_cap_warnings(["A", "B", "C"], two) == [
         {"kind": "energy_capped", "corridors": ["C", "A"], "from_years": [2031, 2035],
          "last_year": 2045}
     ]  # fmt: skip
-    only_first = pd.DataFrame({"energy_capped_from_year": [2030.0, 2030.0]}, index=["B", "A"])
-    (record,) = energy_cap_warnings(only_first)
+    only_first = {"energy_capped_from_year": np.array([2030.0, 2030.0])}
+    (record,) = energy_cap_warnings(["B", "A"], only_first)
     assert record["corridors"] == ["B", "A"] and record["last_year"] is None  # ties: sheet order
 
 
@@ -273,6 +273,6 @@ def test_a_derived_cap_reaches_the_record():
 
     a = resolve({"utilization_ceiling": 0.001})
     d = derive_criteria(make_inputs(three_corridors()), a, ["charging_revenue"])
-    (record,) = energy_cap_warnings(d.sizing)
+    (record,) = energy_cap_warnings(d.ids, d.columns)
     assert record["corridors"] == [str(c) for c in d.sizing.index]
     assert record["from_years"] == [int(a["analysis_year"])] * len(d.sizing)

@@ -6,6 +6,7 @@ import pandas as pd
 import pytest
 
 from ranker.errors import InputError
+from ranker.score.matrix import CriteriaMatrix
 from ranker.score.screen import screen
 from ranker.workbook.tables import CriterionSpec
 
@@ -17,6 +18,12 @@ MATRIX = pd.DataFrame(
 )
 
 
+def _screen(frame, crit, inputs):
+    """Screen a DataFrame's matrix; return the kept corridors' ids and the exclusions."""
+    kept, excluded = screen(CriteriaMatrix.of(frame), crit, inputs)
+    return list(frame.index[kept]), excluded
+
+
 def _crit(at_least=None, at_most=None):
     return [
         CriterionSpec("trucks", "Trucks", "benefit", at_least=at_least, row=2),
@@ -26,7 +33,7 @@ def _crit(at_least=None, at_most=None):
 
 def test_limits_exclude_and_report_rule_value_limit_shortfall():
     crit = _crit(at_least=1000.0, at_most=20.0)
-    kept, excluded = screen(MATRIX, crit, make_inputs(crit, []))
+    kept, excluded = _screen(MATRIX, crit, make_inputs(crit, []))
     assert list(kept) == ["K1", "K4"]  # K4 sits exactly on the limit and passes
     assert excluded == [
         {
@@ -52,7 +59,7 @@ def test_corridor_failing_two_limits_is_listed_twice():
     crit = _crit(at_least=5000.0, at_most=10.0)
     m = MATRIX.copy()
     m.loc["K5"] = [6000.0, 5.0]
-    kept, excluded = screen(m, crit, make_inputs(crit, []))
+    kept, excluded = _screen(m, crit, make_inputs(crit, []))
     assert list(kept) == ["K5"]
     assert [(e["corridor_id"], e["rule"]) for e in excluded if e["corridor_id"] == "K3"] == [
         ("K3", "at_least"),
@@ -62,14 +69,14 @@ def test_corridor_failing_two_limits_is_listed_twice():
 
 def test_no_limits_keeps_everyone():
     crit = _crit()
-    kept, excluded = screen(MATRIX, crit, make_inputs(crit, []))
+    kept, excluded = _screen(MATRIX, crit, make_inputs(crit, []))
     assert list(kept) == list(MATRIX.index) and excluded == []
 
 
 def test_every_corridor_failing_names_the_limit_cells():
     crit = _crit(at_least=3500.0, at_most=10.0)
     with pytest.raises(InputError) as err:
-        screen(MATRIX, crit, make_inputs(crit, []))
+        _screen(MATRIX, crit, make_inputs(crit, []))
     assert [p.where for p in err.value.problems] == ["Criteria!F2", "Criteria!G3"]
     assert "every corridor fails" in err.value.problems[0].what
 
@@ -78,7 +85,7 @@ def test_exclusions_are_listed_in_corridor_order_then_criterion_order():
     """K1 and K3 fail the cost limit, K2 the trucks limit: listed K1, K2, K3 (the
     corridors' order), not grouped by criterion."""
     crit = _crit(at_least=1000.0, at_most=10.0)
-    _, excluded = screen(MATRIX, crit, make_inputs(crit, []))
+    _, excluded = _screen(MATRIX, crit, make_inputs(crit, []))
     assert [(e["corridor_id"], e["criterion"]) for e in excluded] == [
         ("K1", "capital_cost"),
         ("K2", "trucks"),

@@ -6,6 +6,7 @@ import numpy as np
 import pandas as pd
 import pytest
 
+from ranker.score.matrix import CriteriaMatrix
 from ranker.score.rank_weights import rank_sum_weights, roc_weights
 from ranker.score.weights import resolve_weight_sets
 from ranker.workbook.tables import CriterionSpec, WeightSet
@@ -35,7 +36,7 @@ def _resolve(sets, pairwise=None, assumptions=ASSUME):
         keys = list(pairwise.index)
         inputs.rows["Pairwise"] = {k: i + 2 for i, k in enumerate(keys)}
         inputs.columns["Pairwise"] = {k: "BCDEFG"[i] for i, k in enumerate(keys)}
-    return resolve_weight_sets(inputs, MATRIX, assumptions)
+    return resolve_weight_sets(inputs, CriteriaMatrix.of(MATRIX), assumptions)
 
 
 def test_points_are_rescaled_to_sum_one():
@@ -172,7 +173,9 @@ def test_pairwise_criterion_not_scored_is_a_record():
         [[1, 3, 5], [NAN, 1, 2], [NAN, NAN, 1]], index=keys, columns=keys, dtype=float
     )
     inputs = make_inputs(CRIT, [], columns=COLUMNS, pairwise=pw)
-    out = resolve_weight_sets(inputs, MATRIX[["capital_cost", "trucks"]], ASSUME)
+    out = resolve_weight_sets(
+        inputs, CriteriaMatrix.of(MATRIX[["capital_cost", "trucks"]]), ASSUME
+    )
     assert out[0].warnings == [{"kind": "pairwise_not_scored", "criterion": "readiness"}]
 
 
@@ -184,7 +187,7 @@ def test_pairwise_beyond_the_random_index_table_is_a_record():
     pw = pd.DataFrame(np.ones((11, 11)), index=keys, columns=keys)
     inputs = make_inputs(crit, [], pairwise=pw)
     matrix = pd.DataFrame(np.arange(33.0).reshape(3, 11) % 7 + 1, columns=keys)
-    out = resolve_weight_sets(inputs, matrix, ASSUME)
+    out = resolve_weight_sets(inputs, CriteriaMatrix.of(matrix), ASSUME)
     assert out[0].consistency["cr"] is None
     assert out[0].warnings == [
         {
@@ -199,11 +202,13 @@ def test_pairwise_beyond_the_random_index_table_is_a_record():
 def test_entropy_shift_and_too_few_corridors_are_records():
     ws = [WeightSet("default", {"capital_cost": 1, "trucks": 1, "readiness": 1}, "H")]
     inputs = make_inputs(CRIT, ws, columns=COLUMNS)
-    shifted = resolve_weight_sets(inputs, MATRIX.assign(trucks=[-1.0, 2.0, 3.0, 4.0]), ASSUME)
+    shifted = resolve_weight_sets(
+        inputs, CriteriaMatrix.of(MATRIX.assign(trucks=[-1.0, 2.0, 3.0, 4.0])), ASSUME
+    )
     entropy = next(s for s in shifted if s.name == "entropy")
     assert entropy.warnings == [{"kind": "entropy_shifted", "criteria": ["trucks"]}]
     assert shifted[0].warnings == []
-    alone = resolve_weight_sets(inputs, MATRIX.iloc[:1], ASSUME)
+    alone = resolve_weight_sets(inputs, CriteriaMatrix.of(MATRIX.iloc[:1]), ASSUME)
     assert [s.name for s in alone] == ["default"]
     assert alone[0].warnings == [{"kind": "objective_sets_need_two"}]
 
@@ -223,7 +228,9 @@ def test_pairwise_cells_use_the_readers_coordinates_when_recorded():
     inputs = make_inputs(CRIT, [], columns=COLUMNS, pairwise=pw)
     inputs.rows["Pairwise"] = {"capital_cost": 3, "trucks": 2, "readiness": 4}
     inputs.columns["Pairwise"] = {"capital_cost": "C", "trucks": "B", "readiness": "D"}
-    revisit = resolve_weight_sets(inputs, MATRIX, ASSUME)[0].consistency["revisit"]
+    revisit = resolve_weight_sets(inputs, CriteriaMatrix.of(MATRIX), ASSUME)[0].consistency[
+        "revisit"
+    ]
     assert revisit["cell"] == "Pairwise!D3"
 
 

@@ -12,6 +12,7 @@ from __future__ import annotations
 import dataclasses
 from pathlib import Path
 
+import numpy as np
 import pandas as pd
 import pytest
 
@@ -163,21 +164,26 @@ def test_a_workbook_the_reader_refuses_never_loads_pandas(tmp_path):
     """``ranker check`` of a workbook with a bad cell answers before pandas is imported:
     the reader types and cross-checks plain rows and makes DataFrames only of a workbook
     with no problem (SheetRows.frame)."""
-    import subprocess
-    import sys
-
     from ranker.workbook.template import write_template
+    from tests.conftest import check_in_a_fresh_process
 
     path = tmp_path / "empty.xlsx"
     write_template(path)
-    probe = (
-        "import atexit, sys\n"
-        "atexit.register(lambda: print('pandas', 'pandas' in sys.modules))\n"
-        "from ranker.cli import main\n"
-        "sys.argv = ['ranker', 'check', sys.argv[1]]\n"
-        "sys.exit(main())\n"
-    )
-    out = subprocess.run([sys.executable, "-c", probe, str(path)], capture_output=True, text=True)
+    out, pandas = check_in_a_fresh_process(path)
     assert out.returncode == 2, out.stderr
     assert "Corridors!A2: the sheet lists no corridors" in out.stdout + out.stderr
-    assert out.stdout.strip().endswith("pandas False")
+    assert not pandas
+
+
+@pytest.mark.parametrize(
+    "values",
+    [[1.0, None, 2.5], [None, None], [3, "4.5", "ten", None, float("nan")], [], [True, 0]],
+)
+def test_floats_and_blank_read_a_column_as_pandas_does(values):
+    """floats() is pandas.to_numeric(errors="coerce") on the reader's values, and blank()
+    is isna(), for plain lists and for the same column as a DataFrame column."""
+    series = pd.Series(values, dtype=object)
+    want = pd.to_numeric(series, errors="coerce").to_numpy(dtype=float)
+    for given in (values, series):
+        assert np.array_equal(T.floats(given), want, equal_nan=True)
+        assert T.blank(given).tolist() == series.isna().tolist()
