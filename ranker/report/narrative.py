@@ -349,21 +349,21 @@ def pairwise_note(result) -> str:
     return text
 
 
+def _corridor_names(corridors) -> dict:
+    """Corridor id to its name as text, from a SheetRows or a DataFrame of Corridors."""
+    return dict(zip(corridors.index, map(str, corridors["name"]), strict=True))
+
+
 def _namer(result) -> Namer:
     return Namer(
-        result.inputs.corridors["name"].astype(str).to_dict(),
-        {c.key: c.label for c in result.criteria},
+        _corridor_names(result.inputs.corridors), {c.key: c.label for c in result.criteria}
     )
 
 
 def inputs_namer(inputs) -> Namer:
     """Corridor names and included criteria's labels of the inputs, for the warnings'
     words before the run's :class:`~ranker.result.Result` exists."""
-    corridors = inputs.corridors  # SheetRows or DataFrame: ids and names alike
-    return Namer(
-        dict(zip(corridors.index, map(str, corridors["name"]), strict=True)),
-        {c.key: c.label for c in inputs.included},
-    )
+    return Namer(_corridor_names(inputs.corridors), {c.key: c.label for c in inputs.included})
 
 
 def tipping_sentence(record: dict, namer) -> str:
