@@ -146,13 +146,24 @@ def main() -> None:
         )
         print(
             f"\n3. start-up: python -c pass {bare:.3f} s; ranker --help {helps:.3f} s "
-            f"({helps / bare:.1f}x); ranker check demo {check:.3f} s ({check / bare:.1f}x)"
+            f"({helps / bare:.1f}x); ranker check demo {check:.3f} s ({check / bare:.1f}x); "
+            f"check imports pandas: {'yes' if _check_loads_pandas(demo) else 'no'}"
         )
     print(
         f"\nreproduce: python bench/e2e.py --runs {opts.runs} --sizes {opts.sizes} "
         f"--criteria {opts.criteria} --scale-samples {opts.scale_samples} "
         f"--scale-runs {opts.scale_runs}"
     )
+
+
+def _check_loads_pandas(path: Path) -> bool:
+    """Whether ``ranker check PATH`` imports pandas (``python -X importtime`` lists it)."""
+    out = subprocess.run(
+        [PY, "-X", "importtime", "-m", "ranker", "check", str(path)],
+        capture_output=True,
+        text=True,
+    )
+    return any(line.rsplit("|", 1)[-1].strip() == "pandas" for line in out.stderr.splitlines())
 
 
 def _compile_ranker() -> list[Path]:
