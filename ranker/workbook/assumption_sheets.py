@@ -15,7 +15,14 @@ from ranker.errors import Problems
 from ranker.workbook import schema as S
 from ranker.workbook import tables as T
 from ranker.workbook import units as U
-from ranker.workbook.sheets import Cell, CellValueError, Table, raw, read_records
+from ranker.workbook.sheets import (
+    Cell,
+    CellValueError,
+    Table,
+    raw,
+    read_records,
+    record_columns,
+)
 
 
 def parse_assumption(a: Assumption, cell: Cell) -> object:
@@ -200,5 +207,4 @@ def read_scenarios(t: Table, problems: Problems, inputs: T.Inputs) -> T.SheetRow
             _clash(t, a.key, (typed, r), first[:2], rec["scenario"], problems)
     inputs.rows[T.SCENARIOS] = {i: rec["_row"] for i, rec in enumerate(recs)}
     keys = ("scenario", "key", "value")
-    data = {k: [rec.get(k) for rec in recs] for k in keys}
-    return T.SheetRows(data, dtypes=dict.fromkeys(keys, "object"))
+    return T.SheetRows(record_columns(recs, keys), dtypes=dict.fromkeys(keys, "object"))

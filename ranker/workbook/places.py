@@ -12,7 +12,7 @@ from ranker.errors import Problems
 from ranker.workbook import schema as S
 from ranker.workbook import tables as T
 from ranker.workbook import units as U
-from ranker.workbook.sheets import Table, read_records
+from ranker.workbook.sheets import Table, read_records, record_columns
 
 
 def place_key(text: object) -> str:
@@ -48,7 +48,7 @@ def read_places(t: Table, problems: Problems, inputs: T.Inputs) -> T.SheetRows |
         if rec.get("name") is None:
             rec["name"] = rec.get("place")
     inputs.rows[T.PLACES] = {rec["place"]: rec["_row"] for rec in recs if rec.get("place")}
-    data = {k: [rec.get(k) for rec in recs] for k in ("place", "name", "lat", "lon")}
+    data = record_columns(recs, ("place", "name", "lat", "lon"))
     return T.SheetRows(data, key="place", numbers=("lat", "lon"))
 
 

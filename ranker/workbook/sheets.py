@@ -300,7 +300,7 @@ def unique(t: Table, recs: list[dict], key: str, problems: Problems) -> None:
             first[k] = rec["_row"]
 
 
-def _columns(recs: list[dict], keys: list[str]) -> dict[str, list]:
+def record_columns(recs: list[dict], keys) -> dict[str, list]:
     """Each key's value in every record, in record order (None where absent)."""
     return {k: [rec.get(k) for rec in recs] for k in keys}
 
@@ -336,7 +336,7 @@ def read_corridors(t: Table, problems: Problems, inputs: T.Inputs):
             text_cols[key] = not_a_number
     keys = ["name"] + (["connects"] if "connects" in t.cols else [])
     keys += [f.key for f in S.CORRIDOR_FIELDS[3:] if f.key in t.cols]
-    data = _columns(recs, ["corridor_id"] + keys)
+    data = record_columns(recs, ["corridor_id"] + keys)
     data.update(extra_values)
     rows = T.SheetRows(
         data,
@@ -421,7 +421,7 @@ def read_jurisdictions(t: Table, problems: Problems, inputs: T.Inputs) -> T.Shee
     inputs.rows[T.JURISDICTIONS] = {
         rec["jurisdiction"]: rec["_row"] for rec in recs if rec.get("jurisdiction") is not None
     }
-    data = _columns(recs, ["jurisdiction", "name", "readiness"])
+    data = record_columns(recs, ["jurisdiction", "name", "readiness"])
     return T.SheetRows(data, key="jurisdiction", numbers=("readiness",))
 
 
@@ -475,7 +475,7 @@ def read_corridor_miles(t, problems, inputs, corridors, jurisdictions) -> T.Shee
             else:
                 seen[pair] = r
     inputs.rows[T.CORRIDOR_MILES] = {i: rec["_row"] for i, rec in enumerate(recs)}
-    data = _columns(recs, ["corridor_id", "jurisdiction", "miles"])
+    data = record_columns(recs, ["corridor_id", "jurisdiction", "miles"])
     return T.SheetRows(data, numbers=("miles",))
 
 
@@ -500,7 +500,7 @@ def read_by_year(t, problems, inputs, value_key: str) -> T.SheetRows | None:
     recs = sorted(recs, key=lambda rec: (rec.get("year") is None, rec.get("year") or 0))
     keys = ["year", value_key] + (["note"] if "note" in t.cols else [])
     inputs.rows[t.sheet] = {i: rec["_row"] for i, rec in enumerate(recs)}
-    return T.SheetRows(_columns(recs, keys), numbers=(value_key,), whole=("year",))
+    return T.SheetRows(record_columns(recs, keys), numbers=(value_key,), whole=("year",))
 
 
 def formula_outside(grid: Grid, problems: Problems) -> None:
