@@ -21,13 +21,13 @@ from .assumptions import resolve
 from .errors import InputError, Problem, Problems
 from .progress import stage
 from .result import DEFAULT_SAMPLES, DEFAULT_SEED, Result
-from .score.matrix import CriteriaMatrix
 from .workbook.tables import CORRIDORS, CRITERIA, CriterionSpec, Inputs, floats
 
 if TYPE_CHECKING:  # annotations only (pandas is loaded once a workbook has been read)
     import pandas as pd
 
     from .derive.run import Derivation
+    from .score.matrix import CriteriaMatrix
     from .score.weights import ResolvedWeights
 
 #: Most Monte Carlo samples a run takes (memory grows with samples x corridors).
@@ -347,6 +347,7 @@ def build_matrix(inputs: Inputs, assumptions: dict):
     derivation : Derivation or None
     """
     from .derive import BUILT_IN, derive_criteria
+    from .score.matrix import CriteriaMatrix
 
     corridors = inputs.corridors
     ids = list(corridors.index)
